@@ -1,0 +1,35 @@
+package main
+
+import (
+	"io"
+	"os"
+)
+
+// env is what a command may touch of the outside world. Tests build one
+// with buffers and a temporary config directory.
+type env struct {
+	stdin  io.Reader
+	stdout io.Writer
+	stderr io.Writer
+	// getenv reads an environment variable (NO_COLOR, XDG_CONFIG_HOME, HOME, EDITOR).
+	getenv func(string) string
+	// isTTY reports whether stdout is a terminal (colour, width).
+	isTTY bool
+}
+
+// newEnv returns the process's real environment.
+func newEnv() *env {
+	return &env{
+		stdin:  os.Stdin,
+		stdout: os.Stdout,
+		stderr: os.Stderr,
+		getenv: os.Getenv,
+		isTTY:  isTerminal(os.Stdout),
+	}
+}
+
+// isTerminal reports whether f is a character device (a terminal).
+func isTerminal(f *os.File) bool {
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}

@@ -1,0 +1,80 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+)
+
+// command is one subcommand of opsift.
+type command struct {
+	name    string
+	summary string
+	run     func(e *env, args []string) error
+}
+
+// commands lists the subcommands in the order --help shows them.
+func commands() []command {
+	return []command{
+		{"rank", "rank the catalog's parts for a design", runRank},
+		{"derive", "show what a design needs from the op-amp, with formulas", runDerive},
+		{"check", "validate catalog files and summarise them", runCheck},
+		{"replace", "find parts that can take a part's place", runReplace},
+		{"preview", "simulate a part in a design's stage and plot it", runPreview},
+		{"init", "write a starter catalog and design to edit", runInit},
+	}
+}
+
+// run dispatches to a subcommand, or starts the interactive selector.
+func run(args []string, e *env) error {
+	if len(args) > 0 {
+		switch args[0] {
+		case "-h", "--help", "help":
+			fmt.Fprint(e.stdout, mainHelp())
+			return nil
+		case "--version", "version":
+			fmt.Fprintf(e.stdout, "opsift %s\n", version)
+			return nil
+		}
+		for _, c := range commands() {
+			if c.name == args[0] {
+				return c.run(e, args[1:])
+			}
+		}
+		if !strings.HasPrefix(args[0], "-") {
+			return usageError("unknown command %q (see opsift --help)", args[0])
+		}
+	}
+	return runSelector(e, args)
+}
+
+// caution is printed in --help and carried by every export.
+const caution = "Results are advisory: verify every figure against the current manufacturer " +
+	"datasheet. Mains-powered, medical and safety-critical designs need the applicable " +
+	"standards, local codes and qualified review."
+
+// mainHelp is the text of opsift --help.
+func mainHelp() string {
+	var b strings.Builder
+	b.WriteString(`opsift — choose an op-amp for a circuit, at worst case
+
+Usage:
+  opsift [--catalog PATH]... [--design FILE]    interactive selector
+  opsift COMMAND [options]
+
+Commands:
+`)
+	for _, c := range commands() {
+		fmt.Fprintf(&b, "  %-8s %s\n", c.name, c.summary)
+	}
+	b.WriteString(`
+Run "opsift COMMAND --help" for a command's options.
+
+Catalog sources: --catalog FILE|DIR (repeatable; later overrides earlier by id).
+Without --catalog: $XDG_CONFIG_HOME/opsift/catalog.d (else ~/.config/opsift/catalog.d)
+if it exists, else the embedded demo catalog. Without --design: the embedded demo design.
+
+Exit status: 0 success; 1 check found problems; 2 bad usage or an unreadable or invalid input file.
+
+Caution: ` + caution + "\n")
+	return b.String()
+}

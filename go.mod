@@ -1,0 +1,3 @@
+module github.com/opsift/opsift
+
+go 1.26.8
