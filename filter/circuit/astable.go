@@ -1,0 +1,182 @@
+package circuit
+
+import "math"
+
+// The op-amp relaxation oscillator (astable multivibrator), as drawn in
+// Sedra & Smith, Microelectronic Circuits, bistable and astable
+// multivibrators (from memory):
+//
+//	output ──R──┬── inverting input        (timing: R to C, C to the reference)
+//	            C
+//	           ref
+//	output ──R2──┬── non-inverting input   (hysteresis: R2 to the output, R1 to ref)
+//	             R1
+//	            ref
+//
+// The output sits at VOH or VOL; the capacitor charges toward it through R
+// until it reaches the threshold on the non-inverting input, the output
+// flips, and the capacitor turns back. β = R1/(R1 + R2).
+
+// HysteresisBeta returns the feedback fraction of the hysteresis divider,
+// β = R1/(R1 + R2), with R1 from the non-inverting input to the reference
+// and R2 from it to the output.
+func HysteresisBeta(r1, r2 float64) float64 {
+	return r1 / (r1 + r2)
+}
+
+// Thresholds returns the switching thresholds of the astable for output
+// levels vol and voh: VTH = ref + β·(VOH − ref) while the output is high and
+// VTL = ref + β·(VOL − ref) while it is low (divider superposition).
+func Thresholds(ref, beta, vol, voh float64) (vth, vtl float64) {
+	return ref + beta*(voh-ref), ref + beta*(vol-ref)
+}
+
+// HighTime returns how long the output stays at voh: the capacitor charges
+// from vtl toward voh through R until it reaches vth,
+// t_high = RC·ln((VOH − VTL)/(VOH − VTH)) (first-order RC step response;
+// Sedra & Smith, from memory). It wants vtl < vth < voh.
+func HighTime(r, c, voh, vth, vtl float64) (float64, error) {
+	const fn = "astable high time"
+	if err := checkRC(fn, r, c); err != nil {
+		return 0, err
+	}
+	if !(vtl < vth) {
+		return 0, domainErr(fn, "vtl", vtl, "vtl < vth")
+	}
+	if !(vth < voh) {
+		return 0, domainErr(fn, "vth", vth, "vth < voh")
+	}
+	return r * c * math.Log((voh-vtl)/(voh-vth)), nil
+}
+
+// LowTime returns how long the output stays at vol: the capacitor
+// discharges from vth toward vol until it reaches vtl,
+// t_low = RC·ln((VTH − VOL)/(VTL − VOL)) (Sedra & Smith, from memory). It
+// wants vol < vtl < vth.
+func LowTime(r, c, vol, vth, vtl float64) (float64, error) {
+	const fn = "astable low time"
+	if err := checkRC(fn, r, c); err != nil {
+		return 0, err
+	}
+	if !(vtl < vth) {
+		return 0, domainErr(fn, "vtl", vtl, "vtl < vth")
+	}
+	if !(vol < vtl) {
+		return 0, domainErr(fn, "vtl", vtl, "vol < vtl")
+	}
+	return r * c * math.Log((vth-vol)/(vtl-vol)), nil
+}
+
+// AstablePeriod returns the ideal period t_high + t_low of the astable with
+// timing R and C, reference ref, divider fraction beta and output levels
+// vol and voh (instant output transitions). It wants 0 < β < 1 and
+// vol < ref < voh.
+func AstablePeriod(r, c, ref, beta, vol, voh float64) (float64, error) {
+	th, tl, err := astableTimes(r, c, ref, beta, vol, voh)
+	return th + tl, err
+}
+
+// AstableFrequency returns 1/AstablePeriod.
+func AstableFrequency(r, c, ref, beta, vol, voh float64) (float64, error) {
+	t, err := AstablePeriod(r, c, ref, beta, vol, voh)
+	if err != nil {
+		return 0, err
+	}
+	return 1 / t, nil
+}
+
+// AstableDuty returns the share of the ideal period the output is high,
+// t_high/(t_high + t_low); 0.5 when the levels sit symmetric about ref.
+func AstableDuty(r, c, ref, beta, vol, voh float64) (float64, error) {
+	th, tl, err := astableTimes(r, c, ref, beta, vol, voh)
+	if err != nil {
+		return 0, err
+	}
+	return th / (th + tl), nil
+}
+
+// AstablePeriodSymmetric returns the ideal period when the output levels sit
+// symmetric about the reference, T = 2RC·ln((1 + β)/(1 − β)) (Sedra & Smith,
+// from memory); it does not depend on the swing. It wants 0 < β < 1.
+func AstablePeriodSymmetric(r, c, beta float64) (float64, error) {
+	const fn = "astable symmetric period"
+	if err := checkRC(fn, r, c); err != nil {
+		return 0, err
+	}
+	if !(beta > 0 && beta < 1) {
+		return 0, domainErr(fn, "beta", beta, "0 < beta < 1")
+	}
+	return 2 * r * c * math.Log((1+beta)/(1-beta)), nil
+}
+
+// AstableVdiff returns the largest differential input voltage of the
+// astable in ideal operation, VTH − VTL = β·(VOH − VOL): at each switching
+// instant the capacitor sits at one threshold while the non-inverting input
+// jumps to the other.
+func AstableVdiff(beta, vol, voh float64) float64 {
+	return beta * (voh - vol)
+}
+
+// AstableOutputCurrent returns the largest current the astable's output
+// drives (source or sink, as a magnitude): just after each switch the timing
+// resistor carries (VOH − VTL)/R or (VTH − VOL)/R, and the divider carries
+// (VOH − ref)/(R1 + R2) or (ref − VOL)/(R1 + R2).
+func AstableOutputCurrent(r, r1, r2, ref, vol, voh float64) float64 {
+	vth, vtl := Thresholds(ref, HysteresisBeta(r1, r2), vol, voh)
+	src := (voh-vtl)/r + (voh-ref)/(r1+r2)
+	sink := (vth-vol)/r + (ref-vol)/(r1+r2)
+	return math.Max(src, sink)
+}
+
+// SlewForAstable returns the slew rate at which the two full-swing output
+// transitions of one cycle, each (VOH − VOL)/SR long, take no more than
+// share (0…1) of the period: SR = 2·(VOH − VOL)/(share·period).
+//
+// The frequency actually lost is smaller than share: the capacitor moves
+// toward the new level while the output ramps, so in the symmetric case the
+// period grows by about 2τ/(1 + β) rather than 2τ (τ the transition time;
+// see AstablePeriodSlewLimited). The bound is conservative.
+func SlewForAstable(vol, voh, period, share float64) float64 {
+	return 2 * (voh - vol) / (share * period)
+}
+
+func astableTimes(r, c, ref, beta, vol, voh float64) (th, tl float64, err error) {
+	vth, vtl, err := astableThresholds("astable period", ref, beta, vol, voh)
+	if err != nil {
+		return 0, 0, err
+	}
+	if th, err = HighTime(r, c, voh, vth, vtl); err != nil {
+		return 0, 0, err
+	}
+	if tl, err = LowTime(r, c, vol, vth, vtl); err != nil {
+		return 0, 0, err
+	}
+	return th, tl, nil
+}
+
+// astableThresholds checks the operating conditions 0 < β < 1 and
+// vol < ref < voh (which give vol < vtl < vth < voh) and returns the
+// thresholds.
+func astableThresholds(fn string, ref, beta, vol, voh float64) (vth, vtl float64, err error) {
+	if !(beta > 0 && beta < 1) {
+		return 0, 0, domainErr(fn, "beta", beta, "0 < beta < 1")
+	}
+	if !(vol < ref) {
+		return 0, 0, domainErr(fn, "vol", vol, "vol below ref")
+	}
+	if !(ref < voh) {
+		return 0, 0, domainErr(fn, "voh", voh, "voh above ref")
+	}
+	vth, vtl = Thresholds(ref, beta, vol, voh)
+	return vth, vtl, nil
+}
+
+func checkRC(fn string, r, c float64) error {
+	if !positive(r) {
+		return domainErr(fn, "r", r, "a resistance above 0")
+	}
+	if !positive(c) {
+		return domainErr(fn, "c", c, "a capacitance above 0")
+	}
+	return nil
+}

@@ -1,0 +1,75 @@
+package circuit
+
+import "math"
+
+// SlewForSine returns the slew rate a sine of frequency f and peak vpeak
+// needs at its zero crossing, SR = 2π·f·Vp (d/dt of Vp·sin 2πft at t = 0).
+func SlewForSine(f, vpeak float64) float64 {
+	return 2 * math.Pi * f * vpeak
+}
+
+// SlewForStep returns the slew rate that moves a step of vstep from its 10 %
+// to its 90 % point within rise1090, SR = 0.8·Vstep/t(10–90).
+func SlewForStep(vstep, rise1090 float64) float64 {
+	return TenToNinety * math.Abs(vstep) / rise1090
+}
+
+// SlewForTransition returns the slew rate an op-amp used as a comparator
+// needs to move its output between the levels vol and voh within t, where t
+// is the 10–90 % transition time: SR = 0.8·|VOH − VOL|/t.
+func SlewForTransition(vol, voh, t float64) float64 {
+	return SlewForStep(voh-vol, t)
+}
+
+// FullPowerBandwidth returns the highest frequency at which an output of
+// peak vpeak stays an undistorted sine for slew rate sr, f = SR/(2π·Vp) (the
+// inverse of SlewForSine).
+func FullPowerBandwidth(sr, vpeak float64) float64 {
+	return sr / (2 * math.Pi * vpeak)
+}
+
+// ClosedLoopBandwidth returns the −3 dB bandwidth of a loop around a
+// single-pole op-amp, f3 = GBW/NG.
+func ClosedLoopBandwidth(gbw, ng float64) float64 {
+	return gbw / ng
+}
+
+// GainErrorAt returns the magnitude error of the closed-loop gain at
+// frequency f for a single-pole op-amp of gain-bandwidth gbw in a loop of
+// noise gain ng: ε = 1 − 1/√(1 + (NG·f/GBW)²), from A_cl = A_ideal/(1 + j·NG·f/GBW)
+// (single-pole loop; Sedra & Smith, from memory).
+func GainErrorAt(gbw, ng, f float64) float64 {
+	x := ng * f / gbw
+	return 1 - 1/math.Sqrt(1+x*x)
+}
+
+// GBWForGainError returns the gain-bandwidth that keeps the closed-loop gain
+// magnitude error at frequency f within eps (0 < ε < 1) in a loop of noise
+// gain ng: GBW = NG·f/√(1/(1−ε)² − 1), the inverse of GainErrorAt
+// (≈ 7.02·NG·f at 1 %; DESIGN.md).
+func GBWForGainError(ng, f, eps float64) (float64, error) {
+	if !(eps > 0 && eps < 1) {
+		return 0, domainErr("gbw for gain error", "eps", eps, "0 < eps < 1")
+	}
+	d := 1 / ((1 - eps) * (1 - eps))
+	return ng * f / math.Sqrt(d-1), nil
+}
+
+// GBWForRise returns the gain-bandwidth that gives a 10–90 % rise time of
+// rise in a loop of noise gain ng: the closed-loop bandwidth must be
+// 0.35/rise (single pole, see RiseBandwidth), so GBW = NG·0.35/rise.
+func GBWForRise(ng, rise float64) float64 {
+	return ng * RiseBandwidth / rise
+}
+
+// AolForGainError returns the open-loop gain, as V/V and in dB, that keeps
+// the DC closed-loop gain error within eps (0 < ε < 1) in a loop of noise
+// gain ng. From A_cl = NG/(1 + NG/Aol) (Sedra & Smith, from memory),
+// ε = (NG/Aol)/(1 + NG/Aol), so Aol = NG·(1 − ε)/ε.
+func AolForGainError(ng, eps float64) (vv, db float64, err error) {
+	if !(eps > 0 && eps < 1) {
+		return 0, 0, domainErr("aol for gain error", "eps", eps, "0 < eps < 1")
+	}
+	vv = ng * (1 - eps) / eps
+	return vv, DB(vv), nil
+}

@@ -1,0 +1,111 @@
+package circuit
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+func TestSlewAndBandwidth(t *testing.T) {
+	tests := []struct {
+		name string
+		got  float64
+		want float64
+	}{
+		// Trade fact (common practice, no source): a 10 Vpp, 20 kHz sine needs
+		// 2π·20 kHz·5 V = 0.6283 V/µs, more than a 0.5 V/µs part has.
+		{"sine 10 Vpp 20 kHz", SlewForSine(20e3, 5), 628318.5307},
+		// Full-power bandwidth SR/(2π·Vp): 0.5 V/µs at 5 V peak = 15.915 kHz
+		// (computed by hand).
+		{"full-power bandwidth 0.5 V/us 5 V", FullPowerBandwidth(0.5e6, 5), 15915.49431},
+		// 10–90 % of a 4 V step in 2 µs: 0.8·4/2e-6 = 1.6 V/µs.
+		{"step 4 V in 2 us", SlewForStep(4, 2e-6), 1.6e6},
+		// Comparator 0.1 V → 4.9 V in 1 µs (10–90 %): 0.8·4.8/1e-6 = 3.84 V/µs.
+		{"comparator 0.1..4.9 V in 1 us", SlewForTransition(0.1, 4.9, 1e-6), 3.84e6},
+		{"comparator falling same", SlewForTransition(4.9, 0.1, 1e-6), 3.84e6},
+		{"closed-loop bandwidth 1 MHz / 10", ClosedLoopBandwidth(1e6, 10), 100e3},
+		// NG·0.35/rise: 5·0.35/1 µs = 1.75 MHz.
+		{"gbw for 1 us rise at NG 5", GBWForRise(5, 1e-6), 1.75e6},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			assertRel(t, tt.name, tt.got, tt.want, 1e-9)
+		})
+	}
+
+	t.Run("0.5 V/us cannot make 10 Vpp at 20 kHz", func(t *testing.T) {
+		// Trade fact (common practice, no source).
+		if need := SlewForSine(20e3, 5); need <= 0.5e6 {
+			t.Errorf("slew for 10 Vpp 20 kHz = %g V/s, want above 0.5 V/µs", need)
+		}
+		if fpbw := FullPowerBandwidth(0.5e6, 5); fpbw >= 20e3 {
+			t.Errorf("full-power bandwidth = %g Hz, want below 20 kHz", fpbw)
+		}
+	})
+
+	t.Run("rise factor against exact single pole", func(t *testing.T) {
+		// A single pole at f3 rises 10→90 % in ln 9/(2π·f3) (from
+		// e^(−t/τ): t90 − t10 = τ·ln 9). 0.35 is the trade rounding.
+		f3 := 123e3
+		rise := math.Log(9) / (2 * math.Pi * f3)
+		assertRel(t, "GBWForRise at NG 1", GBWForRise(1, rise), f3, 1e-3)
+	})
+}
+
+func TestGBWForGainError(t *testing.T) {
+	// DESIGN.md: ≈ 7.02·NG·f at 1 %; 1/√(1/0.99² − 1) = 7.017924 (computed by
+	// hand from the single-pole closed-loop magnitude 1/√(1 + (NG·f/GBW)²)).
+	tests := []struct {
+		name       string
+		ng, f, eps float64
+		want       float64
+	}{
+		{"1 % at NG 1, 1 Hz", 1, 1, 0.01, 7.017923930},
+		{"1 % at NG 11, 2 kHz", 11, 2e3, 0.01, 154394.3265},
+		// 0.1 %: 1/√(1/0.999² − 1) = 22.343906 (python, independent).
+		{"0.1 % at NG 1", 1, 1, 0.001, 22.343906},
+		// 10 %: 1/√(1/0.81 − 1) = 1/√0.234568 = 2.064742.
+		{"10 % at NG 2, 10 kHz", 2, 10e3, 0.1, 41294.84},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			gbw, err := GBWForGainError(tt.ng, tt.f, tt.eps)
+			mustOK(t, err)
+			assertRel(t, "gbw", gbw, tt.want, 1e-5)
+			// The inverse must give the error back.
+			assertRel(t, "round trip", GainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
+		})
+	}
+	for _, eps := range []float64{0, 1, -0.01, 1.5, math.NaN()} {
+		_, err := GBWForGainError(1, 1, eps)
+		var de *DomainError
+		if !errors.As(err, &de) || de.Param != "eps" {
+			t.Errorf("GBWForGainError(eps=%g) error = %v, want a DomainError on eps", eps, err)
+		}
+	}
+}
+
+func TestGainErrorAtMatchesComplexGain(t *testing.T) {
+	// Independent check: the closed loop A/(1 + A/NG) with A = GBW/(j·f) for a
+	// single-pole op-amp, evaluated in complex arithmetic.
+	gbw, ng, f := 1e6, 10.0, 30e3
+	a := complex(0, -gbw/f) // GBW/(j·f)
+	acl := a / (1 + a/complex(ng, 0))
+	want := 1 - cmplxAbs(acl)/ng
+	assertRel(t, "gain error", GainErrorAt(gbw, ng, f), want, 1e-9)
+}
+
+func TestAolForGainError(t *testing.T) {
+	// Aol = NG(1−ε)/ε: NG 10 at 0.1 % → 9990 V/V = 79.9913 dB (by hand).
+	vv, db, err := AolForGainError(10, 0.001)
+	mustOK(t, err)
+	assertRel(t, "aol V/V", vv, 9990, 1e-12)
+	assertAbs(t, "aol dB", db, 79.99131, 1e-5)
+	// Check against the loop equation itself: NG/(1 + NG/Aol) is 0.1 % low.
+	assertRel(t, "closed-loop gain", 10/(1+10/vv), 10*(1-0.001), 1e-12)
+	if _, _, err := AolForGainError(10, 0); err == nil {
+		t.Error("AolForGainError(eps=0) gave no error")
+	}
+}
+
+func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
