@@ -85,12 +85,23 @@ type UnitError struct {
 	Text string // the value as written
 	Want Dim    // the dimension the field wants
 	Msg  string // what is wrong, e.g. "is a frequency"
+	// Bare is set when the value was a bare number in the file rather than
+	// a quoted string, so the message shows it unquoted as the user wrote it.
+	Bare bool
 }
 
 // Error renders the problem with an example of a good value.
 func (e *UnitError) Error() string {
+	if e.Bare {
+		return fmt.Sprintf("%s %s, want %s such as %q", e.Text, e.Msg, e.Want, e.Want.Example())
+	}
 	return fmt.Sprintf("%q %s, want %s such as %q", e.Text, e.Msg, e.Want, e.Want.Example())
 }
+
+// gainRatio is the internal dimension of V/V, V/mV and V/µV: a plain ratio
+// that Parse converts to dB for open-loop gain and keeps as a number
+// elsewhere. It is never returned to callers.
+const gainRatio Dim = -1
 
 // ErrUnit is matched by errors.Is for every *UnitError.
 var ErrUnit = errors.New("bad quantity")
@@ -103,44 +114,60 @@ func (e *UnitError) Is(target error) bool { return target == ErrUnit }
 // an exponent out of float64 range is a *UnitError.
 func Parse(text string, want Dim) (float64, error) {
 	s := strings.TrimSpace(text)
+	// Accept the typographic minus sign (U+2212) that datasheets print.
+	if rest, ok := strings.CutPrefix(s, "−"); ok {
+		s = "-" + rest
+	}
 	num, unit := splitNumber(s)
 	if num == "" {
-		return 0, &UnitError{text, want, "is not a number with a unit"}
+		return 0, &UnitError{Text: text, Want: want, Msg: "is not a number with a unit"}
 	}
 	v, err := strconv.ParseFloat(num, 64)
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
-			return 0, &UnitError{text, want, "is out of range"}
+			return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
 		}
-		return 0, &UnitError{text, want, "is not a number"}
+		return 0, &UnitError{Text: text, Want: want, Msg: "is not a number"}
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, &UnitError{text, want, "is not a finite number"}
+		return 0, &UnitError{Text: text, Want: want, Msg: "is not a finite number"}
+	}
+	if v == 0 && strings.ContainsAny(mantissa(num), "123456789") {
+		// ParseFloat rounds "1e-400" to 0 without an error: an exponent
+		// below float64's range must not silently become zero.
+		return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
 	}
 	unit = strings.TrimSpace(unit)
 	scale, got, ok := parseUnit(unit, want)
 	if !ok {
 		if unit == "" {
-			return 0, &UnitError{text, want, "has no unit"}
+			return 0, &UnitError{Text: text, Want: want, Msg: "has no unit"}
 		}
-		return 0, &UnitError{text, want, fmt.Sprintf("has an unknown unit %q", unit)}
+		return 0, &UnitError{Text: text, Want: want, Msg: fmt.Sprintf("has an unknown unit %q", unit)}
+	}
+	r := scaled(num, v, scale)
+	if r == 0 && v != 0 {
+		return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
+	}
+	switch {
+	case got == gainRatio && want == Decibel:
+		// Open-loop gain written as a ratio (V/V, V/mV): convert to dB.
+		if r <= 0 {
+			return 0, &UnitError{Text: text, Want: want, Msg: "is not a positive gain"}
+		}
+		r = 20 * math.Log10(r)
+		got = Decibel
+	case got == gainRatio:
+		got = Dimensionless
 	}
 	if got != want {
 		if unit == "" {
-			return 0, &UnitError{text, want, "has no unit"}
+			return 0, &UnitError{Text: text, Want: want, Msg: "has no unit"}
 		}
-		return 0, &UnitError{text, want, "is " + got.String()}
-	}
-	r := v * scale
-	if want == Decibel && scale != 1 {
-		// Open-loop gain written as a ratio (V/mV): convert to dB.
-		if r <= 0 {
-			return 0, &UnitError{text, want, "is not a positive gain"}
-		}
-		r = 20 * math.Log10(r)
+		return 0, &UnitError{Text: text, Want: want, Msg: "is " + got.String()}
 	}
 	if math.IsInf(r, 0) || math.IsNaN(r) {
-		return 0, &UnitError{text, want, "is out of range"}
+		return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
 	}
 	return r, nil
 }
@@ -193,6 +220,40 @@ func splitNumber(s string) (num, unit string) {
 	return s[:i], s[i:]
 }
 
+// scaled returns v·scale, the value of the number text num times the
+// unit's factor. When the factor is a power of ten, as every SI prefix is,
+// the product is read as one decimal number ("250e-9" for "250 nA"), so
+// the result is the float64 nearest the exact value, the same as the
+// literal 250e-9; a plain multiplication by 1e-9 can land one step off.
+func scaled(num string, v, scale float64) float64 {
+	k := math.Round(math.Log10(scale))
+	if scale == 1 || math.Abs(k) > 30 || math.Abs(scale/math.Pow(10, k)-1) > 1e-9 {
+		return v * scale
+	}
+	exp := 0
+	m := mantissa(num)
+	if len(m) < len(num) {
+		e, err := strconv.Atoi(num[len(m)+1:])
+		if err != nil {
+			return v * scale // exponent beyond int: ParseFloat already refused it
+		}
+		exp = e
+	}
+	r, err := strconv.ParseFloat(m+"e"+strconv.Itoa(exp+int(k)), 64)
+	if err != nil && !errors.Is(err, strconv.ErrRange) {
+		return v * scale
+	}
+	return r
+}
+
+// mantissa returns the part of a number before its exponent.
+func mantissa(num string) string {
+	if i := strings.IndexAny(num, "eE"); i >= 0 {
+		return num[:i]
+	}
+	return num
+}
+
 // parseUnit returns the factor to SI and the dimension of a unit string.
 // want disambiguates spellings that mean different things in different
 // fields (a bare number is a plain number, a ratio or nothing at all).
@@ -227,10 +288,7 @@ func parseUnit(u string, want Dim) (scale float64, d Dim, ok bool) {
 		case "K", "C", "°C", "degC", "℃":
 			return ns, VoltPerKelvin, true
 		case "V":
-			if want == Decibel {
-				return ns, Decibel, true
-			}
-			return ns, Dimensionless, true
+			return ns, gainRatio, true
 		}
 	}
 	if root, isRoot := noiseRoot(den); isRoot {
@@ -253,11 +311,8 @@ func parseUnit(u string, want Dim) (scale float64, d Dim, ok bool) {
 	case nd == Volt && dd == Second:
 		return ns / ds, VoltPerSecond, true
 	case nd == Volt && dd == Volt:
-		// V/mV and the like: only meaningful for open-loop gain.
-		if want == Decibel {
-			return ns / ds, Decibel, true
-		}
-		return ns / ds, Dimensionless, true
+		// V/mV and the like: a gain ratio, converted to dB for open-loop gain.
+		return ns / ds, gainRatio, true
 	}
 	return 0, 0, false
 }
@@ -323,7 +378,7 @@ func Format(v float64, d Dim) string {
 // FormatASCII is Format with only ASCII characters (µ → u, √ → rt, ° dropped),
 // for files that will be parsed again, such as exported catalogs.
 func FormatASCII(v float64, d Dim) string {
-	r := strings.NewReplacer("µ", "u", "√", "rt", "°C", "C", "Ω", "Ohm")
+	r := strings.NewReplacer("µ", "u", "√", "rt", "°C", "C", "Ω", "Ohm", "—", "-")
 	return r.Replace(Format(v, d))
 }
 
@@ -349,8 +404,10 @@ func trimNum(v float64, sig int) string {
 	}
 	s := strconv.FormatFloat(v, 'g', sig, 64)
 	if strings.ContainsAny(s, "e") {
-		// Large or small plain numbers: fall back to a decimal rendering.
-		f := strconv.FormatFloat(v, 'f', -1, 64)
+		// Large or small plain numbers: a decimal rendering of the rounded
+		// value ("123000", not "1.23e+05" nor "123456.789") when short.
+		r, _ := strconv.ParseFloat(s, 64)
+		f := strconv.FormatFloat(r, 'f', -1, 64)
 		if len(f) <= 12 {
 			return f
 		}

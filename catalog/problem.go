@@ -1,0 +1,95 @@
+package catalog
+
+import (
+	"cmp"
+	"fmt"
+	"slices"
+	"strings"
+)
+
+// Problem is one thing wrong with a catalog: where it is, which part and
+// field, and what is wrong. It renders as
+//
+//	FILE:LINE: part "ID": field "slew": typ = "1 MHz" is a frequency, want a slew rate such as "0.5 V/us"
+//
+// leaving out whatever is not known.
+type Problem struct {
+	Pos   Pos
+	Part  string // the part's id; "" when the part has none (see Index)
+	Index int    // 1-based number of the [[part]] table in its file; 0 when not about one part
+	Field string // top-level key of the part, e.g. "slew"; "" for the part or file as a whole
+	Err   error
+}
+
+// Error renders the problem on one line.
+func (p Problem) Error() string {
+	var b strings.Builder
+	if p.Pos.File != "" {
+		b.WriteString(p.Pos.File)
+		if p.Pos.Line > 0 {
+			fmt.Fprintf(&b, ":%d", p.Pos.Line)
+		}
+		b.WriteString(": ")
+	}
+	switch {
+	case p.Part != "":
+		fmt.Fprintf(&b, "part %q: ", p.Part)
+	case p.Index > 0:
+		fmt.Fprintf(&b, "part #%d: ", p.Index)
+	}
+	if p.Field != "" {
+		fmt.Fprintf(&b, "field %q: ", p.Field)
+	}
+	if p.Err != nil {
+		b.WriteString(p.Err.Error())
+	} else {
+		b.WriteString("invalid")
+	}
+	return b.String()
+}
+
+// Unwrap returns the underlying error, so errors.As finds a *UnitError.
+func (p Problem) Unwrap() error { return p.Err }
+
+// Problems is every problem found in one or more catalog files, in file
+// and line order. A non-empty Problems is an error; Load and Decode never
+// return an empty one as an error.
+type Problems []Problem
+
+// Error renders one problem per line.
+func (ps Problems) Error() string {
+	lines := make([]string, len(ps))
+	for i, p := range ps {
+		lines[i] = p.Error()
+	}
+	return strings.Join(lines, "\n")
+}
+
+// Unwrap returns the problems as errors, so errors.As and errors.Is look
+// into each of them.
+func (ps Problems) Unwrap() []error {
+	errs := make([]error, len(ps))
+	for i, p := range ps {
+		errs[i] = p
+	}
+	return errs
+}
+
+// sortProblems orders the problems of one file by line and part number,
+// keeping the order they were found in otherwise.
+func sortProblems(ps Problems) {
+	slices.SortStableFunc(ps, func(a, b Problem) int {
+		return cmp.Or(
+			cmp.Compare(a.Pos.Line, b.Pos.Line),
+			cmp.Compare(a.Index, b.Index),
+		)
+	})
+}
+
+// asError returns ps as an error, or nil when it is empty.
+func (ps Problems) asError() error {
+	if len(ps) == 0 {
+		return nil
+	}
+	return ps
+}
