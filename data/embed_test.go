@@ -87,7 +87,7 @@ func TestFileLists(t *testing.T) {
 			"cmos.toml", "general.toml", "jfet.toml", "micropower.toml",
 			"power.toml", "precision.toml", "speed.toml"}},
 		{"designs", data.DesignNames(), []string{
-			"battery-sensor-3v3.toml", "instrumentation-15v.toml", "signal-chain-12v.toml"}},
+			"battery-sensor-3v3.toml", "instrumentation-15v.toml", "mixed-templates.toml", "signal-chain-12v.toml"}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -1,0 +1,109 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+const checkUsage = `Usage: opsift check [--catalog PATH]...
+
+Read every catalog source, check every part (units, keys, limits, ids) and
+print a summary and every problem found, one per line as FILE:LINE: part
+"ID": field "KEY": what is wrong. Without --catalog it checks the catalog
+the other commands would use: the user's catalog directory, else the
+embedded demo. Exit status 1 when there is any problem, 0 when clean.
+
+Options:
+`
+
+func runCheck(e *env, args []string) error {
+	var catalogs pathList
+	fset := flag.NewFlagSet("check", flag.ContinueOnError)
+	fset.SetOutput(e.stderr)
+	fset.Var(&catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fset.Usage = func() {
+		fmt.Fprint(fset.Output(), checkUsage)
+		fset.PrintDefaults()
+	}
+	if err := fset.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fset.SetOutput(e.stdout)
+			fset.Usage()
+			return nil
+		}
+		return &exitError{code: 2}
+	}
+	if fset.NArg() > 0 {
+		return usageError("check: unexpected argument %q; give catalogs with --catalog (see opsift check --help)", fset.Arg(0))
+	}
+	c, err := catalog.Load(catalogLayers(e, catalogs)...)
+	var probs catalog.Problems
+	if err != nil && !errors.As(err, &probs) {
+		return inputError(err) // not a catalog problem: cannot happen with Load today
+	}
+	writeCheckReport(e.stdout, c, probs)
+	if len(probs) > 0 {
+		return problemsFound()
+	}
+	return nil
+}
+
+// writeCheckReport prints check's summary of a loaded catalog and its problems.
+func writeCheckReport(w io.Writer, c *catalog.Catalog, probs catalog.Problems) {
+	row := func(label, format string, a ...any) {
+		fmt.Fprintf(w, "%-10s %s\n", label+":", fmt.Sprintf(format, a...))
+	}
+	for i, s := range c.Sources {
+		label := "sources:"
+		if i > 0 {
+			label = ""
+		}
+		fmt.Fprintf(w, "%-10s %s\n", label, s)
+	}
+	row("files", "%d", c.Files)
+	parts := fmt.Sprintf("%d", len(c.Parts))
+	if c.Invalid > 0 {
+		parts += fmt.Sprintf(" (%d more left out for problems)", c.Invalid)
+	}
+	row("parts", "%s", parts)
+	row("overrides", "%d", c.Overrides)
+	row("figures", "%d given: %d known only as typical, %d read from graphs, %d estimated",
+		c.Figures, c.TypicalOnly, c.FromGraph, c.Estimated)
+	if c.TypicalOnly > 0 || c.FromGraph > 0 {
+		fmt.Fprintf(w, "%-10s %s\n", "", "(typical figures are derated or inflated by the design's policy at worst case)")
+	}
+	for _, n := range c.Notes {
+		fmt.Fprintf(w, "note: %s\n", n)
+	}
+	if len(probs) == 0 {
+		fmt.Fprintln(w, "no problems found")
+		return
+	}
+	fmt.Fprintf(w, "%s found:\n", plural(len(probs), "problem"))
+	for _, p := range probs {
+		fmt.Fprintln(w, p.Error())
+	}
+}
+
+// plural renders "1 problem", "2 problems".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}
+
+// checkHint is the check command for the given paths, for messages.
+func checkHint(paths []string) string {
+	var b strings.Builder
+	b.WriteString("opsift check")
+	for _, p := range paths {
+		b.WriteString(" --catalog " + p)
+	}
+	return b.String()
+}

@@ -1,0 +1,81 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io/fs"
+	"os"
+
+	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/report"
+)
+
+const deriveUsage = `Usage: opsift derive [--design FILE] [--format text|json]
+
+Show what the design needs from the op-amp: every requirement with its
+bound and the formula with the numbers put in. Without --design, the
+embedded demo design.
+
+Options:
+`
+
+func runDerive(e *env, args []string) error {
+	var design, format string
+	fset := flag.NewFlagSet("derive", flag.ContinueOnError)
+	fset.SetOutput(e.stderr)
+	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
+	fset.StringVar(&format, "format", "text", "output format: text or json")
+	fset.Usage = func() {
+		fmt.Fprint(fset.Output(), deriveUsage)
+		fset.PrintDefaults()
+	}
+	if err := fset.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fset.SetOutput(e.stdout)
+			fset.Usage()
+			return nil
+		}
+		return &exitError{code: 2}
+	}
+	if fset.NArg() > 0 {
+		return usageError("derive: unexpected argument %q (see opsift derive --help)", fset.Arg(0))
+	}
+	if format != "text" && format != "json" {
+		return usageError("derive: --format %q: want text or json", format)
+	}
+	_, plan, err := deriveDesign(design)
+	if err != nil {
+		return inputError(err)
+	}
+	return report.WriteDerive(e.stdout, format, plan)
+}
+
+// deriveDesign reads, decodes and derives the design at path, or the
+// embedded demo design when path is "".
+func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
+	var (
+		b    []byte
+		err  error
+		name = path
+	)
+	if path == "" {
+		name = data.DefaultDesign
+		b, err = fs.ReadFile(data.Designs, data.DefaultDesign)
+	} else {
+		b, err = os.ReadFile(path)
+	}
+	if err != nil {
+		return nil, nil, fmt.Errorf("design: %w", err)
+	}
+	d, err := filter.DecodeDesign(name, b)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := filter.Derive(d)
+	if err != nil {
+		return nil, nil, err
+	}
+	return d, p, nil
+}

@@ -1,0 +1,150 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/report"
+)
+
+const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
+                  [--all] [--top N] [--sort KEY] [--strict] [-o FILE]
+
+Evaluate every part of the catalog against the design at worst case and
+rank the ones that pass by their smallest margin (the binding requirement
+is named). With --all the failing parts follow, each with the checks it
+fails and by how much. Formats: table (terminal), csv, json (SI units), md
+(a shortlist for design review), toml (the ranked parts as a catalog file).
+Sort keys: margin (default), cost, supply_current, fmax, id.
+
+Options:
+`
+
+// rankFlags are the parsed options of opsift rank.
+type rankFlags struct {
+	catalogs pathList
+	design   string
+	format   string
+	all      bool
+	top      int
+	sort     string
+	strict   bool
+	out      string
+}
+
+func runRank(e *env, args []string) error {
+	var f rankFlags
+	fset := flag.NewFlagSet("rank", flag.ContinueOnError)
+	fset.SetOutput(e.stderr)
+	fset.Var(&f.catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
+	fset.StringVar(&f.format, "format", "table", "output format: table, csv, json, md or toml")
+	fset.BoolVar(&f.all, "all", false, "list failing parts too, after the passing ones")
+	fset.IntVar(&f.top, "top", 0, "list at most N candidates (0: all)")
+	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
+	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
+	fset.Usage = func() {
+		fmt.Fprint(fset.Output(), rankUsage)
+		fset.PrintDefaults()
+	}
+	if err := fset.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fset.SetOutput(e.stdout)
+			fset.Usage()
+			return nil
+		}
+		return &exitError{code: 2}
+	}
+	if fset.NArg() > 0 {
+		return usageError("rank: unexpected argument %q (see opsift rank --help)", fset.Arg(0))
+	}
+	format, err := report.ParseFormat(f.format)
+	if err != nil {
+		return usageError("rank: --format: %w", err)
+	}
+	key, err := filter.ParseSortKey(f.sort)
+	if err != nil {
+		return usageError("rank: --sort: %w", err)
+	}
+	if f.top < 0 {
+		return usageError("rank: --top %d: want 0 (all) or a positive count", f.top)
+	}
+	_, plan, err := deriveDesign(f.design)
+	if err != nil {
+		return inputError(err)
+	}
+	cat, err := loadCatalog(e, f.catalogs) // its errors carry exit status 2
+	if err != nil {
+		return err
+	}
+	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
+	filter.Rank(results, key)
+	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
+		Sources: cat.Sources, Width: terminalWidth(e)}
+	doc.Color = f.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
+	var buf bytes.Buffer
+	if err := report.Write(&buf, format, doc); err != nil {
+		return err
+	}
+	if f.out != "" {
+		return writeRankOutput(f.out, buf.Bytes())
+	}
+	_, err = e.stdout.Write(buf.Bytes())
+	return err
+}
+
+// terminalWidth is $COLUMNS when it is a positive number, else 100.
+func terminalWidth(e *env) int {
+	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("COLUMNS"))); err == nil && n > 0 {
+		return n
+	}
+	return report.DefaultWidth
+}
+
+// writeRankOutput writes data to path atomically: a temporary file in the
+// same directory, synced and renamed over path, so an existing file is
+// never half-written or lost.
+func writeRankOutput(path string, data []byte) error {
+	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp-*")
+	if err != nil {
+		return inputError(fmt.Errorf("-o %s: %w", path, err))
+	}
+	name := tmp.Name()
+	fail := func(err error) error {
+		tmp.Close()
+		os.Remove(name)
+		return inputError(fmt.Errorf("-o %s: %w", path, err))
+	}
+	if _, err := io.Copy(tmp, bytes.NewReader(data)); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Sync(); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(name)
+		return inputError(fmt.Errorf("-o %s: %w", path, err))
+	}
+	perm := os.FileMode(0o644)
+	if st, err := os.Stat(path); err == nil {
+		perm = st.Mode().Perm()
+	}
+	if err := os.Chmod(name, perm); err != nil {
+		os.Remove(name)
+		return inputError(fmt.Errorf("-o %s: %w", path, err))
+	}
+	if err := os.Rename(name, path); err != nil {
+		os.Remove(name)
+		return inputError(fmt.Errorf("-o %s: %w", path, err))
+	}
+	return nil
+}

@@ -1,0 +1,258 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/replace"
+)
+
+// replaceFormats are the output formats of opsift replace.
+var replaceFormats = []string{"table", "json", "md", "csv"}
+
+const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
+                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE]
+
+List the parts that can take PART-ID's place: drop-ins (same pinout family,
+a package in common, at least as many channels) first, then parts that need
+a footprint change. Each candidate is compared figure by figure with the
+original; "strict" means no figure the original gives is worse or missing.
+With --design, every candidate is also evaluated in the circuit at worst
+case and the passing ones are ranked by their smallest margin; regressions
+are then warnings.
+
+Options:
+`
+
+// replaceFlags are the parsed options of opsift replace.
+type replaceFlags struct {
+	catalogs pathList
+	design   string
+	format   string
+	all      bool
+	obsolete bool
+	overTemp bool
+	strict   bool
+	out      string
+}
+
+func runReplace(e *env, args []string) error {
+	var f replaceFlags
+	fs := flag.NewFlagSet("replace", flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	fs.Var(&f.catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fs.StringVar(&f.design, "design", "", "design TOML: evaluate every candidate in this circuit")
+	fs.StringVar(&f.format, "format", "table", "output format: "+strings.Join(replaceFormats, ", "))
+	fs.BoolVar(&f.all, "all", false, "with --design, list the candidates that fail the design too")
+	fs.BoolVar(&f.obsolete, "obsolete", false, "list obsolete parts as candidates too")
+	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
+	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
+	fs.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
+	fs.Usage = func() {
+		fmt.Fprint(fs.Output(), replaceUsage)
+		fs.PrintDefaults()
+	}
+	pos, err := replaceParseArgs(fs, args)
+	if errors.Is(err, flag.ErrHelp) {
+		fs.SetOutput(e.stdout)
+		fs.Usage()
+		return nil
+	}
+	if err != nil {
+		return &exitError{code: 2} // the flag package already printed the problem
+	}
+	switch {
+	case len(pos) == 0:
+		return usageError("replace: missing PART-ID (the id of the part to replace; see opsift replace --help)")
+	case len(pos) > 1:
+		return usageError("replace: one PART-ID expected, got %d: %s", len(pos), strings.Join(pos, " "))
+	}
+	if !replaceOneOf(f.format, replaceFormats) {
+		return usageError("replace: --format %q: want one of %s", f.format, strings.Join(replaceFormats, ", "))
+	}
+
+	cat, err := loadCatalog(e, f.catalogs)
+	if err != nil {
+		return err // already an input error (exit status 2)
+	}
+	parts := cat.Parts
+	orig, err := replace.Lookup(pos[0], parts)
+	if err != nil {
+		return usageError("replace: %w", err)
+	}
+	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
+	var design *filter.Design
+	if f.design != "" {
+		var plan *filter.Plan
+		design, plan, err = replaceLoadDesign(f.design)
+		if err != nil {
+			return inputError(err)
+		}
+		opts.Plan, opts.Strict = plan, f.strict
+	}
+	res := replace.Find(orig, parts, opts)
+	v := newReplaceView(res, f.all)
+	if design != nil {
+		v.designTitle, v.designFile = design.Title, f.design
+	}
+
+	var buf bytes.Buffer
+	v.color = f.out == "" && f.format == "table" && e.isTTY && e.getenv("NO_COLOR") == ""
+	if err := v.write(&buf, f.format); err != nil {
+		return err
+	}
+	if f.out != "" {
+		if err := replaceWriteFile(f.out, buf.Bytes()); err != nil {
+			return inputError(err)
+		}
+		return nil
+	}
+	_, err = e.stdout.Write(buf.Bytes())
+	return err
+}
+
+// replaceParseArgs parses flags that may come before and after the
+// positional arguments ("opsift replace ID --design d.toml"), which the
+// flag package alone stops at. A lone "--" ends the flags.
+func replaceParseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		rest := fs.Args()
+		if len(rest) == 0 {
+			return pos, nil
+		}
+		if len(args) > len(rest) && args[len(args)-len(rest)-1] == "--" {
+			return append(pos, rest...), nil
+		}
+		pos = append(pos, rest[0])
+		args = rest[1:]
+	}
+}
+
+func replaceOneOf(s string, set []string) bool {
+	for _, x := range set {
+		if s == x {
+			return true
+		}
+	}
+	return false
+}
+
+// replaceLoadDesign reads, decodes and derives the design at path.
+func replaceLoadDesign(path string) (*filter.Design, *filter.Plan, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, nil, fmt.Errorf("design: %w", err)
+	}
+	d, err := filter.DecodeDesign(path, data)
+	if err != nil {
+		return nil, nil, err
+	}
+	plan, err := filter.Derive(d)
+	if err != nil {
+		return nil, nil, err
+	}
+	return d, plan, nil
+}
+
+// replaceWriteFile writes data to path atomically: a temporary file in the
+// same directory, synced, then renamed over path, so a reader (or a crash)
+// never sees half a file and an existing file is never lost.
+func replaceWriteFile(path string, data []byte) error {
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
+	if err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	name := tmp.Name()
+	fail := func(err error) error {
+		tmp.Close()
+		os.Remove(name)
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	if _, err := io.Copy(tmp, bytes.NewReader(data)); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Sync(); err != nil {
+		return fail(err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(name)
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	if st, err := os.Stat(path); err == nil {
+		os.Chmod(name, st.Mode().Perm())
+	} else {
+		os.Chmod(name, 0o644)
+	}
+	if err := os.Rename(name, path); err != nil {
+		os.Remove(name)
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	return nil
+}
+
+// replaceView is what the writers show of a Result: the candidates listed
+// (with a design and without --all, only those that pass) and what was
+// left out.
+type replaceView struct {
+	res         replace.Result
+	list        []replace.Candidate
+	failHidden  int // candidates failing the design, not listed
+	designTitle string
+	designFile  string
+	color       bool
+}
+
+func newReplaceView(res replace.Result, all bool) *replaceView {
+	v := &replaceView{res: res}
+	for _, c := range res.Candidates {
+		if res.Designed && !all && !c.Design.Pass {
+			v.failHidden++
+			continue
+		}
+		v.list = append(v.list, c)
+	}
+	return v
+}
+
+func (v *replaceView) write(w io.Writer, format string) error {
+	switch format {
+	case "json":
+		return v.writeJSON(w)
+	case "csv":
+		return v.writeCSV(w)
+	case "md":
+		return v.writeMarkdown(w)
+	}
+	return v.writeTable(w)
+}
+
+// replacePartLine describes a part in one line: id, lifecycle, pinout, packages, channels.
+func replacePartLine(p *catalog.Part) string {
+	pin := p.Pinout
+	if pin == "" {
+		pin = "no pinout family"
+	} else {
+		pin = "pinout " + pin
+	}
+	return fmt.Sprintf("%s, %s, %s, %d channel%s", p.Lifecycle, pin, strings.Join(p.Packages, "/"), p.Channels, replacePlural(p.Channels))
+}
+
+func replacePlural(n int) string {
+	if n == 1 {
+		return ""
+	}
+	return "s"
+}

@@ -1,0 +1,83 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/data"
+)
+
+// pathList is a repeatable --catalog flag: each use adds one file or
+// directory, later ones overriding earlier ones part by part.
+type pathList []string
+
+// String shows the paths given so far.
+func (l *pathList) String() string { return strings.Join(*l, ", ") }
+
+// Set adds one path.
+func (l *pathList) Set(s string) error {
+	if strings.TrimSpace(s) == "" {
+		return errors.New("empty path, want a catalog file or directory")
+	}
+	*l = append(*l, s)
+	return nil
+}
+
+// catalogLayers turns --catalog paths into layers; with none, the user's
+// catalog directory if it exists, else the embedded demo catalog.
+func catalogLayers(e *env, paths []string) []catalog.Layer {
+	if len(paths) == 0 {
+		return catalog.DefaultSources(e.getenv, data.Catalog)
+	}
+	layers := make([]catalog.Layer, len(paths))
+	for i, p := range paths {
+		layers[i] = catalog.PathLayer(p)
+	}
+	return layers
+}
+
+// loadCatalog loads the catalog a command reads parts from. An unreadable
+// or invalid catalog is an input error (exit status 2), printed one
+// problem per line.
+func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
+	c, err := catalog.Load(catalogLayers(e, paths)...)
+	if err != nil {
+		return nil, inputError(newCatalogError(err, paths))
+	}
+	return c, nil
+}
+
+// maxShown is how many catalog problems a command other than check prints
+// before pointing at opsift check for the rest.
+const maxShown = 10
+
+// catalogError presents a catalog's problems to main, which prints an
+// error once as "opsift: …": each problem gets a line of its own with the
+// same prefix, so editors and grep see FILE:LINE at the start of each.
+type catalogError struct {
+	err   error
+	paths []string
+}
+
+func newCatalogError(err error, paths []string) error { return &catalogError{err, paths} }
+
+func (c *catalogError) Error() string {
+	var ps catalog.Problems
+	if !errors.As(c.err, &ps) {
+		return c.err.Error()
+	}
+	lines := make([]string, 0, maxShown+1)
+	for i, p := range ps {
+		if i == maxShown {
+			lines = append(lines, fmt.Sprintf("… and %d more catalog problems (see %s)", len(ps)-maxShown, checkHint(c.paths)))
+			break
+		}
+		lines = append(lines, p.Error())
+	}
+	return strings.Join(lines, "\nopsift: ")
+}
+
+// Unwrap returns the catalog's Problems, for errors.As.
+func (c *catalogError) Unwrap() error { return c.err }

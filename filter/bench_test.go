@@ -1,0 +1,119 @@
+package filter_test
+
+import (
+	"fmt"
+	"io/fs"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
+)
+
+// synthetic returns n parts with figures spread over the usual ranges,
+// some known only as typical, some missing, from a fixed seed.
+func synthetic(n int) []*catalog.Part {
+	rng := rand.New(rand.NewPCG(1, 2))
+	techs := []catalog.Tech{catalog.TechBipolar, catalog.TechCMOS, catalog.TechJFET, catalog.TechBiCMOS}
+	spread := func(lo, hi float64) float64 { return lo * math.Pow(hi/lo, rng.Float64()) }
+	spec := func(lo, hi float64, bigger bool) catalog.Spec {
+		typ := spread(lo, hi)
+		s := catalog.Spec{Typ: opt(typ)}
+		switch rng.IntN(4) {
+		case 0: // typical only
+		case 1:
+			if bigger {
+				s.Min = opt(typ * 0.7)
+			} else {
+				s.Max = opt(typ * 2)
+			}
+		case 2:
+			if bigger {
+				s.Min, s.MinOT = opt(typ*0.7), opt(typ*0.6)
+			} else {
+				s.Max, s.MaxOT = opt(typ*2), opt(typ*3)
+			}
+		case 3:
+			s.Source = catalog.SourceGraph
+		}
+		return s
+	}
+	parts := make([]*catalog.Part, n)
+	for i := range parts {
+		p := basePart(fmt.Sprintf("syn-%05d", i))
+		p.Tech = techs[rng.IntN(len(techs))]
+		p.Channels = []int{1, 2, 4}[rng.IntN(3)]
+		p.Supply = catalog.Span{Min: opt(spread(1.8, 5)), Max: opt(spread(5.5, 44))}
+		p.GBW = spec(10e3, 500e6, true)
+		p.Slew = spec(3e3, 500e6, true)
+		p.Aol = spec(80, 140, true)
+		p.Vos = spec(1e-6, 5e-3, false)
+		p.Ib = spec(1e-12, 500e-9, false)
+		p.Iq = spec(1e-6, 10e-3, false)
+		p.Iout = spec(1e-3, 100e-3, true)
+		if rng.IntN(5) == 0 {
+			p.En = catalog.Spec{}
+		}
+		p.UnitCost = opt(spread(0.1, 10))
+		parts[i] = p
+	}
+	return parts
+}
+
+// benchDesign is the demo design, edited on every iteration the way the
+// TUI does on a keystroke.
+func benchDesign(b *testing.B) *filter.Design {
+	raw, err := fs.ReadFile(data.Designs, data.DefaultDesign)
+	if err != nil {
+		b.Fatal(err)
+	}
+	d, err := filter.DecodeDesign(data.DefaultDesign, raw)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return d
+}
+
+// benchEdit runs edit → re-derive → evaluate → rank, the work of one keystroke.
+func benchEdit(b *testing.B, parts []*catalog.Part, o filter.Options) {
+	d := benchDesign(b)
+	freqs := []string{"20 kHz", "21 kHz"}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		if err := d.Set("stage.gain.signal.freq", freqs[i%2]); err != nil {
+			b.Fatal(err)
+		}
+		p, err := filter.Derive(d)
+		if err != nil {
+			b.Fatal(err)
+		}
+		rs := filter.Evaluate(p, parts, o)
+		filter.Rank(rs, filter.SortMargin)
+		if o.Summary {
+			// The rows a screen shows get their checks.
+			for i := 0; i < min(len(rs), 30); i++ {
+				filter.Explain(p, &rs[i], o)
+			}
+		}
+	}
+}
+
+func BenchmarkEvaluate(b *testing.B) {
+	b.Run("demo", func(b *testing.B) {
+		c, err := catalog.Load(catalog.FSLayer("demo", data.Catalog))
+		if err != nil {
+			b.Fatal(err)
+		}
+		benchEdit(b, c.Parts, filter.Options{})
+	})
+	for _, n := range []int{1000, 10000, 100000} {
+		parts := synthetic(n)
+		b.Run(fmt.Sprintf("synthetic-%d", n), func(b *testing.B) { benchEdit(b, parts, filter.Options{}) })
+		b.Run(fmt.Sprintf("synthetic-%d-summary", n), func(b *testing.B) {
+			benchEdit(b, parts, filter.Options{Summary: true})
+		})
+	}
+}

@@ -1,0 +1,164 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// Derive checks the design's inputs and derives every requirement: the
+// design-level ones (supply span, temperature, hard filters, supply current
+// budget) and each stage's through its template. Errors name the design
+// file, the line where known, the stage and the field.
+func Derive(d *Design) (*Plan, error) {
+	p := &Plan{Design: d, Title: d.Title}
+	if err := p.deriveSupply(d); err != nil {
+		return nil, err
+	}
+	if err := p.deriveEnvironment(d); err != nil {
+		return nil, err
+	}
+	p.deriveFilters(d)
+	seen := map[string]bool{}
+	for _, s := range d.Stages {
+		if seen[s.Name] {
+			return nil, d.errAt(s.Line, "stage %q: duplicate stage name", s.Name)
+		}
+		seen[s.Name] = true
+		t, ok := TemplateFor(s.Kind)
+		if !ok {
+			return nil, d.errAt(s.Line, "stage %q: field \"kind\": %w", s.Name, unknownKind(s.Kind))
+		}
+		sp, err := t.Derive(NewStageInput(s, t), p)
+		if err != nil {
+			return nil, d.errAt(s.Line, "stage %q: %w", s.Name, err)
+		}
+		sp.Stage, sp.Name, sp.Kind = s, s.Name, s.Kind
+		for i := range sp.Requirements {
+			sp.Requirements[i].Stage = s.Name
+			sp.Requirements[i].Unit = sp.Requirements[i].Dim.Unit()
+		}
+		p.Stages = append(p.Stages, sp)
+	}
+	if len(p.Stages) == 0 {
+		return nil, d.errAt(0, "no [[stage]]: a design needs at least one stage")
+	}
+	if b := d.Choose.SupplyCurrent; b.Set {
+		p.Global = append(p.Global, Requirement{Key: KeySupplyCurrent, Bound: BoundMax, Value: b.V,
+			Dim: catalog.Ampere, Unit: "A",
+			Why: fmt.Sprintf("packages × channels × Iq ≤ %s (every channel of a package draws Iq, used or not; %d stage(s))",
+				catalog.Format(b.V, catalog.Ampere), len(p.Stages))})
+	}
+	return p, nil
+}
+
+// errAt formats an error prefixed with the design's file and a line.
+func (d *Design) errAt(line int, format string, a ...any) error {
+	pre := d.Name
+	if pre == "" {
+		pre = "design"
+	}
+	if line > 0 {
+		pre = fmt.Sprintf("%s:%d", pre, line)
+	}
+	return fmt.Errorf(pre+": "+format, a...)
+}
+
+func (p *Plan) deriveSupply(d *Design) error {
+	s := d.Supply
+	if !s.Pos.Set {
+		return d.errAt(0, "field \"supply.pos\": missing, want a voltage such as \"3.3 V\"")
+	}
+	neg := 0.0
+	if s.Neg.Set {
+		neg = s.Neg.V
+	}
+	if s.Pos.V <= neg {
+		return d.errAt(s.Pos.Line, "field \"supply.pos\": %q is not above supply.neg (%s), want V+ > V−",
+			s.Pos.Raw, catalog.Format(neg, catalog.Volt))
+	}
+	tol := 0.0
+	if s.Tolerance.Set {
+		tol = s.Tolerance.V
+	}
+	if tol < 0 || tol >= 0.5 {
+		return d.errAt(s.Tolerance.Line, "field \"supply.tolerance\": %q is out of range, want a ratio from 0 %% to 50 %% such as \"5 %%\"", s.Tolerance.Raw)
+	}
+	r := Rails{Pos: s.Pos.V, Neg: neg, Tol: tol, Span: s.Pos.V - neg}
+	r.PosWorst, r.NegWorst = s.Pos.V*(1-tol), neg*(1-tol)
+	r.SpanMin, r.SpanMax = r.Span*(1-tol), r.Span*(1+tol)
+	p.Rails = r
+	why := fmt.Sprintf("span %s × (1 ∓ %s) = %s … %s",
+		catalog.Format(r.Span, catalog.Volt), catalog.Format(tol, catalog.Ratio),
+		catalog.Format(r.SpanMin, catalog.Volt), catalog.Format(r.SpanMax, catalog.Volt))
+	p.Global = append(p.Global, Requirement{Key: KeySupply, Bound: BoundRange, Low: r.SpanMin, High: r.SpanMax,
+		Dim: catalog.Volt, Unit: "V", Why: why})
+	return nil
+}
+
+func (p *Plan) deriveEnvironment(d *Design) error {
+	p.TempLow, p.TempHigh = RoomTemp, RoomTemp
+	if d.Temp[0].Set {
+		p.TempLow = d.Temp[0].V
+	}
+	if d.Temp[1].Set {
+		p.TempHigh = d.Temp[1].V
+	}
+	if p.TempLow > p.TempHigh {
+		return d.errAt(d.Temp[0].Line, "field \"environment.temp\": low %s is above high %s, want [low, high]",
+			catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius))
+	}
+	if p.TempLow < -273.15 {
+		return d.errAt(d.Temp[0].Line, "field \"environment.temp\": %q is below absolute zero", d.Temp[0].Raw)
+	}
+	p.Global = append(p.Global, Requirement{Key: KeyTemperature, Bound: BoundHard, Low: p.TempLow, High: p.TempHigh,
+		Dim: catalog.Celsius, Unit: "°C",
+		Why: fmt.Sprintf("rated range covers %s … %s", catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius))})
+	p.DerateTyp, p.InflateTyp = DefaultDerateTyp, DefaultInflateTyp
+	if v := d.Policy.DerateTyp; v.Set {
+		if v.V <= 0 || v.V > 1 {
+			return d.errAt(v.Line, "field \"policy.derate_typ\": %q is out of range, want a factor in (0, 1] such as \"0.7\"", v.Raw)
+		}
+		p.DerateTyp = v.V
+	}
+	if v := d.Policy.InflateTyp; v.Set {
+		if v.V < 1 {
+			return d.errAt(v.Line, "field \"policy.inflate_typ\": %q is out of range, want a factor ≥ 1 such as \"2\"", v.Raw)
+		}
+		p.InflateTyp = v.V
+	}
+	return nil
+}
+
+func (p *Plan) deriveFilters(d *Design) {
+	c := d.Choose
+	life := c.Lifecycle.List()
+	why := "lifecycle is one of " + strings.Join(life, ", ")
+	if len(life) == 0 {
+		life = []string{string(catalog.LifecycleActive), string(catalog.LifecycleNRND)}
+		why = "lifecycle is not obsolete (default)"
+	}
+	p.Global = append(p.Global, Requirement{Key: KeyLifecycle, Bound: BoundHard, Allowed: life, Why: why})
+	if l := c.Packages.List(); len(l) > 0 {
+		p.Global = append(p.Global, Requirement{Key: KeyPackage, Bound: BoundHard, Allowed: l,
+			Why: "comes in any of " + strings.Join(l, ", ")})
+	}
+	if l := c.Tech.List(); len(l) > 0 {
+		p.Global = append(p.Global, Requirement{Key: KeyTech, Bound: BoundHard, Allowed: l,
+			Why: "input technology is any of " + strings.Join(l, ", ")})
+	}
+	if v := c.MaxUnitCost; v.Set {
+		p.Global = append(p.Global, Requirement{Key: KeyCost, Bound: BoundHard, Value: v.V,
+			Why: "unit cost ≤ " + catalog.Format(v.V, catalog.Dimensionless)})
+	}
+}
+
+// gbwFactor is 1/√(1/(1−ε)² − 1): the loop gain a single-pole amplifier
+// needs at the signal frequency, per unit of NG·f, for a gain error of ε.
+// The closed-loop magnitude is 1/√(1 + (f·NG/GBW)²) of the ideal, so an
+// error ε needs GBW ≥ NG·f/√(1/(1−ε)² − 1) (≈ 7.02 at 1 %).
+func gbwFactor(eps float64) float64 {
+	return 1 / math.Sqrt(1/((1-eps)*(1-eps))-1)
+}

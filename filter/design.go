@@ -1,0 +1,288 @@
+package filter
+
+import (
+	"fmt"
+	"maps"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// Design is a circuit described in a design TOML file: the supply, the
+// environment, hard filters on the parts, worst-case policy and the stages
+// that each need one op-amp channel. Every input keeps its text as written
+// (Value.Raw) beside its parsed value, so a front end can edit it in place
+// with Set and save it with EncodeDesign.
+type Design struct {
+	Name   string // file name for messages, e.g. "probe.toml"
+	Title  string
+	Supply Supply
+	Temp   [2]Value // environment.temp: [low, high] ambient, °C
+	Choose Choose
+	Policy Policy
+	Stages []*Stage
+}
+
+// Supply is the design's [supply] table.
+type Supply struct {
+	Pos       Value // nominal V+ against 0 V
+	Neg       Value // nominal V−
+	Tolerance Value // fraction each rail may move by
+}
+
+// Choose holds the hard filters of the design's [choose] table.
+type Choose struct {
+	Packages      Value // List: any of
+	Tech          Value // List: any of
+	Lifecycle     Value // List: any of; not set = anything but obsolete
+	MaxUnitCost   Value // plain number in the catalog's currency
+	SupplyCurrent Value // A, budget for every channel of the packages used
+}
+
+// Policy holds the worst-case rules of the design's [policy] table.
+type Policy struct {
+	DerateTyp  Value // bigger-is-better figure known only as typical: × this
+	InflateTyp Value // smaller-is-better figure known only as typical: × this
+}
+
+// Stage is one [[stage]] of a design: a name, a template kind and the
+// inputs the template takes, keyed by Param.Key (a Pair param is held as
+// Key+".low" and Key+".high").
+type Stage struct {
+	Name   string
+	Kind   string
+	Line   int // line of the stage's [[stage]] header, 0 when unknown
+	Values map[string]Value
+}
+
+// Value returns the stage input under key (zero Value when not given).
+func (s *Stage) Value(key string) Value { return s.Values[key] }
+
+// Stage returns the stage called name, or nil.
+func (d *Design) Stage(name string) *Stage {
+	for _, s := range d.Stages {
+		if s.Name == name {
+			return s
+		}
+	}
+	return nil
+}
+
+// Clone returns a deep copy of d that can be edited independently.
+func (d *Design) Clone() *Design {
+	c := *d
+	c.Stages = make([]*Stage, len(d.Stages))
+	for i, s := range d.Stages {
+		cs := *s
+		cs.Values = maps.Clone(s.Values)
+		if cs.Values == nil {
+			cs.Values = map[string]Value{}
+		}
+		c.Stages[i] = &cs
+	}
+	return &c
+}
+
+// designParam ties one design-level field to where it is held.
+type designParam struct {
+	Param
+	v *Value
+}
+
+// designParams lists the design-level inputs in file order. Paths are the
+// TOML keys joined with dots; the temperature pair is split into .low/.high.
+func (d *Design) designParams() []designParam {
+	return []designParam{
+		{Param{Key: "supply.pos", Label: "V+ rail", Kind: Quantity, Dim: catalog.Volt, Required: true,
+			Help: "nominal positive rail against 0 V"}, &d.Supply.Pos},
+		{Param{Key: "supply.neg", Label: "V− rail", Kind: Quantity, Dim: catalog.Volt, Default: "0 V",
+			Help: "nominal negative rail against 0 V"}, &d.Supply.Neg},
+		{Param{Key: "supply.tolerance", Label: "rail tolerance", Kind: Quantity, Dim: catalog.Ratio, Default: "0 %",
+			Help: "each rail moves toward 0 V by this; span min/max = span × (1 ∓ tolerance)"}, &d.Supply.Tolerance},
+		{Param{Key: "environment.temp.low", Label: "ambient low", Kind: Quantity, Dim: catalog.Celsius, Default: "25 C",
+			Help: "lowest ambient temperature"}, &d.Temp[0]},
+		{Param{Key: "environment.temp.high", Label: "ambient high", Kind: Quantity, Dim: catalog.Celsius, Default: "25 C",
+			Help: "highest ambient temperature"}, &d.Temp[1]},
+		{Param{Key: "choose.packages", Label: "packages", Kind: List,
+			Help: "any of these packages; empty = any"}, &d.Choose.Packages},
+		{Param{Key: "choose.tech", Label: "technology", Kind: List,
+			Choices: []string{"bipolar", "cmos", "jfet", "bicmos"},
+			Help:    "any of these input technologies; empty = any"}, &d.Choose.Tech},
+		{Param{Key: "choose.lifecycle", Label: "lifecycle", Kind: List,
+			Choices: []string{"active", "nrnd", "obsolete"},
+			Help:    "any of these lifecycle states; empty = anything but obsolete"}, &d.Choose.Lifecycle},
+		{Param{Key: "choose.max_unit_cost", Label: "max unit cost", Kind: Quantity, Dim: catalog.Dimensionless,
+			Help: "highest unit cost, in the catalog's currency"}, &d.Choose.MaxUnitCost},
+		{Param{Key: "choose.supply_current", Label: "supply current budget", Kind: Quantity, Dim: catalog.Ampere,
+			Help: "budget for all channels of the packages used"}, &d.Choose.SupplyCurrent},
+		{Param{Key: "policy.derate_typ", Label: "typical derating", Kind: Quantity, Dim: catalog.Dimensionless,
+			Default: fmt.Sprint(DefaultDerateTyp),
+			Help:    "bigger-is-better figure known only as typical is multiplied by this"}, &d.Policy.DerateTyp},
+		{Param{Key: "policy.inflate_typ", Label: "typical inflation", Kind: Quantity, Dim: catalog.Dimensionless,
+			Default: fmt.Sprint(DefaultInflateTyp),
+			Help:    "smaller-is-better figure known only as typical is multiplied by this"}, &d.Policy.InflateTyp},
+	}
+}
+
+// Fields lists every editable input of the design in form order: the
+// design-level inputs, then each stage's kind and template parameters.
+func (d *Design) Fields() []Field {
+	var out []Field
+	for _, p := range d.designParams() {
+		out = append(out, fieldOf(p.Key, p.Param, *p.v))
+	}
+	kinds := KnownKinds()
+	for _, s := range d.Stages {
+		prefix := "stage." + s.Name + "."
+		out = append(out, Field{Path: prefix + "kind", Label: s.Name + ": kind", Kind: Choice,
+			Choices: kinds, Raw: s.Kind, Set: true, Help: "stage template"})
+		t, ok := TemplateFor(s.Kind)
+		if !ok {
+			continue
+		}
+		for _, p := range t.Params() {
+			if p.Kind == Pair {
+				for _, side := range []string{"low", "high"} {
+					q := p
+					q.Kind, q.Label = Quantity, p.Label+" ("+side+")"
+					q.Default = ""
+					out = append(out, fieldOf(prefix+p.Key+"."+side, q, s.Values[p.Key+"."+side]))
+					out[len(out)-1].Label = s.Name + ": " + q.Label
+				}
+				continue
+			}
+			f := fieldOf(prefix+p.Key, p, s.Values[p.Key])
+			f.Label = s.Name + ": " + p.Label
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
+func fieldOf(path string, p Param, v Value) Field {
+	return Field{Path: path, Label: p.Label, Kind: p.Kind, Dim: p.Dim, Choices: p.Choices,
+		Raw: v.Raw, Set: v.Set, Default: p.Default, Help: p.Help}
+}
+
+// Set parses raw as the input at path (see Field.Path) and stores it. An
+// empty raw clears the input so its default applies. On error the old value
+// stays in force and the error (naming the field, the bad text and what was
+// wanted) is returned for inline display.
+func (d *Design) Set(path, raw string) error {
+	raw = strings.TrimSpace(raw)
+	for _, p := range d.designParams() {
+		if p.Key == path {
+			v, err := parseParam(p.Param, raw)
+			if err != nil {
+				return fmt.Errorf("field %q: %w", path, err)
+			}
+			*p.v = v
+			return nil
+		}
+	}
+	rest, ok := strings.CutPrefix(path, "stage.")
+	if !ok {
+		return fmt.Errorf("no field %q", path)
+	}
+	var s *Stage
+	for _, c := range d.Stages {
+		if r, ok := strings.CutPrefix(rest, c.Name+"."); ok && (s == nil || len(c.Name) > len(s.Name)) {
+			s, path = c, r
+		}
+	}
+	if s == nil {
+		return fmt.Errorf("no stage in field path %q", "stage."+rest)
+	}
+	if path == "kind" {
+		if _, ok := TemplateFor(raw); !ok {
+			return fmt.Errorf("stage %q: field \"kind\": %w", s.Name, unknownKind(raw))
+		}
+		s.Kind = raw
+		return nil
+	}
+	t, ok := TemplateFor(s.Kind)
+	if !ok {
+		return fmt.Errorf("stage %q: %w", s.Name, unknownKind(s.Kind))
+	}
+	p, key, ok := stageParam(t, path)
+	if !ok {
+		return fmt.Errorf("stage %q: no field %q for kind %q", s.Name, path, s.Kind)
+	}
+	v, err := parseParam(p, raw)
+	if err != nil {
+		return fmt.Errorf("stage %q: field %q: %w", s.Name, path, err)
+	}
+	if s.Values == nil {
+		s.Values = map[string]Value{}
+	}
+	if v.Set {
+		s.Values[key] = v
+	} else {
+		delete(s.Values, key)
+	}
+	return nil
+}
+
+// stageParam finds the param of t a stage field path names; for a Pair the
+// path is Key+".low" or Key+".high" and the param comes back as a Quantity.
+func stageParam(t Template, path string) (Param, string, bool) {
+	for _, p := range t.Params() {
+		if p.Kind == Pair {
+			if path == p.Key+".low" || path == p.Key+".high" {
+				q := p
+				q.Kind = Quantity
+				return q, path, true
+			}
+			continue
+		}
+		if p.Key == path {
+			return p, path, true
+		}
+	}
+	return Param{}, "", false
+}
+
+// parseParam reads raw text as a value of p. Empty text is "not given".
+func parseParam(p Param, raw string) (Value, error) {
+	if raw == "" {
+		if p.Required {
+			return Value{}, fmt.Errorf("is required, want %s", wantOf(p))
+		}
+		return Value{}, nil
+	}
+	switch p.Kind {
+	case Choice:
+		for _, c := range p.Choices {
+			if c == raw {
+				return Value{Raw: raw, Set: true}, nil
+			}
+		}
+		return Value{}, fmt.Errorf("%q is not one of %s", raw, strings.Join(p.Choices, ", "))
+	case List:
+		v := Value{Raw: raw, Set: true}
+		items := v.List()
+		if p.Choices != nil {
+			for _, it := range items {
+				if !contains(p.Choices, it) {
+					return Value{}, fmt.Errorf("%q is not one of %s", it, strings.Join(p.Choices, ", "))
+				}
+			}
+		}
+		v.Raw = strings.Join(items, ", ")
+		return v, nil
+	}
+	x, err := catalog.Parse(raw, p.Dim)
+	if err != nil {
+		return Value{}, err
+	}
+	return Value{Raw: raw, V: x, Set: true}, nil
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,101 @@
+// Package filter is opsift's requirements engine: it decodes a design,
+// derives what the op-amp must do, evaluates every part at worst case and
+// ranks the candidates by their smallest margin.
+//
+//	design TOML ─► DecodeDesign ─► *Design (every input: text as written + SI value)
+//	                                  │  Fields / Set / Clone / EncodeDesign (editing)
+//	                                  ▼
+//	               Derive ─► *Plan: Rails, temperatures, policy,
+//	                         Global []Requirement + per stage (Template.Derive) []Requirement
+//	                                  ▼
+//	[]*catalog.Part ─► Evaluate ─► Figures(part, plan) once per part ─► []Result{Checks, margins}
+//	                                  ▼
+//	                   Rank(results, SortKey) ─► report writers | tui
+//
+// # Stage templates
+//
+// A stage kind is a Template (Kind, Params, Derive), one file per kind
+// (stage_direct.go, stage_follower.go, stage_noninverting.go,
+// stage_inverting.go) plus one line in templates(). A kind the design
+// format names but no template implements yet is an error listing the
+// known kinds.
+//
+// # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
+// frequency, ε allowed gain error, default 1 %)
+//
+//   - Supply: span min/max = nominal span × (1 ∓ tolerance). A part passes
+//     when its rated supply.min ≤ span_min and span_max ≤ supply.max;
+//     margin = the smaller spare in volts / span_min.
+//   - Rails for headroom: each rail moved toward 0 V by the tolerance,
+//     V+w = pos·(1 − tol), V−w = neg·(1 − tol).
+//   - input_range: the signal at the op-amp inputs, ref ± Vp (follower,
+//     non-inverting) or the point ref (inverting: the inputs sit at ref),
+//     must lie within [V−w + input_cm.low, V+w + input_cm.high].
+//   - output_range: ref ± Vo, Vo = G·Vp, within [V−w + output.low,
+//     V+w + output.high]; a swing stated at R_spec is scaled to a heavier
+//     stage load R_load < R_spec as headroom × R_spec/R_load (linear
+//     output-resistance approximation; the check's note says so).
+//   - Range margin = the smallest spare volts / span_min.
+//   - slew: sine 2π·f·Vo; square 0.8·2Vo/rise (10–90 % of the step).
+//   - gbw: sine NG·f/√(1/(1−ε)² − 1) (single-pole loop, ≈ 7.02·NG·f at
+//     1 %); square NG·0.35/rise.
+//   - aol: NG/Aol ≤ ε, so Aol ≥ 20·log10(NG/ε) dB.
+//   - output_current: Vo/load_r + Vo/feedback_r (when given).
+//   - dc_error (when the stage sets it): NG·(Vos + Ib·source_r) ≤ allowed.
+//   - noise (when the stage sets it, allowed output rms):
+//     √(en² + (in·Rs)² + 4kTRs) × NG × √(π/2 · GBW/NG), k = 1.380649e-23
+//     J/K, T the design's highest temperature in kelvin, GBW the part's
+//     largest credible figure (typical, not derated) since more bandwidth
+//     is more noise.
+//   - supply_current (when [choose] sets it): packages × channels × Iq.
+//   - vdiff, cload: a stage states the differential input or load
+//     capacitance; the part's vdiff_max / cload must reach it.
+//   - Hard filters (pass/fail, margin null): temperature (the part's rated
+//     range covers the design's), package (any of), tech (any of),
+//     lifecycle (any of; default anything but obsolete), cost (unit cost ≤
+//     max_unit_cost). Supply is a range check with a margin.
+//
+// # Worst-case figures (Figures)
+//
+// In order: the over-temperature limit (min_ot/max_ot) when the design's
+// range leaves 25 °C; else the guaranteed limit (min/max) moved to the
+// range's extreme — Vos + drift·ΔT (drift max, else typical × inflate_typ;
+// ΔT the larger distance from 25 °C), FET-input (cmos, jfet) Ib and Ios ×
+// 2^(ΔT/10 K) for ΔT above 25 °C, other figures as given; else typical ×
+// derate_typ (0.7; bigger is better: GBW, slew, Iout, Aol as a linear gain)
+// or × inflate_typ (2.0; smaller is better: Vos, Ib, Ios, en, in, Iq),
+// moved by the same rule. Basis: guaranteed for limits, typical or graph
+// (source = "graph") for typical figures.
+//
+// # Margins (fractions; ≥ 0 ⇔ pass)
+//
+//   - lower bound (min): available/required − 1;
+//   - upper bound (max, an allowance): required/available − 1, where
+//     required is the allowance and available the part's worst-case value;
+//   - range and supply: spare volts / minimum supply span;
+//   - figures in dB (aol) compare as the linear gains they stand for:
+//     10^((available − required)/20) − 1;
+//   - hard filters: none (NaN; null in JSON).
+//
+// A check whose figure the catalog lacks is unknown: no margin, left out of
+// the worst margin, and neither pass nor fail unless Options.Strict. A
+// candidate's worst margin is its smallest margin over all checks; Binding
+// names that check. With n stages: packages = ⌈n/channels⌉, cost =
+// packages × unit cost, supply current = packages × channels × Iq.
+//
+// fmax per stage is the highest sine frequency at the stage's amplitude at
+// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG).
+//
+// # Speed
+//
+// Evaluate computes each part's worst-case figures once and shares them
+// across its checks; parts are split over the CPUs above a few thousand.
+// Options.Summary keeps only the per-part summary (the per-keystroke path
+// of the interactive selector) and Explain fills in the checks of the rows
+// on screen. Rank sorts small precomputed keys and moves each Result once.
+// BenchmarkEvaluate measures edit → Derive → Evaluate → Rank.
+//
+// Rank puts passing candidates first (by worst margin, largest first,
+// ties by cost, then id; or by cost, supply current, fmax or id), then
+// failing ones by fewest failing checks and nearest miss.
+package filter

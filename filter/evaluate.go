@@ -1,0 +1,385 @@
+package filter
+
+import (
+	"math"
+	"runtime"
+	"sync"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// Check notes; constant text so evaluation allocates nothing per check.
+const (
+	noteUnknown     = "the catalog lacks the figure"
+	noteUnknownSide = "the catalog lacks one side of the range"
+	noteScaled      = "swing scaled to the load: headroom × R_spec/R_load (linear output-resistance approximation)"
+	noteNoSwingLoad = "swing load not stated; used as given"
+	noteStrict      = "unknown figure counts as a failure (strict)"
+	noteNoLifecycle = "the catalog does not give the lifecycle"
+	noteNoCost      = "the catalog does not give the unit cost"
+	noteNoTemp      = "the catalog does not give the rated temperature range"
+)
+
+// Evaluate checks every part against every requirement of the plan at
+// worst case. The worst-case figures of each part are computed once
+// (Figures) and shared by all its checks. The results are in parts order;
+// Rank sorts them. The Checks of all results share one backing array; with
+// Options.Summary they are not kept (Result.Checks is nil) and Explain
+// fills them in for the results a front end shows.
+func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
+	reqs := make([]*Requirement, 0, len(plan.Global)+8*len(plan.Stages))
+	owner := make([]int, 0, cap(reqs)) // stage index of each requirement, -1 global
+	for i := range plan.Global {
+		reqs = append(reqs, &plan.Global[i])
+		owner = append(owner, -1)
+	}
+	for si := range plan.Stages {
+		for i := range plan.Stages[si].Requirements {
+			reqs = append(reqs, &plan.Stages[si].Requirements[i])
+			owner = append(owner, si)
+		}
+	}
+	n := len(plan.Stages)
+	results := make([]Result, len(parts))
+	var checks []Check
+	if !o.Summary {
+		checks = make([]Check, len(parts)*len(reqs))
+	}
+	fmax := make([]float64, len(parts)*n)
+	ev := evaluator{plan: plan, strict: o.Strict}
+	run := func(lo, hi int) {
+		// One figures buffer per worker: it is passed by pointer to the
+		// checks (and to Measure hooks), which would otherwise move a
+		// fresh copy to the heap for every part.
+		f := new(PartFigures)
+		var scratch []Check
+		if o.Summary {
+			scratch = make([]Check, len(reqs))
+		}
+		for i := lo; i < hi; i++ {
+			r := &results[i]
+			r.Part = parts[i]
+			if o.Summary {
+				r.Checks = scratch
+			} else {
+				r.Checks = checks[i*len(reqs) : (i+1)*len(reqs) : (i+1)*len(reqs)]
+			}
+			r.FMax = fmax[i*n : (i+1)*n : (i+1)*n]
+			ev.part(r, f, reqs, owner)
+			if o.Summary {
+				r.Checks = nil
+			}
+		}
+	}
+	// Parts are independent: large catalogs are split over the CPUs, each
+	// worker writing only its own range of the shared arrays.
+	workers := min(runtime.GOMAXPROCS(0), len(parts)/parallelMin)
+	if workers < 2 {
+		run(0, len(parts))
+		return results
+	}
+	var wg sync.WaitGroup
+	chunk := (len(parts) + workers - 1) / workers
+	for lo := 0; lo < len(parts); lo += chunk {
+		hi := min(lo+chunk, len(parts))
+		wg.Go(func() { run(lo, hi) })
+	}
+	wg.Wait()
+	return results
+}
+
+// evaluator holds what is fixed for one plan.
+type evaluator struct {
+	plan   *Plan
+	strict bool
+}
+
+func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner []int) {
+	p := r.Part
+	*f = Figures(p, ev.plan)
+	ch := p.Channels
+	if ch < 1 {
+		ch = 1
+	}
+	n := len(ev.plan.Stages)
+	r.Packages = (n + ch - 1) / ch
+	r.Cost = math.NaN()
+	if p.UnitCost.Set {
+		r.Cost = float64(r.Packages) * p.UnitCost.V
+	}
+	r.SupplyCurrent = math.NaN()
+	if f.Iq.Known {
+		r.SupplyCurrent = float64(r.Packages*ch) * f.Iq.V
+	}
+	r.WorstMargin = math.NaN()
+	r.Pass = true
+	for i, q := range reqs {
+		c := &r.Checks[i]
+		var sp *StagePlan
+		if owner[i] >= 0 {
+			sp = &ev.plan.Stages[owner[i]]
+		}
+		ev.check(c, q, sp, p, f, r)
+		switch c.Status {
+		case StatusFail:
+			r.Failed++
+			r.Pass = false
+		case StatusUnknown:
+			r.Unknown++
+			if ev.strict {
+				c.Note = noteStrict
+				r.Pass = false
+			}
+		}
+		if c.HasMargin() && (math.IsNaN(r.WorstMargin) || c.Margin < r.WorstMargin) {
+			r.WorstMargin = c.Margin
+			r.Binding = Binding{Stage: q.Stage, Key: q.Key}
+		}
+	}
+	for si := range ev.plan.Stages {
+		r.FMax[si] = stageFMax(&ev.plan.Stages[si], f)
+	}
+}
+
+// stageFMax is the highest sine frequency at the stage's output amplitude
+// at which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG).
+func stageFMax(sp *StagePlan, f *PartFigures) float64 {
+	if sp.Shape != "sine" || sp.Vo <= 0 || sp.NoiseGain <= 0 || !f.Slew.Known || !f.GBW.Known {
+		return math.NaN()
+	}
+	fs := f.Slew.V / (2 * math.Pi * sp.Vo)
+	fg := f.GBW.V / (gbwFactor(sp.GainError) * sp.NoiseGain)
+	return math.Min(fs, fg)
+}
+
+// check evaluates one requirement into c.
+func (ev *evaluator) check(c *Check, q *Requirement, sp *StagePlan, p *catalog.Part, f *PartFigures, r *Result) {
+	*c = Check{Req: q, Required: q.Value, Available: math.NaN(), AvailLow: math.NaN(), AvailHigh: math.NaN(), Margin: math.NaN()}
+	if q.Measure != nil {
+		ev.numeric(c, q.Bound, q.Measure(p, f))
+		return
+	}
+	rails := &ev.plan.Rails
+	switch q.Key {
+	case KeySupply:
+		c.Basis = BasisGuaranteed
+		ev.window(c, p.Supply.Min, p.Supply.Max, ev.plan.Rails.SpanMin)
+	case KeyInputRange:
+		w := f.Input
+		c.Basis = w.Basis
+		ev.window(c, catalog.Opt{V: rails.NegWorst + w.Low, Set: w.LowKnown},
+			catalog.Opt{V: rails.PosWorst + w.High, Set: w.HighKnown}, rails.SpanMin)
+	case KeyOutputRange:
+		load := 0.0
+		if sp != nil {
+			load = sp.LoadR
+		}
+		w, scaled := f.OutputAt(load)
+		c.Basis = w.Basis
+		ev.window(c, catalog.Opt{V: rails.NegWorst + w.Low, Set: w.LowKnown},
+			catalog.Opt{V: rails.PosWorst + w.High, Set: w.HighKnown}, rails.SpanMin)
+		if c.Note == "" {
+			if scaled {
+				c.Note = noteScaled
+			} else if load > 0 && f.OutputLoad == 0 {
+				c.Note = noteNoSwingLoad
+			}
+		}
+	case KeySlew:
+		ev.numeric(c, q.Bound, f.Slew)
+	case KeyGBW:
+		ev.numeric(c, q.Bound, f.GBW)
+	case KeyAol:
+		ev.numeric(c, q.Bound, f.Aol)
+	case KeyOutputCurrent:
+		ev.numeric(c, q.Bound, f.Iout)
+	case KeyVos:
+		ev.numeric(c, q.Bound, f.Vos)
+	case KeyIb:
+		ev.numeric(c, q.Bound, f.Ib)
+	case KeyVdiff:
+		ev.numeric(c, q.Bound, Figure{V: p.VdiffMax.V, Known: p.VdiffMax.Set, Basis: BasisGuaranteed})
+	case KeyCLoad:
+		ev.numeric(c, q.Bound, Figure{V: p.CLoad.V, Known: p.CLoad.Set, Basis: BasisGuaranteed})
+	case KeyDCError:
+		ev.numeric(c, q.Bound, dcError(sp, f))
+	case KeyNoise:
+		ev.numeric(c, q.Bound, outputNoise(sp, f, ev.plan.TempHigh))
+	case KeySupplyCurrent:
+		fig := f.Iq
+		fig.V = r.SupplyCurrent
+		ev.numeric(c, q.Bound, fig)
+	case KeyTemperature:
+		if !p.Temp[0].Set || !p.Temp[1].Set {
+			ev.unknown(c, noteNoTemp)
+			return
+		}
+		c.AvailLow, c.AvailHigh = p.Temp[0].V, p.Temp[1].V
+		ev.hard(c, p.Temp[0].V <= q.Low && q.High <= p.Temp[1].V)
+	case KeyPackage:
+		ok := false
+		for _, pk := range q.Allowed {
+			if p.HasPackage(pk) {
+				ok = true
+				break
+			}
+		}
+		ev.hard(c, ok)
+	case KeyTech:
+		ev.hard(c, contains(q.Allowed, string(p.Tech)))
+	case KeyLifecycle:
+		if p.Lifecycle == "" {
+			ev.unknown(c, noteNoLifecycle)
+			return
+		}
+		ev.hard(c, contains(q.Allowed, string(p.Lifecycle)))
+	case KeyCost:
+		if !p.UnitCost.Set {
+			ev.unknown(c, noteNoCost)
+			return
+		}
+		c.Available = p.UnitCost.V
+		ev.hard(c, p.UnitCost.V <= q.Value)
+	default:
+		ev.unknown(c, noteUnknown)
+	}
+}
+
+// dcError is the output-referred DC error NG·(Vos + Ib·Rs) with worst-case
+// Vos and Ib; its basis is the weaker of the two.
+func dcError(sp *StagePlan, f *PartFigures) Figure {
+	if sp == nil || !f.Vos.Known {
+		return Figure{}
+	}
+	v, basis, note := f.Vos.V, f.Vos.Basis, f.Vos.Note
+	if sp.SourceR > 0 {
+		if !f.Ib.Known {
+			return Figure{}
+		}
+		v += f.Ib.V * sp.SourceR
+		basis = weaker(basis, f.Ib.Basis)
+		if f.Ib.Basis > f.Vos.Basis {
+			note = f.Ib.Note
+		}
+	}
+	return Figure{V: sp.NoiseGain * v, Known: true, Basis: basis, Note: note}
+}
+
+// outputNoise is the output rms noise of a stage over the single-pole
+// closed-loop noise bandwidth π/2 · GBW/NG:
+//
+//	√(en² + (in·Rs)² + 4kTRs) × NG × √(π/2 · GBW/NG)
+//
+// with T the design's highest temperature in kelvin. A larger GBW widens
+// the noise bandwidth, so the worst case takes the part's largest credible
+// GBW (PartFigures.GBWHigh: the typical, not derated, else the limit).
+func outputNoise(sp *StagePlan, f *PartFigures, tempHigh float64) Figure {
+	if sp == nil || !f.En.Known || !f.GBW.Known || sp.NoiseGain <= 0 {
+		return Figure{}
+	}
+	rs := sp.SourceR
+	density2 := f.En.V * f.En.V
+	basis := weaker(f.En.Basis, f.GBWHigh.Basis)
+	if rs > 0 {
+		if !f.In.Known {
+			return Figure{}
+		}
+		density2 += f.In.V*f.In.V*rs*rs + 4*Boltzmann*(tempHigh+ZeroCelsius)*rs
+		basis = weaker(basis, f.In.Basis)
+	}
+	bw := math.Pi / 2 * f.GBWHigh.V / sp.NoiseGain
+	return Figure{V: math.Sqrt(density2) * sp.NoiseGain * math.Sqrt(bw), Known: true, Basis: basis, Note: f.En.Note}
+}
+
+// weaker returns the weaker of two bases (guaranteed < typical < graph).
+func weaker(a, b Basis) Basis {
+	if b > a {
+		return b
+	}
+	return a
+}
+
+// numeric fills a min or max check from the part's figure.
+func (ev *evaluator) numeric(c *Check, b Bound, fig Figure) {
+	if !fig.Known {
+		ev.unknown(c, noteUnknown)
+		return
+	}
+	c.Available, c.Basis, c.Note = fig.V, fig.Basis, fig.Note
+	switch {
+	case c.Req.Dim == catalog.Decibel:
+		// Gains in dB compare as the linear ratios they stand for.
+		d := fig.V - c.Required
+		if b == BoundMax {
+			d = -d
+		}
+		c.Margin = math.Pow(10, d/20) - 1
+	case b == BoundMin:
+		c.Margin = fig.V/c.Required - 1
+	case b == BoundMax:
+		if fig.V <= 0 {
+			c.Margin = math.Inf(1)
+		} else {
+			c.Margin = c.Required/fig.V - 1
+		}
+	}
+	c.Pass = c.Margin >= 0
+	c.Status = StatusFail
+	if c.Pass {
+		c.Status = StatusPass
+	}
+}
+
+// window fills a range check: the part's window [lo, hi] must cover the
+// requirement's [Low, High]. Margin is the smaller spare in volts over span.
+// With one side unknown the check fails if the known side fails, else is
+// unknown.
+func (ev *evaluator) window(c *Check, lo, hi catalog.Opt, span float64) {
+	q := c.Req
+	spare := math.Inf(1)
+	if lo.Set {
+		c.AvailLow = lo.V
+		spare = math.Min(spare, q.Low-lo.V)
+	}
+	if hi.Set {
+		c.AvailHigh = hi.V
+		spare = math.Min(spare, hi.V-q.High)
+	}
+	if !lo.Set || !hi.Set {
+		if (lo.Set || hi.Set) && spare < 0 {
+			c.Margin = spare / span
+			c.Status, c.Note = StatusFail, noteUnknownSide
+			return
+		}
+		ev.unknown(c, noteUnknownSide)
+		return
+	}
+	c.Margin = spare / span
+	c.Pass = c.Margin >= 0
+	c.Status = StatusFail
+	if c.Pass {
+		c.Status = StatusPass
+	}
+}
+
+func (ev *evaluator) hard(c *Check, ok bool) {
+	c.Pass = ok
+	c.Status = StatusFail
+	if ok {
+		c.Status = StatusPass
+	}
+}
+
+func (ev *evaluator) unknown(c *Check, note string) {
+	c.Status, c.Note, c.Margin, c.Pass = StatusUnknown, note, math.NaN(), false
+}
+
+// Explain fills in r.Checks when r came from a Summary evaluation: it
+// evaluates r's part again against plan, with the same outcome.
+func Explain(plan *Plan, r *Result, o Options) {
+	if r.Checks != nil {
+		return
+	}
+	o.Summary = false
+	*r = Evaluate(plan, []*catalog.Part{r.Part}, o)[0]
+}

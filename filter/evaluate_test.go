@@ -1,0 +1,326 @@
+package filter_test
+
+import (
+	"math"
+	"testing"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// Margin formulas (DESIGN.md): lower bound available/required − 1; upper
+// bound (allowance) required/available − 1; range spare volts / minimum
+// supply span. Margin ≥ 0 ⇔ pass. Numbers worked by hand.
+func TestMarginFormulas(t *testing.T) {
+	_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "10 V"
+[[stage]]
+name = "s"
+kind = "noninverting"
+gain = 2
+ref = "5 V"
+signal = { peak = "1 V", freq = "1 kHz" }
+dc_error = "10 mV"
+`)
+	tests := []struct {
+		name   string
+		key    filter.Key
+		set    func(p *catalog.Part)
+		margin float64
+	}{
+		// slew need 2π·1 kHz·2 V = 12566 V/s; 25133 available → +1.
+		{"lower bound passes", filter.KeySlew, func(p *catalog.Part) { p.Slew = catalog.Spec{Min: opt(4 * math.Pi * 2e3)} }, 1},
+		{"lower bound fails", filter.KeySlew, func(p *catalog.Part) { p.Slew = catalog.Spec{Min: opt(4 * math.Pi * 500)} }, -0.5},
+		// dc error NG·Vos = 2·2.5 mV = 5 mV against 10 mV → 10/5 − 1 = +1.
+		{"allowance passes", filter.KeyDCError, func(p *catalog.Part) { p.Vos = catalog.Spec{Max: opt(2.5e-3)} }, 1},
+		// 2·10 mV = 20 mV against 10 mV → −0.5.
+		{"allowance fails", filter.KeyDCError, func(p *catalog.Part) { p.Vos = catalog.Spec{Max: opt(10e-3)} }, -0.5},
+		// output 3 … 7 V; swing 0.5 … 10 − 1.5 = 8.5 V → spare min(2.5, 1.5) = 1.5 V / 10 V.
+		{"range passes", filter.KeyOutputRange, func(p *catalog.Part) {
+			p.Output = catalog.Swing{Low: opt(0.5), High: opt(-1.5)}
+		}, 0.15},
+		// swing up to 10 − 3.5 = 6.5 V → spare −0.5 V / 10 V.
+		{"range fails", filter.KeyOutputRange, func(p *catalog.Part) {
+			p.Output = catalog.Swing{Low: opt(0.5), High: opt(-3.5)}
+		}, -0.05},
+		// input 4 … 6 V; CM 0 … 10 − 1.5 → spare min(4, 2.5) / 10.
+		{"input range", filter.KeyInputRange, func(p *catalog.Part) {
+			p.InputCM = catalog.Headroom{Low: opt(0), High: opt(-1.5)}
+		}, 0.25},
+		// supply span 10 V exactly, part 3 … 12 V → spare min(7, 2) / 10.
+		{"supply", filter.KeySupply, func(p *catalog.Part) { p.Supply = catalog.Span{Min: opt(3), Max: opt(12)} }, 0.2},
+		{"supply above the rating", filter.KeySupply, func(p *catalog.Part) { p.Supply = catalog.Span{Min: opt(3), Max: opt(9)} }, -0.1},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			tc.set(part)
+			stage := "s"
+			if tc.key == filter.KeySupply {
+				stage = ""
+			}
+			c := check(t, evalOne(t, p, part, filter.Options{}), stage, tc.key)
+			near(t, "margin", c.Margin, tc.margin, 1e-9)
+			if c.Pass != (c.Margin >= 0) {
+				t.Errorf("pass = %v with margin %g", c.Pass, c.Margin)
+			}
+		})
+	}
+}
+
+// Tolerance: span min/max = span × (1 ∓ tol); each rail moves toward 0 V
+// by tol for headroom. ±15 V at 5 %: span 28.5 … 31.5 V, rails ±14.25 V.
+func TestToleranceHandling(t *testing.T) {
+	_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "15 V"
+neg = "-15 V"
+tolerance = "5 %"
+[[stage]]
+name = "s"
+kind = "follower"
+ref = "0 V"
+signal = { peak = "13 V", freq = "1 Hz" }
+`)
+	r := p.Rails
+	near(t, "span min", r.SpanMin, 28.5, 1e-12)
+	near(t, "span max", r.SpanMax, 31.5, 1e-12)
+	near(t, "V+ worst", r.PosWorst, 14.25, 1e-12)
+	near(t, "V− worst", r.NegWorst, -14.25, 1e-12)
+	tests := []struct {
+		name   string
+		supply catalog.Span
+		pass   bool
+	}{
+		{"36 V part fits 31.5 V", catalog.Span{Min: opt(4), Max: opt(36)}, true},
+		{"30 V part fails 31.5 V at +5 %", catalog.Span{Min: opt(4), Max: opt(30)}, false},
+		{"part needing 29 V fails 28.5 V at −5 %", catalog.Span{Min: opt(29), Max: opt(40)}, false},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			part.Supply = tc.supply
+			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
+				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
+			}
+		})
+	}
+	// Output 13 V peak: the swing must reach 13 V from a 14.25 V rail, 1.25 V headroom.
+	for _, tc := range []struct {
+		high float64
+		pass bool
+	}{{-1.2, true}, {-1.3, false}} {
+		part := basePart("x")
+		part.Output = catalog.Swing{Low: opt(-tc.high), High: opt(tc.high)}
+		c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyOutputRange)
+		if c.Pass != tc.pass {
+			t.Errorf("swing %g V from the rails: pass = %v, want %v", tc.high, c.Pass, tc.pass)
+		}
+	}
+}
+
+// Load scaling: a swing stated at 10 kΩ is scaled to a 2 kΩ load by ×5
+// (linear output resistance); a lighter load is not scaled.
+func TestOutputSwingLoadScaling(t *testing.T) {
+	design := func(load string) *filter.Plan {
+		_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "10 V"
+[[stage]]
+name = "s"
+kind = "follower"
+ref = "5 V"
+signal = { peak = "1 V", freq = "1 Hz" }
+load_r = "`+load+`"
+`)
+		return p
+	}
+	part := basePart("x")
+	part.Output = catalog.Swing{Low: opt(0.1), High: opt(-0.2), Load: opt(10e3)}
+	tests := []struct {
+		load    string
+		lo, hi  float64
+		scaled  bool
+		noteSet bool
+	}{
+		{"2 kOhm", 0.5, 9, true, true},
+		{"10 kOhm", 0.1, 9.8, false, false},
+		{"100 kOhm", 0.1, 9.8, false, false},
+	}
+	for _, tc := range tests {
+		t.Run(tc.load, func(t *testing.T) {
+			c := check(t, evalOne(t, design(tc.load), part, filter.Options{}), "s", filter.KeyOutputRange)
+			near(t, "low", c.AvailLow, tc.lo, 1e-12)
+			near(t, "high", c.AvailHigh, tc.hi, 1e-12)
+			if (c.Note != "") != tc.noteSet {
+				t.Errorf("note = %q, want set = %v", c.Note, tc.noteSet)
+			}
+		})
+	}
+}
+
+// Each hard filter: pass/fail, no margin.
+func TestHardFilters(t *testing.T) {
+	_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "5 V"
+[environment]
+temp = ["-40 C", "85 C"]
+[choose]
+packages = ["soic8", "msop8"]
+tech = ["cmos", "bicmos"]
+max_unit_cost = 1.5
+[[stage]]
+name = "s"
+kind = "follower"
+signal = { peak = "0.1 V", freq = "1 kHz" }
+`)
+	tests := []struct {
+		name string
+		key  filter.Key
+		set  func(p *catalog.Part)
+		want filter.Status
+	}{
+		{"temperature covered", filter.KeyTemperature, func(p *catalog.Part) {}, filter.StatusPass},
+		{"temperature not covered", filter.KeyTemperature, func(p *catalog.Part) { p.Temp[1] = opt(70) }, filter.StatusFail},
+		{"temperature unknown", filter.KeyTemperature, func(p *catalog.Part) { p.Temp = [2]catalog.Opt{} }, filter.StatusUnknown},
+		{"package any of", filter.KeyPackage, func(p *catalog.Part) { p.Packages = []string{"dip8", "msop8"} }, filter.StatusPass},
+		{"package none", filter.KeyPackage, func(p *catalog.Part) { p.Packages = []string{"dip8"} }, filter.StatusFail},
+		{"tech any of", filter.KeyTech, func(p *catalog.Part) { p.Tech = catalog.TechBiCMOS }, filter.StatusPass},
+		{"tech other", filter.KeyTech, func(p *catalog.Part) { p.Tech = catalog.TechBipolar }, filter.StatusFail},
+		{"lifecycle nrnd by default", filter.KeyLifecycle, func(p *catalog.Part) { p.Lifecycle = catalog.LifecycleNRND }, filter.StatusPass},
+		{"lifecycle obsolete excluded by default", filter.KeyLifecycle, func(p *catalog.Part) { p.Lifecycle = catalog.LifecycleObsolete }, filter.StatusFail},
+		{"cost at the limit", filter.KeyCost, func(p *catalog.Part) { p.UnitCost = opt(1.5) }, filter.StatusPass},
+		{"cost over", filter.KeyCost, func(p *catalog.Part) { p.UnitCost = opt(1.51) }, filter.StatusFail},
+		{"cost unknown", filter.KeyCost, func(p *catalog.Part) { p.UnitCost = catalog.Opt{} }, filter.StatusUnknown},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			tc.set(part)
+			r := evalOne(t, p, part, filter.Options{})
+			c := check(t, r, "", tc.key)
+			if c.Status != tc.want {
+				t.Errorf("status = %s, want %s", c.Status, tc.want)
+			}
+			if c.HasMargin() {
+				t.Errorf("hard filter has margin %g", c.Margin)
+			}
+			if (tc.want == filter.StatusFail) == r.Pass {
+				t.Errorf("candidate pass = %v with a %s hard filter", r.Pass, c.Status)
+			}
+		})
+	}
+	// An explicit lifecycle list replaces the default.
+	_, p2 := mustDesign(t, sineDesign(`pos = "5 V"`+"\n[choose]\n"+`lifecycle = ["active"]`,
+		`kind = "follower"`+"\n"+`signal = { peak = "0.1 V", freq = "1 kHz" }`))
+	part := basePart("x")
+	part.Lifecycle = catalog.LifecycleNRND
+	if c := check(t, evalOne(t, p2, part, filter.Options{}), "", filter.KeyLifecycle); c.Pass {
+		t.Errorf("nrnd passes lifecycle = [active]")
+	}
+}
+
+// Multi-stage: n stages on a part of c channels need ⌈n/c⌉ packages; cost
+// and supply current count whole packages (every channel draws Iq).
+func TestMultiStage(t *testing.T) {
+	stage := func(name string) string {
+		return "[[stage]]\nname = \"" + name + "\"\nkind = \"follower\"\nsignal = { peak = \"0.1 V\", freq = \"1 kHz\" }\n"
+	}
+	_, p := mustDesign(t, "title = \"t\"\n[supply]\npos = \"5 V\"\n[choose]\nsupply_current = \"5 mA\"\n"+
+		stage("a")+stage("b")+stage("c"))
+	tests := []struct {
+		channels int
+		pkgs     int
+		cost     float64
+		iq       float64
+		pass     bool
+	}{
+		{1, 3, 3, 3e-3, true},
+		{2, 2, 2, 4e-3, true},
+		{4, 1, 1, 4e-3, true},
+		{8, 1, 1, 8e-3, false}, // 8 channels × 1 mA over the 5 mA budget
+	}
+	for _, tc := range tests {
+		part := basePart("x")
+		part.Channels = tc.channels
+		r := evalOne(t, p, part, filter.Options{})
+		if r.Packages != tc.pkgs || r.Cost != tc.cost {
+			t.Errorf("%d channels: packages %d cost %g, want %d %g", tc.channels, r.Packages, r.Cost, tc.pkgs, tc.cost)
+		}
+		near(t, "supply current", r.SupplyCurrent, tc.iq, 1e-12)
+		c := check(t, r, "", filter.KeySupplyCurrent)
+		if c.Pass != tc.pass {
+			t.Errorf("%d channels: supply_current pass = %v, want %v", tc.channels, c.Pass, tc.pass)
+		}
+		if len(r.FMax) != 3 {
+			t.Errorf("fmax per stage: %d entries, want 3", len(r.FMax))
+		}
+	}
+}
+
+// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG); at fmax both checks pass
+// with margin ≥ 0 and one binds at 0.
+func TestFMaxIsTheEdge(t *testing.T) {
+	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
+		`kind = "noninverting"`+"\ngain = 10\n"+`ref = "0 V"`+"\n"+`signal = { peak = "0.5 V", freq = "1 kHz" }`))
+	part := basePart("x")
+	part.Slew = catalog.Spec{Min: opt(2e6)}
+	part.GBW = catalog.Spec{Min: opt(5e6)}
+	r := evalOne(t, p, part, filter.Options{})
+	fs := 2e6 / (2 * math.Pi * 5)
+	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1))
+	near(t, "fmax", r.FMax[0], math.Min(fs, fg), 1e-12)
+	// Re-derive at fmax: the binding check sits at margin 0.
+	d, _ := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
+		`kind = "noninverting"`+"\ngain = 10\n"+`ref = "0 V"`+"\n"+`signal = { peak = "0.5 V", freq = "1 kHz" }`))
+	d.Stages[0].Values["signal.freq"] = filter.Value{Raw: "fmax", V: r.FMax[0], Set: true}
+	p2, err := filter.Derive(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r2 := evalOne(t, p2, part, filter.Options{})
+	if math.Abs(r2.WorstMargin) > 1e-9 {
+		t.Errorf("worst margin at fmax = %g, want 0", r2.WorstMargin)
+	}
+}
+
+// dc_error with source resistance: NG·(Vos + Ib·Rs).
+func TestDCErrorWithBias(t *testing.T) {
+	_, p := mustDesign(t, sineDesign(`pos = "5 V"`,
+		`kind = "noninverting"`+"\ngain = 5\n"+`signal = { peak = "0.1 V", freq = "1 kHz" }`+"\n"+`source_r = "1 MOhm"`+"\n"+`dc_error = "20 mV"`))
+	part := basePart("x")
+	part.Vos = catalog.Spec{Max: opt(1e-3)}
+	part.Ib = catalog.Spec{Max: opt(1e-9)}
+	c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyDCError)
+	near(t, "dc error", c.Available, 5*(1e-3+1e-9*1e6), 1e-12) // 10 mV
+	near(t, "margin", c.Margin, 1, 1e-12)
+}
+
+// A Summary evaluation gives the same outcome as a full one, and Explain
+// restores the same checks.
+func TestSummaryMatchesFull(t *testing.T) {
+	_, p := mustDesign(t, sineDesign(`pos = "12 V"`,
+		`kind = "noninverting"`+"\ngain = 10\n"+`signal = { peak = "0.5 V", freq = "20 kHz" }`+"\n"+`load_r = "10 kOhm"`+"\n"+`dc_error = "100 mV"`))
+	parts := synthetic(500)
+	full := filter.Evaluate(p, parts, filter.Options{})
+	sum := filter.Evaluate(p, parts, filter.Options{Summary: true})
+	for i := range full {
+		a, b := full[i], sum[i]
+		if b.Checks != nil {
+			t.Fatalf("summary kept checks")
+		}
+		if a.Pass != b.Pass || a.Failed != b.Failed || a.Unknown != b.Unknown || a.Binding != b.Binding ||
+			!(a.WorstMargin == b.WorstMargin || math.IsNaN(a.WorstMargin) && math.IsNaN(b.WorstMargin)) {
+			t.Fatalf("%s: summary %+v differs from full %+v", a.Part.ID, b, a)
+		}
+		filter.Explain(p, &b, filter.Options{})
+		for j := range a.Checks {
+			x, y := a.Checks[j], b.Checks[j]
+			if x.Req.Key != y.Req.Key || x.Status != y.Status || !(x.Margin == y.Margin || math.IsNaN(x.Margin) && math.IsNaN(y.Margin)) {
+				t.Fatalf("%s check %d: %+v vs %+v", a.Part.ID, j, x, y)
+			}
+		}
+	}
+}

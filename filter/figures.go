@@ -1,0 +1,206 @@
+package filter
+
+import (
+	"math"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// Notes the figure rules attach; constant so evaluation never formats text.
+const (
+	noteOT          = "limit over the rated temperature range"
+	noteRoom        = "25 °C limit (no over-temperature limit given)"
+	noteRoomNoDrift = "25 °C limit; no drift figure to move it to temperature"
+	noteDrift       = "25 °C limit + drift·ΔT"
+	noteFET         = "25 °C limit × 2^(ΔT/10 K), FET input"
+	noteDerate      = "typical × derate_typ"
+	noteInflate     = "typical × inflate_typ"
+	noteInflDrift   = "typical × inflate_typ + drift·ΔT"
+	noteInflFET     = "typical × inflate_typ × 2^(ΔT/10 K), FET input"
+	noteEstimate    = "estimated figure"
+)
+
+// Figures returns the worst-case figures of part p at plan's temperature
+// range and policy (DESIGN.md "Worst case and margins"):
+//
+//  1. the over-temperature limit (min_ot/max_ot) when the range leaves 25 °C;
+//  2. else the guaranteed limit (min/max) moved to the range's extreme by the
+//     figure's rule: Vos + drift·ΔT (drift max, else typical × inflate_typ,
+//     ΔT the larger distance from 25 °C); FET-input (cmos, jfet) Ib and Ios
+//     × 2^(ΔT/10 K) with ΔT the rise above 25 °C; other figures as given;
+//  3. else the typical figure × derate_typ (bigger is better: GBW, slew,
+//     output current; Aol derated as a linear gain) or × inflate_typ (smaller
+//     is better: Vos, Ib, Ios, en, in, Iq), moved by the same rule.
+//
+// Basis is guaranteed for limits, typical or graph (Source "graph") for
+// typical figures.
+func Figures(p *catalog.Part, plan *Plan) PartFigures {
+	w := worst{leaves: plan.TempLow < RoomTemp || plan.TempHigh > RoomTemp,
+		derate: plan.DerateTyp, inflate: plan.InflateTyp}
+	if w.derate == 0 {
+		w.derate = DefaultDerateTyp
+	}
+	if w.inflate == 0 {
+		w.inflate = DefaultInflateTyp
+	}
+	dtAbs := math.Max(math.Abs(plan.TempLow-RoomTemp), math.Abs(plan.TempHigh-RoomTemp))
+	dtHot := math.Max(0, plan.TempHigh-RoomTemp)
+	f := PartFigures{
+		GBW:  w.bigger(p.GBW),
+		Slew: w.bigger(p.Slew),
+		Iout: w.bigger(p.Iout),
+		Aol:  w.biggerDB(p.Aol),
+		En:   w.smaller(p.En),
+		In:   w.smaller(p.In),
+		Iq:   w.smaller(p.Iq),
+		Vos:  w.vos(p.Vos, p.VosDrift, dtAbs),
+		Ib:   w.leakage(p.Ib, p.Tech.FETInput(), dtHot),
+		Ios:  w.leakage(p.Ios, p.Tech.FETInput(), dtHot),
+	}
+	f.GBWHigh = f.GBW
+	if p.GBW.Typ.Set {
+		f.GBWHigh = Figure{p.GBW.Typ.V, true, typBasis(p.GBW.Source), "typical, not derated (noise bandwidth)"}
+	}
+	f.Input = Window{Low: p.InputCM.Low.V, High: p.InputCM.High.V,
+		LowKnown: p.InputCM.Low.Set, HighKnown: p.InputCM.High.Set, Basis: sourceBasis(p.InputCM.Source)}
+	f.Output = Window{Low: p.Output.Low.V, High: p.Output.High.V,
+		LowKnown: p.Output.Low.Set, HighKnown: p.Output.High.Set, Basis: sourceBasis(p.Output.Source)}
+	if p.Output.Load.Set {
+		f.OutputLoad = p.Output.Load.V
+	}
+	return f
+}
+
+// OutputAt returns the output swing window at a resistive load (Ω; 0 = no
+// load). A swing stated at R_spec is scaled to a heavier load R_load <
+// R_spec as headroom × R_spec/R_load: a linear output-resistance
+// approximation (the drop across the output resistance grows with the
+// current). scaled reports whether it was.
+func (f *PartFigures) OutputAt(load float64) (w Window, scaled bool) {
+	w = f.Output
+	if load > 0 && f.OutputLoad > 0 && load < f.OutputLoad {
+		k := f.OutputLoad / load
+		w.Low *= k
+		w.High *= k
+		return w, true
+	}
+	return w, false
+}
+
+// sourceBasis maps a figure's source to the basis of a guaranteed-style
+// figure (windows and swings have no typ/max split in the catalog).
+func sourceBasis(s catalog.Source) Basis {
+	if s == catalog.SourceGraph {
+		return BasisGraph
+	}
+	if s == catalog.SourceEstimate {
+		return BasisTypical
+	}
+	return BasisGuaranteed
+}
+
+// typBasis is the basis of a typical figure from source s.
+func typBasis(s catalog.Source) Basis {
+	if s == catalog.SourceGraph {
+		return BasisGraph
+	}
+	return BasisTypical
+}
+
+// worst applies the figure-selection rules of one plan.
+type worst struct {
+	leaves          bool // the design's range leaves 25 °C
+	derate, inflate float64
+}
+
+func (w worst) bigger(s catalog.Spec) Figure {
+	switch {
+	case w.leaves && s.MinOT.Set:
+		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOT}
+	case s.Min.Set:
+		return Figure{s.Min.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.Typ.Set:
+		return Figure{s.Typ.V * w.derate, true, typBasis(s.Source), typNote(s.Source, noteDerate)}
+	}
+	return Figure{}
+}
+
+// biggerDB is bigger for a figure in dB: the typical is derated as a linear
+// gain (× derate_typ = + 20·log10(derate_typ) dB).
+func (w worst) biggerDB(s catalog.Spec) Figure {
+	f := w.bigger(s)
+	if f.Known && f.Basis != BasisGuaranteed {
+		f.V = s.Typ.V + 20*math.Log10(w.derate)
+	}
+	return f
+}
+
+func (w worst) smaller(s catalog.Spec) Figure {
+	switch {
+	case w.leaves && s.MaxOT.Set:
+		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOT}
+	case s.Max.Set:
+		return Figure{s.Max.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.Typ.Set:
+		return Figure{s.Typ.V * w.inflate, true, typBasis(s.Source), typNote(s.Source, noteInflate)}
+	}
+	return Figure{}
+}
+
+// vos moves the offset to the design's temperature extreme by its drift.
+func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
+	f := w.smaller(s)
+	if !f.Known || !w.leaves || f.Note == noteOT {
+		return f
+	}
+	d := math.NaN()
+	switch {
+	case drift.Max.Set:
+		d = drift.Max.V
+	case drift.Typ.Set:
+		d = drift.Typ.V * w.inflate
+	}
+	if math.IsNaN(d) {
+		if f.Basis == BasisGuaranteed {
+			f.Note = noteRoomNoDrift
+		}
+		return f
+	}
+	f.V += math.Abs(d) * dt
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteDrift
+	} else {
+		f.Note = noteInflDrift
+	}
+	return f
+}
+
+// leakage moves a FET-input bias or offset current to the hottest point:
+// gate leakage doubles every FETDoubling kelvin above 25 °C.
+func (w worst) leakage(s catalog.Spec, fet bool, dtHot float64) Figure {
+	f := w.smaller(s)
+	if !f.Known || !fet || dtHot == 0 || f.Note == noteOT {
+		return f
+	}
+	f.V *= math.Exp2(dtHot / FETDoubling)
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteFET
+	} else {
+		f.Note = noteInflFET
+	}
+	return f
+}
+
+func roomNote(leaves bool) string {
+	if leaves {
+		return noteRoom
+	}
+	return ""
+}
+
+func typNote(s catalog.Source, note string) string {
+	if s == catalog.SourceEstimate {
+		return noteEstimate + "; " + note
+	}
+	return note
+}

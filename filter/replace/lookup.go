@@ -1,0 +1,111 @@
+package replace
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// UnknownPartError is returned by Lookup for an id no part has. Suggestions
+// holds the closest ids, nearest first (possibly none).
+type UnknownPartError struct {
+	ID          string
+	Suggestions []string
+}
+
+// Error names the id and offers the suggestions: "no part with id "x" in
+// the catalog; did you mean "y"?".
+func (e *UnknownPartError) Error() string {
+	msg := fmt.Sprintf("no part with id %q in the catalog", e.ID)
+	switch len(e.Suggestions) {
+	case 0:
+		return msg + " (opsift check lists the catalog)"
+	case 1:
+		return msg + fmt.Sprintf("; did you mean %q?", e.Suggestions[0])
+	}
+	q := make([]string, len(e.Suggestions))
+	for i, s := range e.Suggestions {
+		q[i] = fmt.Sprintf("%q", s)
+	}
+	return msg + "; did you mean one of " + strings.Join(q, ", ") + "?"
+}
+
+// maxSuggestions caps the ids an UnknownPartError offers.
+const maxSuggestions = 3
+
+// Lookup finds the part with the given id, or returns an
+// *UnknownPartError with the nearest ids. Ids are compared exactly; the
+// suggestions ignore case.
+func Lookup(id string, parts []*catalog.Part) (*catalog.Part, error) {
+	for _, p := range parts {
+		if p != nil && p.ID == id {
+			return p, nil
+		}
+	}
+	return nil, &UnknownPartError{ID: id, Suggestions: suggest(id, parts)}
+}
+
+// suggest returns the ids within a small edit distance of id (a third of
+// its length, at least 2), or that contain it or are contained in it,
+// nearest first.
+func suggest(id string, parts []*catalog.Part) []string {
+	want := strings.ToLower(id)
+	limit := max(2, len([]rune(want))/3)
+	type hit struct {
+		id   string
+		dist int
+	}
+	var hits []hit
+	for _, p := range parts {
+		if p == nil {
+			continue
+		}
+		got := strings.ToLower(p.ID)
+		d := editDistance(want, got)
+		if d > limit && want != "" && (strings.Contains(got, want) || strings.Contains(want, got)) {
+			d = limit // a substring match is as good as the furthest near miss
+		}
+		if d <= limit {
+			hits = append(hits, hit{p.ID, d})
+		}
+	}
+	sort.SliceStable(hits, func(i, j int) bool {
+		if hits[i].dist != hits[j].dist {
+			return hits[i].dist < hits[j].dist
+		}
+		return hits[i].id < hits[j].id
+	})
+	var out []string
+	for _, h := range hits {
+		if len(out) == maxSuggestions {
+			break
+		}
+		out = append(out, h.id)
+	}
+	return out
+}
+
+// editDistance is the Levenshtein distance between a and b, in runes
+// (insertions, deletions and substitutions each cost 1).
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}

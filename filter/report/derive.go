@@ -1,0 +1,108 @@
+package report
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+
+	"github.com/opsift/opsift/filter"
+)
+
+// WriteDerive writes the plan's requirements: "text" shows every
+// requirement with its formula under a design summary; "json" the same as
+// a document with SI numbers.
+func WriteDerive(w io.Writer, format string, p *filter.Plan) error {
+	switch format {
+	case "", "text":
+		return writeDeriveText(w, p)
+	case "json":
+		return writeDeriveJSON(w, p)
+	}
+	return fmt.Errorf("unknown format %q, want text or json", format)
+}
+
+func writeDeriveText(w io.Writer, p *filter.Plan) error {
+	b := bufio.NewWriter(w)
+	fmt.Fprintln(b, oneLine(p.Title))
+	for _, l := range summaryLines(p) {
+		fmt.Fprintln(b, "  "+l)
+	}
+	reqs := p.Requirements()
+	stage := "\x00"
+	for i := range reqs {
+		q := &reqs[i]
+		if q.Stage != stage {
+			stage = q.Stage
+			if stage == "" {
+				fmt.Fprintln(b, "\ndesign")
+			} else {
+				fmt.Fprintf(b, "\nstage %s\n", stage)
+			}
+		}
+		fmt.Fprintf(b, "  %-15s %-6s %-22s %s\n", q.Key, q.Bound, Need(q), q.Why)
+	}
+	fmt.Fprintf(b, "\nCaution: %s\n", Caution)
+	return b.Flush()
+}
+
+type jsonStage struct {
+	Name      string `json:"name"`
+	Kind      string `json:"kind"`
+	Gain      *num   `json:"gain,omitempty"`
+	NoiseGain *num   `json:"noise_gain,omitempty"`
+	Shape     string `json:"shape,omitempty"`
+	Peak      *num   `json:"peak,omitempty"`
+	OutPeak   *num   `json:"output_peak,omitempty"`
+	Freq      *num   `json:"freq,omitempty"`
+	Rise      *num   `json:"rise,omitempty"`
+	GainError *num   `json:"gain_error,omitempty"`
+	SourceR   *num   `json:"source_r,omitempty"`
+	LoadR     *num   `json:"load_r,omitempty"`
+}
+
+type jsonDerive struct {
+	Title   string `json:"title"`
+	Design  string `json:"design,omitempty"`
+	Caution string `json:"caution"`
+	Supply  struct {
+		Pos       num `json:"pos"`
+		Neg       num `json:"neg"`
+		Tolerance num `json:"tolerance"`
+		PosWorst  num `json:"pos_worst"`
+		NegWorst  num `json:"neg_worst"`
+		SpanMin   num `json:"span_min"`
+		SpanMax   num `json:"span_max"`
+	} `json:"supply"`
+	Temp         [2]num            `json:"temp"`
+	DerateTyp    num               `json:"derate_typ"`
+	InflateTyp   num               `json:"inflate_typ"`
+	Stages       []jsonStage       `json:"stages"`
+	Requirements []jsonRequirement `json:"requirements"`
+}
+
+// positive returns nil for zero (not applicable) values.
+func positive(v float64) *num {
+	if v == 0 {
+		return nil
+	}
+	return val(v)
+}
+
+func writeDeriveJSON(w io.Writer, p *filter.Plan) error {
+	out := jsonDerive{Title: p.Title, Caution: Caution, Temp: [2]num{num(p.TempLow), num(p.TempHigh)},
+		DerateTyp: num(p.DerateTyp), InflateTyp: num(p.InflateTyp), Requirements: jsonRequirements(p)}
+	if p.Design != nil {
+		out.Design = p.Design.Name
+	}
+	r := p.Rails
+	out.Supply.Pos, out.Supply.Neg, out.Supply.Tolerance = num(r.Pos), num(r.Neg), num(r.Tol)
+	out.Supply.PosWorst, out.Supply.NegWorst = num(r.PosWorst), num(r.NegWorst)
+	out.Supply.SpanMin, out.Supply.SpanMax = num(r.SpanMin), num(r.SpanMax)
+	for _, s := range p.Stages {
+		out.Stages = append(out.Stages, jsonStage{Name: s.Name, Kind: s.Kind, Gain: positive(s.Gain),
+			NoiseGain: positive(s.NoiseGain), Shape: s.Shape, Peak: positive(s.Peak), OutPeak: positive(s.Vo),
+			Freq: positive(s.Freq), Rise: positive(s.Rise), GainError: positive(s.GainError),
+			SourceR: positive(s.SourceR), LoadR: positive(s.LoadR)})
+	}
+	return encodeJSON(w, out)
+}

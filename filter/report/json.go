@@ -1,0 +1,196 @@
+package report
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+	"strconv"
+
+	"github.com/opsift/opsift/filter"
+)
+
+// The JSON documents follow DESIGN.md "JSON output of rank". Numbers are
+// SI (V, A, Hz, V/s, Ω, s, °C, dB); a missing number (no margin, an
+// unknown figure) is null. Numbers are rounded to 12 significant digits so
+// float noise (3.2009999999999996) does not reach the file.
+
+type jsonRank struct {
+	Title        string            `json:"title"`
+	Design       string            `json:"design,omitempty"`
+	Caution      string            `json:"caution"`
+	Sort         string            `json:"sort"`
+	Strict       bool              `json:"strict"`
+	Sources      []string          `json:"sources,omitempty"`
+	Parts        int               `json:"parts"`
+	Passing      int               `json:"passing"`
+	Requirements []jsonRequirement `json:"requirements"`
+	Candidates   []jsonCandidate   `json:"candidates"`
+}
+
+type jsonRequirement struct {
+	Stage   *string  `json:"stage"`
+	Key     string   `json:"key"`
+	Bound   string   `json:"bound"`
+	Value   *num     `json:"value,omitempty"`
+	Low     *num     `json:"low,omitempty"`
+	High    *num     `json:"high,omitempty"`
+	Allowed []string `json:"allowed,omitempty"`
+	Unit    string   `json:"unit"`
+	Why     string   `json:"why"`
+}
+
+type jsonBinding struct {
+	Stage *string `json:"stage"`
+	Key   string  `json:"key"`
+}
+
+type jsonCandidate struct {
+	ID            string          `json:"id"`
+	Name          string          `json:"name"`
+	Pass          bool            `json:"pass"`
+	WorstMargin   *num            `json:"worst_margin"`
+	Binding       *jsonBinding    `json:"binding"`
+	Packages      int             `json:"packages"`
+	Cost          *num            `json:"cost"`
+	SupplyCurrent *num            `json:"supply_current"`
+	FMax          map[string]*num `json:"fmax"`
+	Failed        int             `json:"failed"`
+	Unknown       int             `json:"unknown"`
+	Checks        []jsonCheck     `json:"checks"`
+}
+
+type jsonCheck struct {
+	Stage         *string `json:"stage"`
+	Key           string  `json:"key"`
+	Bound         string  `json:"bound"`
+	Required      *num    `json:"required,omitempty"`
+	Available     *num    `json:"available,omitempty"`
+	RequiredLow   *num    `json:"required_low,omitempty"`
+	RequiredHigh  *num    `json:"required_high,omitempty"`
+	AvailableLow  *num    `json:"available_low,omitempty"`
+	AvailableHigh *num    `json:"available_high,omitempty"`
+	Have          string  `json:"have,omitempty"`
+	Unit          string  `json:"unit"`
+	Margin        *num    `json:"margin"`
+	Pass          bool    `json:"pass"`
+	Status        string  `json:"status"`
+	Basis         string  `json:"basis,omitempty"`
+	Note          string  `json:"note,omitempty"`
+}
+
+// num is a float64 written with at most 12 significant digits.
+type num float64
+
+func (n num) MarshalJSON() ([]byte, error) {
+	f := float64(n)
+	if math.IsInf(f, 0) {
+		// An infinite margin (a zero figure under an allowance) is written
+		// as a large finite number: JSON has no infinity.
+		f = math.Copysign(math.MaxFloat64, f)
+	}
+	return strconv.AppendFloat(nil, f, 'g', 12, 64), nil
+}
+
+// opt returns nil for NaN.
+func opt(v float64) *num {
+	if math.IsNaN(v) {
+		return nil
+	}
+	n := num(v)
+	return &n
+}
+
+func val(v float64) *num { n := num(v); return &n }
+
+func stagePtr(s string) *string {
+	if s == "" {
+		return nil
+	}
+	return &s
+}
+
+func jsonRequirements(p *filter.Plan) []jsonRequirement {
+	reqs := p.Requirements()
+	out := make([]jsonRequirement, 0, len(reqs))
+	for i := range reqs {
+		q := &reqs[i]
+		j := jsonRequirement{Stage: stagePtr(q.Stage), Key: string(q.Key), Bound: q.Bound.String(),
+			Unit: q.Unit, Why: q.Why, Allowed: q.Allowed}
+		switch q.Bound {
+		case filter.BoundMin, filter.BoundMax:
+			j.Value = val(q.Value)
+		case filter.BoundRange:
+			j.Low, j.High = val(q.Low), val(q.High)
+		default:
+			switch q.Key {
+			case filter.KeyTemperature:
+				j.Low, j.High, j.Unit = val(q.Low), val(q.High), "°C"
+			case filter.KeyCost:
+				j.Value = val(q.Value)
+			}
+		}
+		out = append(out, j)
+	}
+	return out
+}
+
+func jsonChecks(r *filter.Result) []jsonCheck {
+	out := make([]jsonCheck, 0, len(r.Checks))
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		q := c.Req
+		j := jsonCheck{Stage: stagePtr(q.Stage), Key: string(q.Key), Bound: q.Bound.String(), Unit: q.Unit,
+			Margin: opt(c.Margin), Pass: c.Pass, Status: c.Status.String(), Basis: c.Basis.String(), Note: c.Note}
+		switch q.Bound {
+		case filter.BoundMin, filter.BoundMax:
+			j.Required, j.Available = val(c.Required), opt(c.Available)
+		case filter.BoundRange:
+			j.RequiredLow, j.RequiredHigh = val(q.Low), val(q.High)
+			j.AvailableLow, j.AvailableHigh = opt(c.AvailLow), opt(c.AvailHigh)
+		default:
+			switch q.Key {
+			case filter.KeyTemperature:
+				j.RequiredLow, j.RequiredHigh = val(q.Low), val(q.High)
+				j.AvailableLow, j.AvailableHigh = opt(c.AvailLow), opt(c.AvailHigh)
+				j.Unit = "°C"
+			case filter.KeyCost:
+				j.Required, j.Available = val(c.Required), opt(c.Available)
+			default:
+				j.Have = Has(c, r.Part)
+			}
+		}
+		out = append(out, j)
+	}
+	return out
+}
+
+// WriteJSON writes the rank document of DESIGN.md "JSON output of rank".
+func WriteJSON(w io.Writer, doc *Doc) error {
+	p := doc.Plan
+	out := jsonRank{Title: p.Title, Caution: Caution, Sort: sortName(doc.Sort), Strict: doc.Strict,
+		Sources: doc.Sources, Parts: len(doc.Results), Passing: doc.Passing(),
+		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}}
+	if p.Design != nil {
+		out.Design = p.Design.Name
+	}
+	for _, r := range doc.Listed() {
+		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(r.WorstMargin),
+			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
+			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r)}
+		if !math.IsNaN(r.WorstMargin) {
+			c.Binding = &jsonBinding{Stage: stagePtr(r.Binding.Stage), Key: string(r.Binding.Key)}
+		}
+		for i, s := range p.Stages {
+			c.FMax[s.Name] = opt(r.FMax[i])
+		}
+		out.Candidates = append(out.Candidates, c)
+	}
+	return encodeJSON(w, out)
+}
+
+func encodeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
+}

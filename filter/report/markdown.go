@@ -1,0 +1,133 @@
+package report
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// WriteMarkdown writes a shortlist document for design review: the design
+// summary, every requirement with its formula, the ranked table, one check
+// table per listed candidate and the caution.
+func WriteMarkdown(w io.Writer, doc *Doc) error {
+	b := bufio.NewWriter(w)
+	p := doc.Plan
+	fmt.Fprintf(b, "# Op-amp shortlist: %s\n\n", mdText(oneLine(p.Title)))
+	fmt.Fprintf(b, "> **Caution.** %s\n\n", Caution)
+	b.WriteString("## Design\n\n")
+	for _, line := range summaryLines(p) {
+		fmt.Fprintf(b, "- %s\n", mdText(line))
+	}
+	if len(doc.Sources) > 0 {
+		fmt.Fprintf(b, "- Catalog: %s\n", mdText(strings.Join(doc.Sources, ", ")))
+	}
+	b.WriteString("\n## Requirements\n\n| Stage | Requirement | Need | Formula |\n|---|---|---|---|\n")
+	reqs := p.Requirements()
+	for i := range reqs {
+		q := &reqs[i]
+		fmt.Fprintf(b, "| %s | %s | %s | %s |\n", mdText(stageOrDesign(q.Stage)), q.Key, mdText(Need(q)), mdText(q.Why))
+	}
+	listed := doc.Listed()
+	fmt.Fprintf(b, "\n## Ranking\n\n%d of %d parts pass; sorted by %s%s.\n\n", doc.Passing(), len(doc.Results),
+		sortName(doc.Sort), strictText(doc.Strict))
+	if len(listed) == 0 {
+		b.WriteString("No candidate passes.\n")
+		return b.Flush()
+	}
+	b.WriteString("| # | Part | Pass | Worst margin | Binding | Packages | Cost | Supply current | fmax | Unknown |\n")
+	b.WriteString("|---:|---|---|---:|---|---:|---:|---:|---:|---:|\n")
+	for i, r := range listed {
+		rank, pass, binding := fmt.Sprint(i+1), "yes", "—"
+		if !r.Pass {
+			rank, pass = "–", "**no**"
+		}
+		if !math.IsNaN(r.WorstMargin) {
+			binding = CheckName(r.Binding.Stage, r.Binding.Key)
+		}
+		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
+			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
+			quantity(r.MinFMax(), catalog.Hertz), r.Unknown)
+	}
+	b.WriteString("\n## Candidates\n")
+	for _, r := range listed {
+		fmt.Fprintf(b, "\n### `%s` — %s\n\n", r.Part.ID, mdText(r.Part.Name))
+		facts := []string{"tech " + orUnknown(string(r.Part.Tech)), fmt.Sprintf("%d channel(s)", r.Part.Channels),
+			"packages " + strings.Join(r.Part.Packages, ", "), "lifecycle " + orUnknown(string(r.Part.Lifecycle))}
+		if r.Part.Datasheet != "" {
+			facts = append(facts, "datasheet "+r.Part.Datasheet)
+		}
+		fmt.Fprintf(b, "%s.\n\n", mdText(strings.Join(facts, "; ")))
+		if !r.Pass {
+			for _, c := range failingOrUnknown(r, doc.Strict) {
+				fmt.Fprintf(b, "- **fails** %s\n", mdText(missText(c, r.Part)))
+			}
+			b.WriteByte('\n')
+		}
+		b.WriteString("| Stage | Check | Need | Has | Margin | Status | Basis | Note |\n|---|---|---|---|---:|---|---|---|\n")
+		for j := range r.Checks {
+			c := &r.Checks[j]
+			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
+				mdText(Need(c.Req)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
+		}
+	}
+	return b.Flush()
+}
+
+func stageOrDesign(s string) string {
+	if s == "" {
+		return "(design)"
+	}
+	return s
+}
+
+// mdText escapes the characters that would break a Markdown table cell.
+func mdText(s string) string {
+	r := strings.NewReplacer("|", `\|`, "\n", " ", "*", `\*`, "_", `\_`, "`", "'")
+	return r.Replace(s)
+}
+
+// summaryLines describes the design in a few lines: supply, ambient,
+// policy, filters and stages.
+func summaryLines(p *filter.Plan) []string {
+	r := p.Rails
+	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
+	out := []string{
+		fmt.Sprintf("Supply: V+ %s, V− %s, tolerance %s: span %s … %s; rails at worst case %s / %s",
+			V(r.Pos), V(r.Neg), catalog.Format(r.Tol, catalog.Ratio), V(r.SpanMin), V(r.SpanMax), V(r.PosWorst), V(r.NegWorst)),
+		fmt.Sprintf("Ambient: %s … %s", catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius)),
+		fmt.Sprintf("Policy: typical figures × %s (bigger is better) or × %s (smaller is better)",
+			catalog.Format(p.DerateTyp, catalog.Dimensionless), catalog.Format(p.InflateTyp, catalog.Dimensionless)),
+	}
+	for _, s := range p.Stages {
+		line := fmt.Sprintf("Stage %s (%s)", s.Name, s.Kind)
+		var parts []string
+		if s.Gain > 0 {
+			parts = append(parts, "G = "+catalog.Format(s.Gain, catalog.Dimensionless))
+		}
+		if s.NoiseGain > 0 {
+			parts = append(parts, "NG = "+catalog.Format(s.NoiseGain, catalog.Dimensionless))
+		}
+		if s.Shape != "" {
+			sig := s.Shape + " " + V(s.Peak) + " peak in, " + V(s.Vo) + " peak out"
+			if s.Shape == "sine" {
+				sig += " at " + catalog.Format(s.Freq, catalog.Hertz)
+			} else {
+				sig += ", rise " + catalog.Format(s.Rise, catalog.Second)
+			}
+			parts = append(parts, sig)
+		}
+		if s.LoadR > 0 {
+			parts = append(parts, "load "+catalog.Format(s.LoadR, catalog.Ohm))
+		}
+		if len(parts) > 0 {
+			line += ": " + strings.Join(parts, ", ")
+		}
+		out = append(out, line)
+	}
+	return out
+}

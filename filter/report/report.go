@@ -1,0 +1,258 @@
+// Package report renders ranked results and derived requirements for
+// people and programs: an aligned table for the terminal, CSV, JSON (the
+// contract of DESIGN.md "JSON output of rank", SI units), a Markdown
+// shortlist for design review, and the ranked parts as a catalog file. The
+// command line and the TUI's shortlist export share it.
+//
+//	filter.Plan + ranked []filter.Result ─► Doc ─► Write(w, format, doc)
+//	filter.Plan ─────────────────────────────────► WriteDerive(w, format, plan)
+package report
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// Caution is carried by every export: opsift's results are advisory.
+const Caution = "Results are advisory: verify every figure against the current manufacturer " +
+	"datasheet. Mains-powered, medical and safety-critical designs need the applicable " +
+	"standards, local codes and qualified review."
+
+// Format names an output format of rank.
+type Format string
+
+// The formats Write renders.
+const (
+	Table    Format = "table"
+	CSV      Format = "csv"
+	JSON     Format = "json"
+	Markdown Format = "md"
+	TOML     Format = "toml"
+)
+
+// Formats lists the formats of Write in help order.
+func Formats() []Format { return []Format{Table, CSV, JSON, Markdown, TOML} }
+
+// ParseFormat reads a format name; "" is Table.
+func ParseFormat(s string) (Format, error) {
+	if s == "" {
+		return Table, nil
+	}
+	var names []string
+	for _, f := range Formats() {
+		if string(f) == s {
+			return f, nil
+		}
+		names = append(names, string(f))
+	}
+	return "", fmt.Errorf("unknown format %q, want one of %s", s, strings.Join(names, ", "))
+}
+
+// Doc is what a rank export shows: the plan, the ranked results and how
+// to select and lay them out.
+type Doc struct {
+	Plan    *filter.Plan
+	Results []filter.Result // ranked (filter.Rank)
+	Sort    filter.SortKey
+	All     bool // list failing candidates too (after the passing ones)
+	Top     int  // at most this many candidates; 0 = no limit
+	Strict  bool // unknown checks counted as failures
+	// Sources names the catalog sources, for the document's header.
+	Sources []string
+	Width   int  // table: terminal width in columns (0 = 100)
+	Color   bool // table: ANSI colour
+}
+
+// Listed returns the candidates the document lists: passing ones (all of
+// them with All), at most Top.
+func (d *Doc) Listed() []*filter.Result {
+	var out []*filter.Result
+	for i := range d.Results {
+		r := &d.Results[i]
+		if !r.Pass && !d.All {
+			continue
+		}
+		if d.Top > 0 && len(out) >= d.Top {
+			break
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
+// Passing counts the passing results.
+func (d *Doc) Passing() int {
+	n := 0
+	for i := range d.Results {
+		if d.Results[i].Pass {
+			n++
+		}
+	}
+	return n
+}
+
+// Write renders doc in format f.
+func Write(w io.Writer, f Format, doc *Doc) error {
+	switch f {
+	case Table:
+		return WriteTable(w, doc)
+	case CSV:
+		return WriteCSV(w, doc)
+	case JSON:
+		return WriteJSON(w, doc)
+	case Markdown:
+		return WriteMarkdown(w, doc)
+	case TOML:
+		return WriteTOML(w, doc)
+	}
+	return fmt.Errorf("unknown format %q", f)
+}
+
+// WriteTOML writes the listed parts, in rank order, as a catalog file.
+func WriteTOML(w io.Writer, doc *Doc) error {
+	var parts []*catalog.Part
+	for _, r := range doc.Listed() {
+		parts = append(parts, r.Part)
+	}
+	var head strings.Builder
+	fmt.Fprintf(&head, "# opsift rank: %s\n# %d candidate(s), sorted by %s.\n", oneLine(doc.Plan.Title), len(parts), sortName(doc.Sort))
+	for _, l := range wrapLines(Caution, 76, "") {
+		head.WriteString("# " + l + "\n")
+	}
+	head.WriteString("\n")
+	if _, err := io.WriteString(w, head.String()); err != nil {
+		return err
+	}
+	return catalog.Encode(w, parts)
+}
+
+func sortName(k filter.SortKey) string {
+	if k == "" {
+		return string(filter.SortMargin)
+	}
+	return string(k)
+}
+
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// Margin renders a margin as a signed percentage ("+31 %", "−4.2 %"), "—"
+// when there is none.
+func Margin(m float64) string {
+	if math.IsNaN(m) {
+		return "—"
+	}
+	if math.IsInf(m, 1) {
+		return "+∞"
+	}
+	p := m * 100
+	f := "%.1f"
+	if math.Abs(p) >= 10 {
+		f = "%.0f"
+	}
+	s := fmt.Sprintf(f, math.Abs(p))
+	// The sign follows the margin, not the rounding: a miss of 0.01 % still
+	// reads as negative, so the sign always agrees with pass/fail.
+	if p < 0 {
+		return "−" + s + " %"
+	}
+	return "+" + s + " %"
+}
+
+// Need renders what a requirement asks: "≥ 0.628 V/µs", "≤ 250 mV",
+// "1 V … 11 V", or the hard filter's wording.
+func Need(q *filter.Requirement) string {
+	switch q.Bound {
+	case filter.BoundMin:
+		return "≥ " + catalog.Format(q.Value, q.Dim)
+	case filter.BoundMax:
+		return "≤ " + catalog.Format(q.Value, q.Dim)
+	case filter.BoundRange:
+		if q.Low == q.High {
+			return "at " + catalog.Format(q.Low, q.Dim)
+		}
+		return catalog.Format(q.Low, q.Dim) + " … " + catalog.Format(q.High, q.Dim)
+	}
+	switch q.Key {
+	case filter.KeyTemperature:
+		return catalog.Format(q.Low, catalog.Celsius) + " … " + catalog.Format(q.High, catalog.Celsius)
+	case filter.KeyCost:
+		return "≤ " + catalog.Format(q.Value, catalog.Dimensionless)
+	}
+	return strings.Join(q.Allowed, " | ")
+}
+
+// Has renders what the part offers for a check, in the requirement's unit.
+func Has(c *filter.Check, p *catalog.Part) string {
+	q := c.Req
+	switch q.Bound {
+	case filter.BoundMin, filter.BoundMax:
+		if math.IsNaN(c.Available) {
+			return "?"
+		}
+		return catalog.Format(c.Available, q.Dim)
+	case filter.BoundRange:
+		lo, hi := "?", "?"
+		if !math.IsNaN(c.AvailLow) {
+			lo = catalog.Format(c.AvailLow, q.Dim)
+		}
+		if !math.IsNaN(c.AvailHigh) {
+			hi = catalog.Format(c.AvailHigh, q.Dim)
+		}
+		return lo + " … " + hi
+	}
+	switch q.Key {
+	case filter.KeyTemperature:
+		if math.IsNaN(c.AvailLow) {
+			return "?"
+		}
+		return catalog.Format(c.AvailLow, catalog.Celsius) + " … " + catalog.Format(c.AvailHigh, catalog.Celsius)
+	case filter.KeyCost:
+		if math.IsNaN(c.Available) {
+			return "?"
+		}
+		return catalog.Format(c.Available, catalog.Dimensionless)
+	case filter.KeyPackage:
+		return strings.Join(p.Packages, ", ")
+	case filter.KeyTech:
+		return orUnknown(string(p.Tech))
+	case filter.KeyLifecycle:
+		return orUnknown(string(p.Lifecycle))
+	}
+	return ""
+}
+
+func orUnknown(s string) string {
+	if s == "" {
+		return "?"
+	}
+	return s
+}
+
+// CheckName is "stage/key", or just the key for design-level checks.
+func CheckName(stage string, key filter.Key) string {
+	if stage == "" {
+		return string(key)
+	}
+	return stage + "/" + string(key)
+}
+
+// cost renders a cost, "?" when unknown.
+func cost(v float64) string {
+	if math.IsNaN(v) {
+		return "?"
+	}
+	return fmt.Sprintf("%.2f", v)
+}
+
+// quantity renders an SI value, "?" when unknown (NaN).
+func quantity(v float64, d catalog.Dim) string {
+	if math.IsNaN(v) {
+		return "?"
+	}
+	return catalog.Format(v, d)
+}

@@ -1,0 +1,247 @@
+package report_test
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/report"
+)
+
+var update = flag.Bool("update", false, "rewrite golden files")
+
+func golden(t *testing.T, name string, got []byte) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		if err := os.WriteFile(path, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if !bytes.Equal(got, want) {
+		t.Errorf("%s differs from the golden file:\n--- got\n%s\n--- want\n%s", name, got, want)
+	}
+}
+
+// fixture ranks the test catalog on a test design.
+func fixture(t *testing.T, design string, strict bool) (*filter.Plan, []filter.Result) {
+	t.Helper()
+	path := filepath.Join("..", "..", "testdata", "designs", design)
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := filter.DecodeDesign(design, b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := filter.Derive(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cb, err := os.ReadFile("testdata/parts.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	parts, err := catalog.Decode("parts.toml", cb)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rs := filter.Evaluate(p, parts, filter.Options{Strict: strict})
+	filter.Rank(rs, filter.SortMargin)
+	return p, rs
+}
+
+// Golden files for every format of rank, on a two-stage design with all
+// candidates listed, and for derive's text and JSON.
+func TestGolden(t *testing.T) {
+	tests := []struct {
+		name   string
+		design string
+		format report.Format
+		all    bool
+		strict bool
+		width  int
+		color  bool
+		top    int
+	}{
+		{"rank_table.golden", "audio-split.toml", report.Table, true, false, 100, false, 0},
+		{"rank_table_narrow.golden", "audio-split.toml", report.Table, true, false, 60, false, 0},
+		{"rank_table_color.golden", "audio-split.toml", report.Table, false, false, 100, true, 0},
+		{"rank_table_strict.golden", "audio-split.toml", report.Table, false, true, 100, false, 0},
+		{"rank_table_top1.golden", "audio-split.toml", report.Table, false, false, 100, false, 1},
+		{"rank_table_none.golden", "probe-3v3.toml", report.Table, false, false, 100, false, 0},
+		{"rank.csv.golden", "audio-split.toml", report.CSV, true, false, 0, false, 0},
+		{"rank.json.golden", "audio-split.toml", report.JSON, true, false, 0, false, 0},
+		{"rank.md.golden", "audio-split.toml", report.Markdown, true, false, 0, false, 0},
+		{"rank.toml.golden", "audio-split.toml", report.TOML, false, false, 0, false, 0},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			p, rs := fixture(t, tc.design, tc.strict)
+			doc := &report.Doc{Plan: p, Results: rs, Sort: filter.SortMargin, All: tc.all, Strict: tc.strict,
+				Width: tc.width, Color: tc.color, Top: tc.top, Sources: []string{"parts.toml"}}
+			var b bytes.Buffer
+			if err := report.Write(&b, tc.format, doc); err != nil {
+				t.Fatal(err)
+			}
+			golden(t, tc.name, b.Bytes())
+		})
+	}
+	for _, f := range []string{"text", "json"} {
+		for _, design := range []string{"audio-split.toml", "direct-5v.toml", "square-5v.toml", "probe-3v3.toml"} {
+			name := "derive_" + strings.TrimSuffix(design, ".toml") + "." + f + ".golden"
+			t.Run(name, func(t *testing.T) {
+				p, _ := fixture(t, design, false)
+				var b bytes.Buffer
+				if err := report.WriteDerive(&b, f, p); err != nil {
+					t.Fatal(err)
+				}
+				golden(t, name, b.Bytes())
+			})
+		}
+	}
+}
+
+// The table fits the width it is given, and colour appears only when asked.
+func TestTableWidth(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	for _, w := range []int{40, 60, 80, 100, 160} {
+		doc := &report.Doc{Plan: p, Results: rs, All: true, Width: w}
+		var b bytes.Buffer
+		if err := report.WriteTable(&b, doc); err != nil {
+			t.Fatal(err)
+		}
+		for _, line := range strings.Split(b.String(), "\n") {
+			if n := len([]rune(line)); n > w {
+				t.Errorf("width %d: line of %d runes: %q", w, n, line)
+			}
+		}
+		if strings.Contains(b.String(), "\x1b[") {
+			t.Errorf("width %d: colour without Color", w)
+		}
+	}
+}
+
+// JSON carries the contract fields with SI numbers; a margin that does not
+// exist is null; pass ⇔ margin ≥ 0 on every numeric check.
+func TestJSONContract(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	var b bytes.Buffer
+	if err := report.WriteJSON(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Title        string
+		Requirements []map[string]any
+		Candidates   []struct {
+			ID          string   `json:"id"`
+			Pass        bool     `json:"pass"`
+			WorstMargin *float64 `json:"worst_margin"`
+			Binding     *struct{ Stage, Key string }
+			Packages    int
+			Cost        *float64
+			Checks      []struct {
+				Stage    *string  `json:"stage"`
+				Key      string   `json:"key"`
+				Required *float64 `json:"required"`
+				Margin   *float64 `json:"margin"`
+				Pass     bool     `json:"pass"`
+				Status   string   `json:"status"`
+				Basis    string   `json:"basis"`
+				Unit     string   `json:"unit"`
+			}
+		}
+	}
+	if err := json.Unmarshal(b.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Candidates) != 5 || len(doc.Requirements) == 0 {
+		t.Fatalf("%d candidates, %d requirements", len(doc.Candidates), len(doc.Requirements))
+	}
+	for _, c := range doc.Candidates {
+		for _, ch := range c.Checks {
+			if ch.Margin != nil && ch.Status != "unknown" && (*ch.Margin >= 0) != ch.Pass {
+				t.Errorf("%s %s: margin %g, pass %v", c.ID, ch.Key, *ch.Margin, ch.Pass)
+			}
+			if ch.Key == "slew" && (ch.Unit != "V/s" || *ch.Required < 6e5 || *ch.Required > 6.5e5) {
+				t.Errorf("%s slew: required %v %s, want ≈ 6.28e5 V/s", c.ID, *ch.Required, ch.Unit)
+			}
+			if ch.Status == "unknown" && ch.Margin != nil {
+				t.Errorf("%s %s: unknown check with a margin", c.ID, ch.Key)
+			}
+		}
+	}
+}
+
+// CSV is RFC 4180: every row has the header's field count.
+func TestCSVShape(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	var b bytes.Buffer
+	if err := report.WriteCSV(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&b).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 6 {
+		t.Errorf("%d rows, want header + 5", len(rows))
+	}
+}
+
+// The TOML export is a valid catalog: decoding it and ranking again gives
+// the same parts in the same order.
+func TestTOMLRoundTrip(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	var b bytes.Buffer
+	doc := &report.Doc{Plan: p, Results: rs, All: true}
+	if err := report.WriteTOML(&b, doc); err != nil {
+		t.Fatal(err)
+	}
+	parts, err := catalog.Decode("export.toml", b.Bytes())
+	if err != nil {
+		t.Fatalf("export does not decode: %v", err)
+	}
+	for _, part := range parts {
+		if probs := catalog.Validate(part); len(probs) > 0 {
+			t.Errorf("export part %s: %v", part.ID, probs)
+		}
+	}
+	again := filter.Evaluate(p, parts, filter.Options{})
+	filter.Rank(again, filter.SortMargin)
+	var want, got []string
+	for _, r := range doc.Listed() {
+		want = append(want, r.Part.ID)
+	}
+	for _, r := range again {
+		got = append(got, r.Part.ID)
+	}
+	if !slices.Equal(got, want) {
+		t.Errorf("order after round trip %v, want %v", got, want)
+	}
+}
+
+func TestMargin(t *testing.T) {
+	for _, tc := range []struct {
+		m    float64
+		want string
+	}{{0.31, "+31 %"}, {-0.042, "−4.2 %"}, {0, "+0.0 %"}, {-0.0001, "−0.0 %"}, {2.5, "+250 %"}} {
+		if got := report.Margin(tc.m); got != tc.want {
+			t.Errorf("Margin(%g) = %q, want %q", tc.m, got, tc.want)
+		}
+	}
+}

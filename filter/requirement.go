@@ -1,0 +1,140 @@
+package filter
+
+import "github.com/opsift/opsift/catalog"
+
+// Key names a requirement (the contract keys of DESIGN.md; templates may add
+// their own).
+type Key string
+
+// The requirement keys. The first six are hard filters (pass/fail, no
+// margin) except supply, which carries a range margin; the rest are
+// numeric checks.
+const (
+	KeySupply        Key = "supply"
+	KeyTemperature   Key = "temperature"
+	KeyPackage       Key = "package"
+	KeyTech          Key = "tech"
+	KeyLifecycle     Key = "lifecycle"
+	KeyCost          Key = "cost"
+	KeyInputRange    Key = "input_range"
+	KeyOutputRange   Key = "output_range"
+	KeySlew          Key = "slew"
+	KeyGBW           Key = "gbw"
+	KeyDCError       Key = "dc_error"
+	KeyNoise         Key = "noise"
+	KeyOutputCurrent Key = "output_current"
+	KeySupplyCurrent Key = "supply_current"
+	KeyVdiff         Key = "vdiff"
+	KeyCLoad         Key = "cload"
+	KeyAol           Key = "aol"
+	KeyVos           Key = "vos" // direct stages: vos_max
+	KeyIb            Key = "ib"  // direct stages: ib_max
+)
+
+// Bound says how a requirement compares.
+type Bound uint8
+
+// The bounds. Margins are fractions; ≥ 0 means pass:
+//
+//	BoundMin   available/required − 1   (the part must reach at least Value)
+//	BoundMax   required/available − 1   (Value is an allowance the part must stay under)
+//	BoundRange spare volts / minimum supply span (the part's window must cover [Low, High])
+//	BoundHard  pass or fail, no margin
+const (
+	BoundMin Bound = iota
+	BoundMax
+	BoundRange
+	BoundHard
+)
+
+// String returns "min", "max", "range" or "hard".
+func (b Bound) String() string {
+	switch b {
+	case BoundMin:
+		return "min"
+	case BoundMax:
+		return "max"
+	case BoundRange:
+		return "range"
+	}
+	return "hard"
+}
+
+// Requirement is one thing the op-amp must do, derived from the design.
+// Stage is "" for design-level requirements (supply, temperature, hard
+// filters, supply current).
+type Requirement struct {
+	Stage string
+	Key   Key
+	Bound Bound
+	Value float64 // BoundMin/BoundMax: the required figure, SI
+	Low   float64 // BoundRange: the window the part must cover, SI
+	High  float64
+	Dim   catalog.Dim // of Value/Low/High; Unit is Dim.Unit()
+	Unit  string      // SI unit symbol: "V/s", "Hz", "V", "dB", "A", "F", ""
+	// Allowed lists the accepted words of a hard filter (packages, tech,
+	// lifecycle); nil for other bounds.
+	Allowed []string
+	// Why is one line with the formula and the numbers put in:
+	// "2π·f·Vo = 2π·20 kHz·5 V".
+	Why string
+	// Measure, when set, computes the part's available figure for a
+	// template-specific check instead of the built-in rule for Key.
+	// Known false makes the check unknown.
+	Measure func(p *catalog.Part, f *PartFigures) Figure
+}
+
+// Rails is the supply as the checks use it.
+type Rails struct {
+	Pos, Neg           float64 // nominal rails, V
+	PosWorst, NegWorst float64 // each rail moved toward 0 V by the tolerance
+	Tol                float64 // tolerance, fraction
+	Span               float64 // nominal span Pos − Neg
+	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)
+}
+
+// StagePlan is what a template derived for one stage: the circuit
+// quantities part-dependent checks need (noise gain, source and load
+// resistance) and the stage's requirements.
+type StagePlan struct {
+	Stage     *Stage
+	Name      string
+	Kind      string
+	Gain      float64 // signal gain magnitude, V/V (0 when not applicable)
+	NoiseGain float64 // NG, V/V (0 when not applicable)
+	Shape     string  // "sine", "square" or "" (no signal)
+	Peak      float64 // input peak Vp, V
+	Vo        float64 // output peak, V
+	Freq      float64 // signal frequency, Hz (0 when not applicable)
+	Rise      float64 // allowed 10–90 % output rise time, s (square)
+	GainError float64 // allowed gain error ε, fraction
+	SourceR   float64 // Ω, 0 when not given
+	LoadR     float64 // Ω, 0 when not given (no resistive load)
+	// Requirements of this stage, in derivation order.
+	Requirements []Requirement
+}
+
+// Plan is a design with its requirements derived: the input to Evaluate.
+type Plan struct {
+	Design *Design
+	Title  string
+	Rails  Rails
+	// TempLow, TempHigh are the design's ambient range, °C.
+	TempLow, TempHigh float64
+	DerateTyp         float64
+	InflateTyp        float64
+	// Global holds the design-level requirements (supply, temperature,
+	// hard filters, supply current); Stages hold each stage's own.
+	Global []Requirement
+	Stages []StagePlan
+}
+
+// Requirements returns every requirement of the plan: design-level first,
+// then each stage's in stage order.
+func (p *Plan) Requirements() []Requirement {
+	out := append([]Requirement(nil), p.Global...)
+	for _, s := range p.Stages {
+		out = append(out, s.Requirements...)
+	}
+	return out
+}

@@ -1,0 +1,213 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/circuit"
+)
+
+// transimpedanceTemplate is a photodiode amplifier: the photocurrent flows
+// into the inverting input, Rf ∥ Cf from there to the output, the
+// non-inverting input at ref; Vout = ref ± I·Rf.
+//
+// Inputs (SI; defaults in brackets):
+//
+//	rf         Ω   feedback resistor (required)
+//	cin        F   capacitance at the inverting input: detector + wiring (required);
+//	               the part's own input capacitance (catalog cin) is added per part
+//	bandwidth  Hz  wanted −3 dB bandwidth (required)
+//	i_max      A   largest photocurrent (required)
+//	ref        V   the non-inverting input's (and the dark output's) level [mid of the nominal rails]
+//	polarity   —   positive: the output rises above ref with light; negative: falls [positive]
+//	shunt_r    Ω   detector shunt resistance, sets the DC noise gain 1 + Rf/shunt_r [open]
+//	load_r     Ω   resistive load at the output, to ref [none]
+//	dc_error   V   allowed output DC error [no check]
+//
+// Requirements (Graeme, Photodiode Amplifiers, 1996; from memory):
+//
+//	input_range     the point ref (the inputs sit at ref)
+//	output_range    ref … ref ± i_max·Rf
+//	gbw             2π·Rf·Cin·f², Cin including the part's own cin: maximally flat
+//	                response at f with Cf = circuit.FeedbackCapForTIAFlat (the formula
+//	                shows Cf at exactly that GBW; TIAFeedbackCap gives it per part)
+//	slew            0.8·i_max·Rf/(0.35/f): the full step within the rise time the
+//	                bandwidth sets
+//	output_current  i_max + i_max·Rf/load_r
+//	dc_error        Vos·(1 + Rf/shunt_r) + Ib·Rf ≤ allowed
+type transimpedanceTemplate struct{}
+
+func (transimpedanceTemplate) Kind() string { return "transimpedance" }
+func (transimpedanceTemplate) Summary() string {
+	return "photodiode transimpedance amplifier (Rf, input capacitance, bandwidth)"
+}
+
+func (transimpedanceTemplate) Params() []Param {
+	r := func(key, label string, dim catalog.Dim, help string) Param {
+		return Param{Key: key, Label: label, Kind: Quantity, Dim: dim, Required: true, Help: help}
+	}
+	q := func(key, label string, dim catalog.Dim, help string) Param {
+		return Param{Key: key, Label: label, Kind: Quantity, Dim: dim, Help: help}
+	}
+	return []Param{
+		r("rf", "feedback resistor", catalog.Ohm, "feedback resistor Rf from the inverting input to the output"),
+		r("cin", "input capacitance", catalog.Farad, "detector + wiring capacitance at the inverting input (the part's own cin is added)"),
+		r("bandwidth", "bandwidth", catalog.Hertz, "wanted −3 dB bandwidth"),
+		r("i_max", "largest photocurrent", catalog.Ampere, "largest photocurrent"),
+		q("ref", "reference", catalog.Volt, "the non-inverting input and the dark output level; default: mid of nominal rails"),
+		{Key: "polarity", Label: "output polarity", Kind: Choice, Choices: []string{"positive", "negative"}, Default: "positive",
+			Help: "positive: the output rises above ref with light; negative: it falls below"},
+		q("shunt_r", "detector shunt resistance", catalog.Ohm, "detector shunt resistance (DC noise gain 1 + Rf/shunt_r)"),
+		q("load_r", "load resistance", catalog.Ohm, "resistive load at the output, to ref"),
+		q("dc_error", "allowed DC error", catalog.Volt, "allowed output DC error, Vos·(1 + Rf/shunt_r) + Ib·Rf; no check when not given"),
+	}
+}
+
+// Notes of the transimpedance gbw check.
+const (
+	noteTIACin   = "GBW × cin/(cin + part cin): the part's own input capacitance adds to the detector's"
+	noteTIANoCin = "the catalog gives no input capacitance; only the stage's cin is counted"
+)
+
+// tiaCfShare is the Cf/Cin ratio above which the gbw formula's Cf ≪ Cin
+// assumption is flagged: at 1/10 the bandwidth is already 5 % short
+// (f·√(Cin/(Cin + Cf)) = 0.953·f).
+const tiaCfShare = 0.1
+
+// tia is a transimpedance stage's circuit values.
+type tia struct {
+	rf, cin, f, imax, ng float64
+}
+
+func readTIA(in *StageInput) (tia, error) {
+	var t tia
+	var err error
+	for _, f := range []struct {
+		key string
+		v   *float64
+	}{{"rf", &t.rf}, {"cin", &t.cin}, {"bandwidth", &t.f}, {"i_max", &t.imax}} {
+		if *f.v, err = tmplNeedPositive(in, f.key); err != nil {
+			return t, err
+		}
+	}
+	if err := tmplOptionalPositive(in, "shunt_r", "load_r", "dc_error"); err != nil {
+		return t, err
+	}
+	t.ng = 1
+	if rsh, ok := in.Num("shunt_r"); ok {
+		t.ng = 1 + t.rf/rsh
+	}
+	return t, nil
+}
+
+func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
+	sp := StagePlan{}
+	t, err := readTIA(in)
+	if err != nil {
+		return sp, err
+	}
+	ref := tmplRef(in, p)
+	vo := t.imax * t.rf
+	sp.NoiseGain, sp.Vo, sp.Freq = t.ng, vo, t.f
+	sp.Rise = circuit.RiseBandwidth / t.f
+	sp.LoadR, _ = in.Num("load_r")
+	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
+	Ohm := func(x float64) string { return catalog.Format(x, catalog.Ohm) }
+	F := func(x float64) string { return catalog.Format(x, catalog.Farad) }
+	Hz := catalog.Format(t.f, catalog.Hertz)
+	I := catalog.Format(t.imax, catalog.Ampere)
+	add := func(r Requirement) { sp.Requirements = append(sp.Requirements, r) }
+
+	add(Requirement{Key: KeyInputRange, Bound: BoundRange, Low: ref, High: ref, Dim: catalog.Volt,
+		Why: fmt.Sprintf("inputs sit at ref = %s", V(ref))})
+	lo, hi, sign := ref, ref+vo, "+"
+	if in.Text("polarity") == "negative" {
+		lo, hi, sign = ref-vo, ref, "−"
+	}
+	add(Requirement{Key: KeyOutputRange, Bound: BoundRange, Low: lo, High: hi, Dim: catalog.Volt,
+		Why: fmt.Sprintf("ref … ref %s i_max·Rf = %s … %s %s %s·%s", sign, V(ref), V(ref), sign, I, Ohm(t.rf))})
+	gbw := circuit.GBWForTIA(t.rf, t.cin, t.f)
+	cf := circuit.FeedbackCapForTIAFlat(t.rf, t.cin, gbw)
+	cinF := t.cin
+	gwhy := fmt.Sprintf("2π·Rf·Cin·f² = 2π·%s·%s·(%s)² (+ the part's own cin); maximally flat with Cf = %s",
+		Ohm(t.rf), F(t.cin), Hz, F(cf))
+	if cf > tiaCfShare*t.cin {
+		gwhy += fmt.Sprintf(" (Cf is not ≪ Cin: the bandwidth falls to about f·√(Cin/(Cin+Cf)) = %.2g·f)", math.Sqrt(t.cin/(t.cin+cf)))
+	}
+	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
+		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, cinF) }, Why: gwhy})
+	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(vo, sp.Rise), Dim: catalog.VoltPerSecond,
+		Why: fmt.Sprintf("0.8·i_max·Rf/(0.35/f) = 0.8·%s·%s/(0.35/%s)", I, Ohm(t.rf), Hz)})
+	i, why := t.imax, "i_max = "+I
+	if sp.LoadR > 0 {
+		i += vo / sp.LoadR
+		why = fmt.Sprintf("i_max + i_max·Rf/load_r = %s + %s/%s", I, V(vo), Ohm(sp.LoadR))
+	}
+	add(Requirement{Key: KeyOutputCurrent, Bound: BoundMin, Value: i, Dim: catalog.Ampere, Why: why})
+	if v, ok := in.Num("dc_error"); ok {
+		rf, ng := t.rf, t.ng
+		add(Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
+			Measure: func(_ *catalog.Part, f *PartFigures) Figure { return tiaDCError(f, rf, ng) },
+			Why: fmt.Sprintf("Vos·(1 + Rf/shunt_r) + Ib·Rf ≤ %s with 1 + Rf/shunt_r = %s, Rf = %s",
+				V(v), catalog.Format(ng, catalog.Dimensionless), Ohm(rf))})
+	}
+	return sp, nil
+}
+
+// tiaGBW is the part's GBW scaled by cin/(cin + part cin), so that the
+// check's margin is GBW/(2π·Rf·(cin + part cin)·f²) − 1.
+func tiaGBW(p *catalog.Part, f *PartFigures, cin float64) Figure {
+	g := f.GBW
+	if !g.Known {
+		return g
+	}
+	if p.Cin.Set && p.Cin.V > 0 {
+		g.V *= cin / (cin + p.Cin.V)
+		g.Note = noteTIACin
+	} else {
+		g.Note = noteTIANoCin
+	}
+	return g
+}
+
+// tiaDCError is Vos·NG + Ib·Rf with worst-case Vos and Ib: the bias current
+// flows through Rf, the offset is amplified by the DC noise gain.
+func tiaDCError(f *PartFigures, rf, ng float64) Figure {
+	if !f.Vos.Known || !f.Ib.Known {
+		return Figure{}
+	}
+	note := f.Vos.Note
+	if f.Ib.Basis > f.Vos.Basis {
+		note = f.Ib.Note
+	}
+	return Figure{V: ng*f.Vos.V + f.Ib.V*rf, Known: true, Basis: weaker(f.Vos.Basis, f.Ib.Basis), Note: note}
+}
+
+// TIAFeedbackCap returns the feedback capacitor that makes a
+// transimpedance stage maximally flat on a part with worst-case figures f:
+// circuit.FeedbackCapForTIAFlat with the stage's cin plus the part's own
+// input capacitance (when the catalog gives it) and the part's worst-case
+// GBW; bw is the −3 dB bandwidth it then reaches (circuit.TIAResponse and
+// LowPass2Bandwidth, ≈ circuit.BandwidthTIA).
+// ok is false when sp is not a transimpedance stage or the GBW is unknown.
+func TIAFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
+	if sp == nil || sp.Stage == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
+		return 0, 0, false
+	}
+	t, err := readTIA(NewStageInput(sp.Stage, transimpedanceTemplate{}))
+	if err != nil {
+		return 0, 0, false
+	}
+	cin := t.cin
+	if part != nil && part.Cin.Set {
+		cin += part.Cin.V
+	}
+	cf = circuit.FeedbackCapForTIAFlat(t.rf, cin, f.GBW.V)
+	f0, q := circuit.TIAResponse(t.rf, cin, cf, f.GBW.V)
+	bw = circuit.LowPass2Bandwidth(f0, q)
+	if math.IsNaN(bw) {
+		return 0, 0, false
+	}
+	return cf, bw, true
+}

@@ -1,0 +1,197 @@
+package filter
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Template is a stage kind: the inputs it takes and how it turns them into
+// requirements. Adding a kind is a new stage_<kind>.go file with a type
+// implementing Template plus one line in templates.
+type Template interface {
+	// Kind is the value of the stage's kind key: "noninverting".
+	Kind() string
+	// Summary is one line for help and forms.
+	Summary() string
+	// Params lists the stage keys the kind accepts, in form order. The keys
+	// name, kind are implied and not listed.
+	Params() []Param
+	// Derive computes the stage's circuit quantities and requirements. in
+	// reads the stage's values with defaults applied; p has the rails and
+	// temperatures already filled in.
+	Derive(in *StageInput, p *Plan) (StagePlan, error)
+}
+
+// templates is the registry of stage kinds: one line per kind.
+func templates() []Template {
+	return []Template{
+		directTemplate{},
+		followerTemplate{},
+		noninvertingTemplate{},
+		invertingTemplate{},
+		comparatorTemplate{},
+		relaxationTemplate{},
+		sallenKeyTemplate{},
+		railSplitterTemplate{},
+		transimpedanceTemplate{},
+	}
+}
+
+// plannedKinds are kinds the design format names that have no template yet.
+func plannedKinds() []string {
+	return nil
+}
+
+// Templates returns the stage templates opsift knows, in registry order.
+func Templates() []Template { return templates() }
+
+// TemplateFor returns the template of a stage kind.
+func TemplateFor(kind string) (Template, bool) {
+	for _, t := range templates() {
+		if t.Kind() == kind {
+			return t, true
+		}
+	}
+	return nil, false
+}
+
+// KnownKinds lists the stage kinds that have a template.
+func KnownKinds() []string {
+	var out []string
+	for _, t := range templates() {
+		out = append(out, t.Kind())
+	}
+	return out
+}
+
+// unknownKind explains a kind that has no template.
+func unknownKind(kind string) error {
+	known := strings.Join(KnownKinds(), ", ")
+	for _, k := range plannedKinds() {
+		if k == kind {
+			if _, ok := TemplateFor(k); !ok {
+				return fmt.Errorf("kind %q is not supported yet, want one of %s", kind, known)
+			}
+		}
+	}
+	if kind == "" {
+		return fmt.Errorf("no kind given, want one of %s", known)
+	}
+	if s := nearest(kind, KnownKinds()); s != "" {
+		return fmt.Errorf("unknown kind %q (did you mean %q?), want one of %s", kind, s, known)
+	}
+	return fmt.Errorf("unknown kind %q, want one of %s", kind, known)
+}
+
+// StageInput reads a stage's values with its template's defaults applied.
+type StageInput struct {
+	Stage    *Stage
+	Template Template
+	params   map[string]Param
+}
+
+// NewStageInput prepares s for reading with the params of t.
+func NewStageInput(s *Stage, t Template) *StageInput {
+	m := make(map[string]Param)
+	for _, p := range t.Params() {
+		if p.Kind == Pair {
+			q := p
+			q.Kind = Quantity
+			m[p.Key+".low"], m[p.Key+".high"] = q, q
+			continue
+		}
+		m[p.Key] = p
+	}
+	return &StageInput{Stage: s, Template: t, params: m}
+}
+
+// Has reports whether the stage gives key or the template has a default for it.
+func (in *StageInput) Has(key string) bool {
+	return in.Stage.Values[key].Set || in.params[key].Default != ""
+}
+
+// Given reports whether the stage itself gives key.
+func (in *StageInput) Given(key string) bool { return in.Stage.Values[key].Set }
+
+// Num returns the quantity under key, or its default; ok is false when
+// neither is there.
+func (in *StageInput) Num(key string) (v float64, ok bool) {
+	if x := in.Stage.Values[key]; x.Set {
+		return x.V, true
+	}
+	p, found := in.params[key]
+	if !found || p.Default == "" {
+		return 0, false
+	}
+	d, err := parseParam(p, p.Default)
+	if err != nil {
+		return 0, false
+	}
+	return d.V, true
+}
+
+// Text returns a Choice value under key, or its default.
+func (in *StageInput) Text(key string) string {
+	if x := in.Stage.Values[key]; x.Set {
+		return x.Raw
+	}
+	return in.params[key].Default
+}
+
+// Raw returns the text to show for key in formulas: as written, else the default.
+func (in *StageInput) Raw(key string) string {
+	if x := in.Stage.Values[key]; x.Set {
+		return x.Raw
+	}
+	return in.params[key].Default
+}
+
+// Need returns the quantity under key or an error naming the field.
+func (in *StageInput) Need(key string) (float64, error) {
+	v, ok := in.Num(key)
+	if !ok {
+		p := in.params[key]
+		return 0, fmt.Errorf("field %q: missing, want %s such as %q", key, p.Dim, p.Dim.Example())
+	}
+	return v, nil
+}
+
+// nearest returns the candidate closest to s by edit distance when it is
+// close enough to be a likely typo, else "".
+func nearest(s string, candidates []string) string {
+	best, bestD := "", 1<<30
+	sorted := append([]string(nil), candidates...)
+	sort.Strings(sorted)
+	for _, c := range sorted {
+		if d := editDistance(s, c); d < bestD {
+			best, bestD = c, d
+		}
+	}
+	if bestD <= 2 || (bestD <= len(s)/3 && bestD < len(s)) {
+		return best
+	}
+	return ""
+}
+
+// editDistance is the Levenshtein distance between a and b.
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}
