@@ -3,6 +3,8 @@ package main
 import (
 	"fmt"
 	"strings"
+
+	"github.com/opsift/opsift/filter/report"
 )
 
 // command is one subcommand of opsift.
@@ -47,10 +49,9 @@ func run(args []string, e *env) error {
 	return runSelector(e, args)
 }
 
-// caution is printed in --help and carried by every export.
-const caution = "Results are advisory: verify every figure against the current manufacturer " +
-	"datasheet. Mains-powered, medical and safety-critical designs need the applicable " +
-	"standards, local codes and qualified review."
+// caution is printed in --help and carried by every export; the text lives
+// with the writers so exports and the command line say the same.
+const caution = report.Caution
 
 // mainHelp is the text of opsift --help.
 func mainHelp() string {

@@ -1,0 +1,106 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"log"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/tui"
+)
+
+const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict]
+
+The interactive selector: edit the design's inputs and watch the derived
+requirements, the ranking and every candidate's margins follow at once.
+Mark parts for a shortlist and export it (md, csv, json, toml); save the
+edited design. Press ? inside for every key.
+
+Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
+
+Options:
+`
+
+// runSelector starts the interactive selector on the catalog and design.
+func runSelector(e *env, args []string) error {
+	var (
+		catalogs pathList
+		design   string
+		strict   bool
+	)
+	fset := flag.NewFlagSet("opsift", flag.ContinueOnError)
+	fset.SetOutput(e.stderr)
+	fset.Var(&catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
+	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.Usage = func() {
+		fmt.Fprint(fset.Output(), selectorUsage)
+		fset.PrintDefaults()
+	}
+	if err := fset.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			fset.SetOutput(e.stdout)
+			fset.Usage()
+			return nil
+		}
+		return &exitError{code: 2}
+	}
+	if fset.NArg() > 0 {
+		return usageError("unexpected argument %q (see opsift --help)", fset.Arg(0))
+	}
+	d, _, err := deriveDesign(design)
+	if err != nil {
+		return inputError(err)
+	}
+	layers := catalogLayers(e, catalogs)
+	cat, err := loadCatalog(e, catalogs)
+	if err != nil {
+		return err
+	}
+	if !e.isTTY {
+		return usageError("the interactive selector needs a terminal; for scripts use opsift rank")
+	}
+	if path := e.getenv("OPSIFT_LOG"); path != "" {
+		f, err := tea.LogToFile(path, "opsift")
+		if err != nil {
+			return inputError(fmt.Errorf("OPSIFT_LOG: %w", err))
+		}
+		defer f.Close()
+	} else {
+		log.SetOutput(io.Discard) // stdout and stderr belong to the screen
+	}
+	var onDisk []string
+	for _, l := range layers {
+		if l.FS == nil {
+			onDisk = append(onDisk, l.Path)
+		}
+	}
+	r := lipgloss.NewRenderer(e.stdout)
+	if e.getenv("NO_COLOR") != "" {
+		r.SetColorProfile(termenv.Ascii)
+	}
+	m := tui.New(tui.Config{
+		Design:     d,
+		DesignFile: design,
+		Catalog:    cat,
+		Load:       func() (*catalog.Catalog, error) { return catalog.Load(layers...) },
+		OnDisk:     onDisk,
+		Watch:      true,
+		Strict:     strict,
+		Renderer:   r,
+		Getenv:     e.getenv,
+	})
+	defer m.Close()
+	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),
+		tea.WithInput(e.stdin), tea.WithOutput(e.stdout))
+	if _, err := p.Run(); err != nil {
+		return fmt.Errorf("selector: %w", err)
+	}
+	return nil
+}

@@ -1,0 +1,248 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// checksPane shows every check of the selected candidate, grouped by stage
+// (design-level first), each with what was required, what the part offers
+// at worst case, the margin, the basis and the outcome in words.
+type checksPane struct {
+	offset int    // first body line on screen
+	partID string // the part the offset belongs to; another part starts at the top
+}
+
+// checkColumns are the checks pane's columns.
+func checkColumns() []column {
+	return []column{
+		{title: "result", width: 9, prio: 100},
+		{title: "check", width: 16, prio: 99},
+		{title: "required", width: 13, prio: 90, right: true},
+		{title: "available", width: 13, prio: 89, right: true},
+		{title: "margin", width: 6, prio: 95, right: true},
+		{title: "basis", width: 10, prio: 50},
+		{title: "note", width: 8, prio: 1, flex: true},
+	}
+}
+
+// outcome is a check's result in words, with a symbol, never colour alone.
+func outcome(c *filter.Check) string {
+	switch c.Status {
+	case filter.StatusPass:
+		return "✓ pass"
+	case filter.StatusFail:
+		return "✗ FAIL"
+	}
+	return "? unknown"
+}
+
+// required and available are a check's two figures as text.
+func required(c *filter.Check) string {
+	q := c.Req
+	switch q.Bound {
+	case filter.BoundMin:
+		return "≥ " + quantity(c.Required, q.Dim)
+	case filter.BoundMax:
+		return "≤ " + quantity(c.Required, q.Dim)
+	case filter.BoundRange:
+		return span(q.Low, q.High, q.Dim)
+	}
+	switch {
+	case len(q.Allowed) > 0:
+		return strings.Join(q.Allowed, " ")
+	case q.Key == filter.KeyTemperature:
+		return span(q.Low, q.High, catalog.Celsius)
+	case q.Key == filter.KeyCost:
+		return "≤ " + trimFloat(q.Value)
+	}
+	return ""
+}
+
+func available(c *filter.Check, p *catalog.Part) string {
+	q := c.Req
+	switch q.Bound {
+	case filter.BoundMin, filter.BoundMax:
+		return quantity(c.Available, q.Dim)
+	case filter.BoundRange:
+		return span(c.AvailLow, c.AvailHigh, q.Dim)
+	}
+	switch q.Key {
+	case filter.KeyPackage:
+		return strings.Join(p.Packages, " ")
+	case filter.KeyTech:
+		return string(p.Tech)
+	case filter.KeyLifecycle:
+		return string(p.Lifecycle)
+	case filter.KeyCost:
+		if p.UnitCost.Set {
+			return trimFloat(p.UnitCost.V)
+		}
+	case filter.KeyTemperature:
+		if p.Temp[0].Set && p.Temp[1].Set {
+			return span(p.Temp[0].V, p.Temp[1].V, catalog.Celsius)
+		}
+	}
+	return "?"
+}
+
+// checksLines lays out the body of the pane for result r at width w.
+func (m *Model) checksLines(r *filter.Result, w int) []string {
+	st := &m.ui.st
+	cols := checkColumns()
+	widths := fitColumns(cols, w)
+	out := []string{st.Header.Render(fit(header(cols, widths), w))}
+	var groups []string // stage names in check order, "" first
+	seen := map[string]bool{}
+	for i := range r.Checks {
+		s := r.Checks[i].Req.Stage
+		if !seen[s] {
+			seen[s] = true
+			groups = append(groups, s)
+		}
+	}
+	for _, g := range groups {
+		out = append(out, m.groupLine(r, g, w))
+		for i := range r.Checks {
+			c := &r.Checks[i]
+			if c.Req.Stage != g {
+				continue
+			}
+			res := outcome(c)
+			switch c.Status {
+			case filter.StatusPass:
+				res = st.Pass.Render(res)
+			case filter.StatusFail:
+				res = st.Fail.Render(res)
+			default:
+				res = st.Unknown.Render(res)
+			}
+			basis := c.Basis.String()
+			if mk := basisMark(c.Basis); mk != "" {
+				basis = mk + " " + basis
+			}
+			if basis == "" {
+				basis = "—"
+			}
+			note := c.Note
+			if note == "" {
+				note = st.Why.Render(c.Req.Why)
+			}
+			margin := marginText(c.Margin)
+			if c.Status == filter.StatusFail {
+				margin = st.Fail.Render(margin)
+			}
+			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, note}
+			out = append(out, fit(row(cols, widths, cells), w))
+		}
+	}
+	return out
+}
+
+// groupLine heads one stage's checks with its own pass/fail verdict.
+func (m *Model) groupLine(r *filter.Result, stage string, w int) string {
+	st := &m.ui.st
+	name := "design"
+	if stage != "" {
+		name = "stage " + stage
+	}
+	var fails []string
+	unknown := 0
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		if c.Req.Stage != stage {
+			continue
+		}
+		switch c.Status {
+		case filter.StatusFail:
+			f := string(c.Req.Key)
+			if c.HasMargin() {
+				f += " " + marginText(c.Margin)
+			}
+			fails = append(fails, f)
+		case filter.StatusUnknown:
+			unknown++
+		}
+	}
+	verdict := st.Pass.Render("✓ pass")
+	if len(fails) > 0 {
+		verdict = st.Fail.Render("✗ FAIL: " + strings.Join(fails, ", "))
+	}
+	if unknown > 0 {
+		verdict += st.Unknown.Render(fmt.Sprintf(" · %d unknown", unknown))
+	}
+	return fit(st.Section.Render(name)+" "+verdict, w)
+}
+
+// detailView draws the right-hand detail area. Only the checks pane
+// exists so far; later panes add a case here.
+func (m *Model) detailView(w, h int) []string {
+	switch m.detail {
+	case detailChecks:
+		return m.checksView(w, h)
+	}
+	return blank(w, h)
+}
+
+// checksView draws the checks pane into h lines of w cells.
+func (m *Model) checksView(w, h int) []string {
+	st := &m.ui.st
+	focused := m.focus == paneDetail
+	r := m.list.selected(m.results)
+	if r == nil {
+		out := []string{m.paneTitle("CHECKS", focused, w), st.Muted.Render(fit("no candidate selected", w))}
+		return append(out, blank(w, h-2)...)
+	}
+	explain(m.resPlan, r, m.cfg.Strict)
+	if m.checks.partID != r.Part.ID {
+		m.checks.partID, m.checks.offset = r.Part.ID, 0
+	}
+	out := []string{m.paneTitle("CHECKS · "+r.Part.ID+" — "+r.Part.Name, focused, w), fit(m.summary(r), w)}
+	body := m.checksLines(r, w)
+	rows := max(0, h-3) // title, summary, column header
+	m.checks.offset = max(0, min(m.checks.offset, len(body)-1-rows))
+	out = append(out, body[0])
+	for i := 1 + m.checks.offset; i < len(body) && len(out) < h; i++ {
+		out = append(out, body[i])
+	}
+	return append(out, blank(w, h-len(out))...)
+}
+
+// summary is one line about the selected part: verdict, cost, current.
+func (m *Model) summary(r *filter.Result) string {
+	st := &m.ui.st
+	var b strings.Builder
+	if r.Pass {
+		b.WriteString(st.Pass.Render("✓ passes"))
+		if !math.IsNaN(r.WorstMargin) {
+			fmt.Fprintf(&b, " · worst %s at %s", marginText(r.WorstMargin), checkName(r.Binding.Stage, r.Binding.Key))
+		}
+	} else {
+		b.WriteString(st.Fail.Render(fmt.Sprintf("✗ fails %d check(s)", r.Failed)))
+	}
+	if r.Unknown > 0 {
+		fmt.Fprintf(&b, " · %d unknown", r.Unknown)
+	}
+	fmt.Fprintf(&b, " · %d pkg", r.Packages)
+	if !math.IsNaN(r.Cost) {
+		fmt.Fprintf(&b, " = %s", trimFloat(r.Cost))
+	}
+	if !math.IsNaN(r.SupplyCurrent) {
+		fmt.Fprintf(&b, " · Iq %s", catalog.Format(r.SupplyCurrent, catalog.Ampere))
+	}
+	fmt.Fprintf(&b, " · %s · %s", strings.Join(r.Part.Packages, " "), r.Part.Lifecycle)
+	return b.String()
+}
+
+// blank is n empty lines of w cells.
+func blank(w, n int) []string {
+	out := make([]string, max(0, n))
+	for i := range out {
+		out[i] = strings.Repeat(" ", w)
+	}
+	return out
+}

@@ -1,0 +1,23 @@
+// Package tui is opsift's interactive selector: a bubbletea program in
+// which the design's inputs, the derived requirements, the ranking and each
+// candidate's margins move together.
+//
+//	key in a design field ─► Design.Clone + Set ─► Derive (at once, in Update)
+//	      │ parse or derive error: shown inline, the design in force stays
+//	      ▼
+//	plan in force ─► rankJob{gen} (tea.Cmd: Evaluate + Rank, off the UI path)
+//	      ─► rankedMsg{gen} ─► dropped unless gen is the newest
+//	      ─► results ─► narrowing (failing, find, tech, package, shortlist)
+//	      ─► list rows (only visible ones drawn), selection kept by part id
+//	      ─► checks pane for the selected part
+//
+//	catalog file changed (fsnotify, debounced) or r ─► Config.Load ─► reloadedMsg
+//	      ─► new catalog, selection and shortlist kept ─► rankJob
+//
+// The root Model holds the panes' sub-models (form, list, checksPane,
+// prompt) and one read-only ui context (size, styles, keys) they draw with.
+// Each mode (browse, edit, find, prompt, help) has its own update function;
+// the right-hand detail area switches on a detail kind so more panes can
+// join the checks pane. Styles come from a Theme of ANSI colours 0–15 and a
+// lipgloss renderer chosen by the caller (no colour for NO_COLOR and tests).
+package tui

@@ -1,0 +1,93 @@
+package tui
+
+import (
+	"fmt"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// takesLine reports whether an editor takes "+LINE FILE" to open a file
+// at a line (vi and its kin, nano, emacs, micro, kakoune, joe, mg, ne).
+func takesLine(editor string) bool {
+	switch editor {
+	case "vi", "vim", "nvim", "view", "nano", "emacs", "emacsclient", "micro", "kak", "joe", "mg", "ne":
+		return true
+	}
+	return false
+}
+
+// openEditor opens the selected part's catalog file in $VISUAL or $EDITOR
+// at the part's line, and reloads when the editor exits. Parts of the
+// embedded demo catalog have no file to edit.
+func (m *Model) openEditor() tea.Cmd {
+	r := m.list.selected(m.results)
+	if r == nil {
+		m.setMessage("no candidate selected")
+		return nil
+	}
+	file := r.Part.Pos.File
+	if !m.onDisk(file) {
+		m.setMessage("%s is in the read-only %s; run `opsift init` for a catalog of your own to edit",
+			r.Part.ID, sourceName(m.cat.Sources))
+		return nil
+	}
+	cmd, err := editorCommand(m.cfg.Getenv, file, r.Part.Pos.Line)
+	if err != nil {
+		m.setError(err)
+		return nil
+	}
+	return tea.ExecProcess(cmd, func(err error) tea.Msg { return editorDoneMsg{err: err} })
+}
+
+// editorCommand builds the command that opens file at line.
+func editorCommand(getenv func(string) string, file string, line int) (*exec.Cmd, error) {
+	ed := strings.TrimSpace(getenv("VISUAL"))
+	if ed == "" {
+		ed = strings.TrimSpace(getenv("EDITOR"))
+	}
+	if ed == "" {
+		ed = "vi"
+	}
+	args := strings.Fields(ed)
+	if _, err := exec.LookPath(args[0]); err != nil {
+		return nil, fmt.Errorf("editor %q not found: set $EDITOR", args[0])
+	}
+	if line > 0 && takesLine(filepath.Base(args[0])) {
+		args = append(args, "+"+strconv.Itoa(line))
+	}
+	args = append(args, file)
+	return exec.Command(args[0], args[1:]...), nil
+}
+
+// onDisk reports whether file belongs to an on-disk catalog source.
+func (m *Model) onDisk(file string) bool {
+	if file == "" {
+		return false
+	}
+	abs, err := filepath.Abs(file)
+	if err != nil {
+		return false
+	}
+	for _, p := range m.cfg.OnDisk {
+		src, err := filepath.Abs(p)
+		if err != nil {
+			continue
+		}
+		if abs == src || filepath.Dir(abs) == src {
+			return true
+		}
+	}
+	return false
+}
+
+// sourceName is a short name of the catalog sources for messages.
+func sourceName(sources []string) string {
+	if len(sources) == 0 {
+		return "catalog"
+	}
+	return strings.Join(sources, ", ")
+}

@@ -1,0 +1,49 @@
+package tui
+
+import (
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// rankJob is one evaluation of the catalog against a derived plan. It runs
+// off the UI path in a tea.Cmd; gen is the model's generation when the job
+// was made, so a result overtaken by a newer edit is dropped on arrival.
+type rankJob struct {
+	gen   uint64
+	plan  *filter.Plan
+	parts []*catalog.Part
+	opts  filter.Options
+	sort  filter.SortKey
+}
+
+// rankedMsg carries a finished rankJob back to Update.
+type rankedMsg struct {
+	gen     uint64
+	plan    *filter.Plan
+	results []filter.Result
+	took    time.Duration
+}
+
+// explain fills in the checks of a result evaluated in summary mode: the
+// ranking keeps only summaries (pass, worst margin, binding, fmax), and the
+// rows that are drawn, the selected part and exports get their checks here.
+// plan must be the plan the result was ranked with.
+func explain(plan *filter.Plan, r *filter.Result, strict bool) {
+	if r.Checks == nil && plan != nil {
+		filter.Explain(plan, r, filter.Options{Strict: strict})
+	}
+}
+
+// run evaluates and ranks. The plan and parts are never written after the
+// job is made (an edit derives a new plan from a clone of the design), so
+// the job shares them with the model safely.
+func (j rankJob) run() tea.Msg {
+	start := time.Now()
+	res := filter.Evaluate(j.plan, j.parts, j.opts)
+	filter.Rank(res, j.sort)
+	return rankedMsg{gen: j.gen, plan: j.plan, results: res, took: time.Since(start)}
+}

@@ -1,0 +1,262 @@
+package tui
+
+import (
+	"strings"
+
+	"github.com/charmbracelet/bubbles/textinput"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// form is the design pane: every input of the design (Design.Fields) in
+// sections, each editable in place, with the derived requirements and
+// their formulas under the section they come from.
+type form struct {
+	u      *ui
+	fields []filter.Field
+	cursor int // index into fields
+	// offset is the first drawn line; follow makes the next draw scroll so
+	// the cursor's field is visible (movement keys set it, the wheel not).
+	offset int
+	follow bool
+
+	input   textinput.Model
+	editing bool
+	before  string // the field's text when editing began (esc restores it)
+	editErr string // why the text being typed is not in force; "" when it is
+}
+
+// newForm returns an empty design pane.
+func newForm(u *ui) form {
+	return form{u: u, input: newInput(u, "", 64), follow: true}
+}
+
+// refresh re-reads the fields of d, keeping the cursor on the same field
+// (by path) when it still exists.
+func (f *form) refresh(d *filter.Design) {
+	path := f.path()
+	f.fields = d.Fields()
+	for i, fl := range f.fields {
+		if fl.Path == path {
+			f.cursor = i
+			return
+		}
+	}
+	f.cursor = min(f.cursor, max(0, len(f.fields)-1))
+}
+
+// path is the path of the field under the cursor, "" when none.
+func (f *form) path() string {
+	if f.cursor < 0 || f.cursor >= len(f.fields) {
+		return ""
+	}
+	return f.fields[f.cursor].Path
+}
+
+// current is the field under the cursor.
+func (f *form) current() (filter.Field, bool) {
+	if f.cursor < 0 || f.cursor >= len(f.fields) {
+		return filter.Field{}, false
+	}
+	return f.fields[f.cursor], true
+}
+
+// move moves the cursor by n fields.
+func (f *form) move(n int) {
+	f.cursor = max(0, min(len(f.fields)-1, f.cursor+n))
+	f.follow = true
+}
+
+// scroll moves the view by n lines without moving the cursor.
+func (f *form) scroll(n int) {
+	f.offset = max(0, f.offset+n)
+	f.follow = false
+}
+
+// section returns the heading a field path belongs under and, for a stage
+// field, the stage name.
+func section(path string) (heading, stage string) {
+	if rest, ok := strings.CutPrefix(path, "stage."); ok {
+		// Stage names have no dots (the decoder checks), so the first
+		// segment is the name.
+		name, _, _ := strings.Cut(rest, ".")
+		return "stage " + name, name
+	}
+	h, _, _ := strings.Cut(path, ".")
+	return h, ""
+}
+
+// formLine is one drawn line of the design pane.
+type formLine struct {
+	text  string
+	field int // index of the field it draws, -1 for headings and formulas
+}
+
+// lines lays the pane out at width w: section headings, fields, inline
+// errors and the requirements with their formulas.
+func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
+	st := &f.u.st
+	var out []formLine
+	add := func(s string, field int) { out = append(out, formLine{s, field}) }
+	labelW := max(8, min(22, (w-2)*52/100))
+	valueW := w - 2 - labelW - 1
+	prev := ""
+	globalDone := false
+	for i, fl := range f.fields {
+		head, stage := section(fl.Path)
+		if stage != "" && !globalDone {
+			globalDone = true
+			f.requirements(&out, plan, "", w)
+		}
+		if head != prev {
+			if prev != "" {
+				add(fit("", w), -1)
+			}
+			title := head
+			if stage != "" && plan != nil {
+				for _, sp := range plan.Stages {
+					if sp.Name == stage {
+						title += " · " + sp.Kind
+					}
+				}
+			}
+			add(st.Section.Render(fit(title, w)), -1)
+			prev = head
+		}
+		label := fl.Label
+		if stage != "" {
+			label = strings.TrimPrefix(label, stage+": ")
+		}
+		mark := "  "
+		if i == f.cursor {
+			mark = "▸ "
+		}
+		var value string
+		switch {
+		case f.editing && i == f.cursor:
+			f.input.Width = max(1, valueW-1)
+			value = f.input.View()
+		case fl.Set:
+			value = st.Value.Render(fit(fl.Raw, valueW))
+		case fl.Default != "":
+			value = st.Default.Render(fit("("+fl.Default+")", valueW))
+		default:
+			value = st.Default.Render(fit("—", valueW))
+		}
+		lab := fit(label, labelW)
+		if i == f.cursor {
+			lab = st.Value.Render(lab)
+		}
+		add(fit(mark+lab+" "+value, w), i)
+		if f.editing && i == f.cursor && f.editErr != "" {
+			for _, l := range wrap("✗ "+f.editErr, w-4) {
+				add("    "+st.Error.Render(fit(l, w-4)), i)
+			}
+		}
+		if next := i + 1; stage != "" && (next == len(f.fields) || !strings.HasPrefix(f.fields[next].Path, "stage."+stage+".")) {
+			f.requirements(&out, plan, stage, w)
+		}
+	}
+	if !globalDone {
+		f.requirements(&out, plan, "", w)
+	}
+	return out
+}
+
+// requirements adds the derived requirements of a stage ("" for the
+// design-level ones) under a "needs" heading, each with its formula.
+func (f *form) requirements(out *[]formLine, plan *filter.Plan, stage string, w int) {
+	if plan == nil {
+		return
+	}
+	var reqs []filter.Requirement
+	if stage == "" {
+		reqs = plan.Global
+	} else {
+		for _, sp := range plan.Stages {
+			if sp.Name == stage {
+				reqs = sp.Requirements
+			}
+		}
+	}
+	if len(reqs) == 0 {
+		return
+	}
+	st := &f.u.st
+	*out = append(*out, formLine{st.Muted.Render(fit("  needs", w)), -1})
+	for i := range reqs {
+		r := &reqs[i]
+		*out = append(*out, formLine{fit("  "+requirementText(r), w), -1})
+		if r.Why != "" {
+			for _, l := range wrap(r.Why, w-6) {
+				*out = append(*out, formLine{st.Why.Render(fit("      "+l, w)), -1})
+			}
+		}
+	}
+}
+
+// requirementText is a requirement in one short line: "slew ≥ 0.63 V/µs".
+func requirementText(r *filter.Requirement) string {
+	k := string(r.Key)
+	switch r.Bound {
+	case filter.BoundMin:
+		return k + " ≥ " + quantity(r.Value, r.Dim)
+	case filter.BoundMax:
+		return k + " ≤ " + quantity(r.Value, r.Dim)
+	case filter.BoundRange:
+		return k + " covers " + span(r.Low, r.High, r.Dim)
+	}
+	switch {
+	case len(r.Allowed) > 0:
+		return k + " ∈ " + strings.Join(r.Allowed, ", ")
+	case r.Key == filter.KeyTemperature:
+		return k + " covers " + span(r.Low, r.High, catalog.Celsius)
+	case r.Key == filter.KeyCost:
+		return k + " ≤ " + trimFloat(r.Value)
+	}
+	return k
+}
+
+// view draws the pane into h lines of w cells, the first being the title.
+func (f *form) view(plan *filter.Plan, design *filter.Design, titleFn func(string) string, w, h int) []string {
+	title := "DESIGN"
+	if design.Title != "" {
+		title += " · " + design.Title
+	}
+	lines := f.lines(plan, design.Name, w)
+	body := max(0, h-1)
+	if f.follow {
+		first, last := -1, -1
+		for i, l := range lines {
+			if l.field == f.cursor {
+				if first < 0 {
+					first = i
+				}
+				last = i
+			}
+		}
+		if first >= 0 {
+			// Show the heading above the first field of a section too.
+			if first > 0 && lines[first-1].field < 0 && first-1 < f.offset {
+				f.offset = first - 1
+			}
+			if first < f.offset {
+				f.offset = first
+			}
+			if last >= f.offset+body {
+				f.offset = last - body + 1
+			}
+		}
+	}
+	f.offset = max(0, min(f.offset, len(lines)-body))
+	out := make([]string, 0, h)
+	out = append(out, titleFn(title))
+	for i := f.offset; i < len(lines) && len(out) < h; i++ {
+		out = append(out, lines[i].text)
+	}
+	for len(out) < h {
+		out = append(out, strings.Repeat(" ", w))
+	}
+	return out
+}

@@ -1,0 +1,187 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/charmbracelet/x/ansi"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// fit truncates s to w cells (with an ellipsis) and pads it with spaces
+// to exactly w cells. s may hold escape codes.
+func fit(s string, w int) string {
+	if w <= 0 {
+		return ""
+	}
+	n := ansi.StringWidth(s)
+	if n > w {
+		s = ansi.Truncate(s, w, "…")
+		n = ansi.StringWidth(s)
+	}
+	return s + strings.Repeat(" ", w-n)
+}
+
+// fitRight is fit aligned to the right.
+func fitRight(s string, w int) string {
+	if w <= 0 {
+		return ""
+	}
+	n := ansi.StringWidth(s)
+	if n > w {
+		return ansi.Truncate(s, w, "…")
+	}
+	return strings.Repeat(" ", w-n) + s
+}
+
+// wrap breaks s into lines of at most w cells, at spaces where it can.
+func wrap(s string, w int) []string {
+	if w <= 0 {
+		return nil
+	}
+	return strings.Split(ansi.Wrap(s, w, ""), "\n")
+}
+
+// marginText shows a margin (a fraction; ≥ 0 passes) as a signed percent;
+// huge margins as a ratio so the column stays narrow. NaN is "—".
+func marginText(m float64) string {
+	switch {
+	case math.IsNaN(m):
+		return "—"
+	case m >= 9.995:
+		return fmt.Sprintf("×%.0f", 1+m)
+	case m > -0.0005 && m < 0:
+		return "-0%" // a near miss must not read as +0 %
+	}
+	return fmt.Sprintf("%+.0f%%", 100*m)
+}
+
+// eighths are the block characters of a partial bar cell, 1/8 … 8/8.
+var eighths = [...]string{"▏", "▎", "▍", "▌", "▋", "▊", "▉", "█"}
+
+// bar draws a margin as cells of block characters: 0 is empty, barFull and
+// more is full. A negative margin is drawn as a row of ✗ marks' worth of
+// dots so a failing part is told by shape as well as colour.
+func bar(m float64, cells int) string {
+	if cells <= 0 {
+		return ""
+	}
+	if math.IsNaN(m) {
+		return strings.Repeat(" ", cells)
+	}
+	if m < 0 {
+		return strings.Repeat("·", cells)
+	}
+	steps := int(math.Round(math.Min(m, barFull) / barFull * float64(cells*8)))
+	var b strings.Builder
+	full := steps / 8
+	b.WriteString(strings.Repeat(eighths[7], full))
+	n := full
+	if r := steps % 8; r > 0 {
+		b.WriteString(eighths[r-1])
+		n++
+	}
+	b.WriteString(strings.Repeat(" ", cells-n))
+	return b.String()
+}
+
+// basisMark is the one-letter marker beside a figure that did not come
+// from a guaranteed limit: "~" for a typical table figure (derated or
+// inflated), "g" for a typical read off a graph, "" otherwise.
+func basisMark(b filter.Basis) string {
+	switch b {
+	case filter.BasisTypical:
+		return "~"
+	case filter.BasisGraph:
+		return "g"
+	}
+	return ""
+}
+
+// bindingCheck returns the check that sets a result's worst margin, or nil.
+func bindingCheck(r *filter.Result) *filter.Check {
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		if c.Req.Stage == r.Binding.Stage && c.Req.Key == r.Binding.Key && c.HasMargin() && c.Margin == r.WorstMargin {
+			return c
+		}
+	}
+	return nil
+}
+
+// fmaxBasis is the weakest basis of the slew and gbw checks fmax rests on.
+func fmaxBasis(r *filter.Result) filter.Basis {
+	b := filter.BasisGuaranteed
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		if (c.Req.Key == filter.KeySlew || c.Req.Key == filter.KeyGBW) && c.Basis > b {
+			b = c.Basis
+		}
+	}
+	return b
+}
+
+// checkName is "stage.key", or the key alone for design-level checks.
+func checkName(stage string, key filter.Key) string {
+	if stage == "" {
+		return string(key)
+	}
+	return stage + "." + string(key)
+}
+
+// quantity formats an SI value of dimension d for display; NaN is "?".
+func quantity(v float64, d catalog.Dim) string {
+	if math.IsNaN(v) {
+		return "?"
+	}
+	return catalog.Format(v, d)
+}
+
+// span formats a window lo … hi of dimension d.
+func span(lo, hi float64, d catalog.Dim) string {
+	return quantity(lo, d) + "…" + quantity(hi, d)
+}
+
+// costText shows packages × unit cost, e.g. "2×0.12", or "2×?".
+func costText(r *filter.Result) string {
+	if !r.Part.UnitCost.Set {
+		return fmt.Sprintf("%d×?", r.Packages)
+	}
+	return fmt.Sprintf("%d×%s", r.Packages, trimFloat(r.Part.UnitCost.V))
+}
+
+// trimFloat prints a plain number with up to 3 decimals and no trailing zeros.
+func trimFloat(v float64) string {
+	s := fmt.Sprintf("%.3f", v)
+	s = strings.TrimRight(s, "0")
+	return strings.TrimSuffix(s, ".")
+}
+
+// cleanFieldErr drops the prefixes of an error from Set or Derive that the
+// inline position already says (the design file, the stage, the field).
+func cleanFieldErr(err error, designName string) string {
+	s := err.Error()
+	if designName != "" {
+		if rest, ok := strings.CutPrefix(s, designName); ok {
+			if i := strings.Index(rest, ": "); i >= 0 && strings.Trim(rest[:i], ":0123456789") == "" {
+				s = rest[i+2:]
+			}
+		}
+	}
+	for {
+		t := s
+		for _, p := range []string{"stage ", "field "} {
+			if rest, ok := strings.CutPrefix(s, p+`"`); ok {
+				if i := strings.Index(rest, `": `); i >= 0 {
+					s = rest[i+3:]
+				}
+			}
+		}
+		if t == s {
+			return s
+		}
+	}
+}

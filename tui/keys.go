@@ -1,0 +1,88 @@
+package tui
+
+import "github.com/charmbracelet/bubbles/key"
+
+// KeyMap is every key the selector answers to. It feeds bubbles/help: the
+// short line at the bottom and the full overlay behind "?".
+type KeyMap struct {
+	Up, Down       key.Binding
+	PageUp, PageDn key.Binding
+	Top, Bottom    key.Binding
+	Focus          key.Binding // next pane
+	FocusBack      key.Binding // previous pane
+	Edit           key.Binding // edit the field under the cursor
+	Accept         key.Binding // leave a field / confirm a prompt
+	Cancel         key.Binding // leave a field restoring it / close a prompt
+	Failing        key.Binding // show failing parts too
+	Sort           key.Binding
+	Find           key.Binding // text filter on id, name, notes
+	Tech           key.Binding // cycle the technology quick filter
+	Package        key.Binding // cycle the package quick filter
+	Clear          key.Binding // clear every narrowing
+	Mark           key.Binding
+	Shortlist      key.Binding // show only the shortlist
+	Export         key.Binding
+	Save           key.Binding // save the design
+	Reload         key.Binding
+	Open           key.Binding // open the part in $EDITOR
+	Help           key.Binding
+	Quit           key.Binding
+}
+
+// DefaultKeyMap returns opsift's keys.
+func DefaultKeyMap() KeyMap {
+	b := func(keys []string, help, desc string) key.Binding {
+		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
+	}
+	return KeyMap{
+		Up:        b([]string{"up", "k"}, "↑/k", "up"),
+		Down:      b([]string{"down", "j"}, "↓/j", "down"),
+		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
+		PageDn:    b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
+		Top:       b([]string{"home", "g"}, "g/home", "first"),
+		Bottom:    b([]string{"end", "G"}, "G/end", "last"),
+		Focus:     b([]string{"tab"}, "tab", "pane"),
+		FocusBack: b([]string{"shift+tab"}, "shift+tab", "previous pane"),
+		Edit:      b([]string{"enter", "e"}, "enter", "edit"),
+		Accept:    b([]string{"enter"}, "enter", "done"),
+		Cancel:    b([]string{"esc"}, "esc", "cancel"),
+		Failing:   b([]string{"f"}, "f", "+failing"),
+		Sort:      b([]string{"s"}, "s", "sort"),
+		Find:      b([]string{"/"}, "/", "find"),
+		Tech:      b([]string{"t"}, "t", "tech filter"),
+		Package:   b([]string{"p"}, "p", "package filter"),
+		Clear:     b([]string{"c"}, "c", "clear filters"),
+		Mark:      b([]string{" ", "m"}, "space", "mark"),
+		Shortlist: b([]string{"l"}, "l", "shortlist"),
+		Export:    b([]string{"x"}, "x", "export"),
+		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Reload:    b([]string{"r"}, "r", "reload catalog"),
+		Open:      b([]string{"o"}, "o", "edit part file"),
+		Help:      b([]string{"?"}, "?", "keys"),
+		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+	}
+}
+
+// ShortHelp is the bottom line while browsing; "?" and "q" come early so
+// they stay visible at 80 columns.
+func (k KeyMap) ShortHelp() []key.Binding {
+	return []key.Binding{k.Focus, k.Edit, k.Mark, k.Failing, k.Export, k.Help, k.Quit, k.Sort, k.Find, k.Shortlist}
+}
+
+// FullHelp is the overlay: moving, narrowing, shortlist, keeping the work.
+func (k KeyMap) FullHelp() [][]key.Binding {
+	return [][]key.Binding{
+		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
+		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
+		{k.Mark, k.Shortlist, k.Export, k.Save, k.Reload, k.Open, k.Help, k.Quit},
+	}
+}
+
+// editHelp is the bottom line while a field or prompt has the keyboard.
+type editHelp struct{ k *KeyMap }
+
+// ShortHelp lists the keys of a text input.
+func (h editHelp) ShortHelp() []key.Binding { return []key.Binding{h.k.Accept, h.k.Cancel} }
+
+// FullHelp is the same as ShortHelp.
+func (h editHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

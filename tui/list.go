@@ -1,0 +1,276 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// list is the candidate pane: the rows the narrowing lets through, in
+// rank order, with a cursor. Only the rows on screen are ever drawn.
+type list struct {
+	view   []int // indices into Model.results
+	cursor int   // index into view
+	offset int   // first row on screen
+	// selID is the part the user chose (by moving or clicking). It
+	// survives re-rankings and filters that hide it: while it is not shown
+	// the cursor stays at the same position, and when it shows again the
+	// cursor goes back to it.
+	selID string
+}
+
+// selected returns the result under the cursor, or nil.
+func (l *list) selected(results []filter.Result) *filter.Result {
+	if l.cursor < 0 || l.cursor >= len(l.view) {
+		return nil
+	}
+	return &results[l.view[l.cursor]]
+}
+
+// reselect puts the cursor back on the chosen part (by id) after the
+// rows changed; while that part is not shown the cursor keeps its position.
+func (l *list) reselect(results []filter.Result, rows int) {
+	found := false
+	if l.selID != "" {
+		for i, ri := range l.view {
+			if results[ri].Part.ID == l.selID {
+				l.cursor, found = i, true
+				break
+			}
+		}
+	}
+	if !found {
+		l.cursor = max(0, min(l.cursor, len(l.view)-1))
+	}
+	l.scrollTo(rows)
+}
+
+// move moves the cursor by n rows and remembers the part it lands on.
+func (l *list) move(n int, results []filter.Result, rows int) {
+	if len(l.view) == 0 {
+		return
+	}
+	l.cursor = max(0, min(len(l.view)-1, l.cursor+n))
+	l.selID = results[l.view[l.cursor]].Part.ID
+	l.scrollTo(rows)
+}
+
+// scrollTo keeps the cursor inside the rows on screen.
+func (l *list) scrollTo(rows int) {
+	rows = max(1, rows)
+	if l.cursor < l.offset {
+		l.offset = l.cursor
+	}
+	if l.cursor >= l.offset+rows {
+		l.offset = l.cursor - rows + 1
+	}
+	l.offset = max(0, min(l.offset, len(l.view)-rows))
+}
+
+// listColumns are the candidate pane's columns; idW fits the catalog's ids.
+func listColumns(idW int) []column {
+	return []column{
+		{title: "", width: 2, prio: 100},
+		{title: "#", width: 3, prio: 90, right: true},
+		{title: "id", width: idW, prio: 95},
+		{title: "name", width: 12, prio: 1, flex: true},
+		{title: "tech", width: 7, prio: 3},
+		{title: "ch", width: 2, prio: 2, right: true},
+		{title: "margin", width: 6, prio: 92, right: true},
+		{title: "", width: barCells, prio: 4},
+		{title: "binding", width: 20, prio: 80},
+		{title: "fmax", width: 9, prio: 5, right: true},
+		{title: "pkg×cost", width: 8, prio: 6, right: true},
+	}
+}
+
+// idWidth is the id column's width for a catalog: its longest id, kept
+// between 6 and 16 cells.
+func idWidth(parts []*catalog.Part) int {
+	w := 6
+	for _, p := range parts {
+		w = max(w, len(p.ID))
+	}
+	return min(w, 16)
+}
+
+// listView draws the candidate pane into h lines of w cells.
+func (m *Model) listView(w, h int) []string {
+	st := &m.ui.st
+	out := make([]string, 0, h)
+	out = append(out, m.paneTitle(m.listTitle(), m.focus == paneList, w))
+	cols := listColumns(m.idW)
+	widths := fitColumns(cols, w)
+	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
+	rows := max(0, h-2)
+	switch {
+	case m.plan == nil:
+		out = append(out, st.Error.Render(fit("no ranking: the design cannot be derived (see the design pane)", w)))
+	case len(m.list.view) == 0 && m.ranking:
+		out = append(out, st.Muted.Render(fit("ranking…", w)))
+	case len(m.list.view) == 0:
+		out = append(out, st.Muted.Render(fit(m.emptyHint(), w)))
+	}
+	end := min(len(m.list.view), m.list.offset+rows)
+	for i := m.list.offset; i < end; i++ {
+		r := &m.results[m.list.view[i]]
+		explain(m.resPlan, r, m.cfg.Strict)
+		out = append(out, m.listRow(r, i, cols, widths, w))
+	}
+	for len(out) < h {
+		out = append(out, strings.Repeat(" ", w))
+	}
+	return out[:h]
+}
+
+// listTitle is the candidate pane's heading: what is shown and how.
+func (m *Model) listTitle() string {
+	n := &m.narrow
+	var b strings.Builder
+	if n.shortlist {
+		fmt.Fprintf(&b, "SHORTLIST %d marked", m.marks.len())
+	} else {
+		fmt.Fprintf(&b, "CANDIDATES %d of %d pass", m.nPass, len(m.results))
+	}
+	fmt.Fprintf(&b, " · sort %s", n.sortKey())
+	if n.failing && !n.shortlist {
+		b.WriteString(" · +failing")
+	}
+	if n.tech != "" {
+		b.WriteString(" · tech " + n.tech)
+	}
+	if n.pkg != "" {
+		b.WriteString(" · pkg " + n.pkg)
+	}
+	if n.find != "" {
+		fmt.Fprintf(&b, " · find %q", n.find)
+	}
+	if len(m.list.view) > 0 {
+		fmt.Fprintf(&b, " · %d/%d", m.list.cursor+1, len(m.list.view))
+	}
+	return b.String()
+}
+
+// emptyHint says why the list is empty and what to try.
+func (m *Model) emptyHint() string {
+	switch {
+	case m.narrow.shortlist:
+		return "the shortlist is empty: mark parts with space, l to go back"
+	case m.narrow.active():
+		return "no part matches the filters: c clears them"
+	case !m.narrow.failing:
+		return "no part passes: f shows the failing parts and why"
+	}
+	return "the catalog holds no parts"
+}
+
+// listRow draws one candidate.
+func (m *Model) listRow(r *filter.Result, i int, cols []column, widths []int, w int) string {
+	st := &m.ui.st
+	sel := i == m.list.cursor
+	plain := sel // the selected row is one style, so cells stay unstyled
+	style := func(s string, styleOf func() string) string {
+		if plain {
+			return s
+		}
+		return styleOf()
+	}
+	cur := " "
+	if sel {
+		cur = "▸"
+	}
+	mark := " "
+	if m.marks.has(r.Part.ID) {
+		mark = "●"
+	}
+	if !plain && mark != " " {
+		mark = st.Mark.Render(mark)
+	}
+
+	margin, binding := m.marginCells(r)
+	marginCell := style(margin, func() string {
+		if r.Pass {
+			return margin
+		}
+		return st.Fail.Render(margin)
+	})
+	barCell := bar(r.WorstMargin, barCells)
+	if !r.Pass {
+		barCell = bar(-1, barCells)
+	}
+	barCell = style(barCell, func() string {
+		if r.Pass {
+			return st.Pass.Render(barCell)
+		}
+		return st.Fail.Render(barCell)
+	})
+	fm := r.MinFMax()
+	fmax := "—"
+	if !math.IsNaN(fm) {
+		fmax = catalog.Format(fm, catalog.Hertz) + basisMark(fmaxBasis(r))
+	}
+	cells := []string{
+		cur + mark,
+		fmt.Sprint(i + 1),
+		r.Part.ID,
+		r.Part.Name,
+		string(r.Part.Tech),
+		fmt.Sprint(r.Part.Channels),
+		marginCell,
+		barCell,
+		style(binding, func() string {
+			if r.Pass {
+				return binding
+			}
+			return st.Fail.Render(binding)
+		}),
+		fmax,
+		costText(r),
+	}
+	line := fit(row(cols, widths, cells), w)
+	if sel {
+		return st.Selected.Render(line)
+	}
+	return line
+}
+
+// marginCells are a result's margin (with its basis marker) and binding
+// cells. For a failing part they name the worst failing check, by how far
+// it misses, and how many more fail.
+func (m *Model) marginCells(r *filter.Result) (margin, binding string) {
+	if r.Pass {
+		c := bindingCheck(r)
+		mk := ""
+		if c != nil {
+			mk = basisMark(c.Basis)
+		}
+		if math.IsNaN(r.WorstMargin) {
+			return "—", ""
+		}
+		return marginText(r.WorstMargin) + mk, checkName(r.Binding.Stage, r.Binding.Key)
+	}
+	fails := r.Failing()
+	var worst *filter.Check
+	for _, c := range fails {
+		switch {
+		case worst == nil:
+			worst = c
+		case c.HasMargin() && (!worst.HasMargin() || c.Margin < worst.Margin):
+			worst = c
+		}
+	}
+	if worst == nil { // strict: failing on unknown figures only
+		return "—", fmt.Sprintf("? %d unknown", r.Unknown)
+	}
+	binding = "✗ " + checkName(worst.Req.Stage, worst.Req.Key)
+	if len(fails) > 1 {
+		binding += fmt.Sprintf(" +%d", len(fails)-1)
+	}
+	if !worst.HasMargin() {
+		return "✗", binding
+	}
+	return marginText(worst.Margin) + basisMark(worst.Basis), binding
+}

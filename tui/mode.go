@@ -1,0 +1,34 @@
+package tui
+
+// mode says what has the keyboard. Each mode has its own update function
+// (update_<mode> in its file) and may draw over the main screen; a new
+// mode (a replacement finder, say) is a new constant, a case in
+// Model.updateKey and its own file.
+type mode int
+
+const (
+	modeBrowse mode = iota // moving around, single-key commands
+	modeEdit               // a design field's text input has the keyboard
+	modeFind               // typing the text filter
+	modePrompt             // a path/format prompt (export, save) or a yes/no
+	modeHelp               // the full key-help overlay
+)
+
+// pane names a focusable area of the main screen, in tab order.
+type pane int
+
+const (
+	paneDesign pane = iota
+	paneList
+	paneDetail
+	paneCount // number of panes; keep last
+)
+
+// detail says what the right-hand detail area shows for the selected
+// candidate. Later panes (a waveform preview) add a constant and a case in
+// Model.detailView.
+type detail int
+
+const (
+	detailChecks detail = iota // the selected part's checks, per stage
+)

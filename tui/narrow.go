@@ -1,0 +1,107 @@
+package tui
+
+import (
+	"slices"
+	"strings"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
+)
+
+// narrowing is what the user has asked the candidate list to show. None of
+// it changes the evaluation: it picks and orders rows of the results.
+type narrowing struct {
+	failing   bool   // show failing parts after the passing ones
+	shortlist bool   // show only the marked parts (failing or not)
+	sortIdx   int    // index into filter.SortKeys()
+	find      string // text filter on id, name and notes, as typed
+	tech      string // quick filter; "" any
+	pkg       string // quick filter; "" any
+}
+
+// sortKey is the sort key in force.
+func (n *narrowing) sortKey() filter.SortKey { return filter.SortKeys()[n.sortIdx] }
+
+// cycleSort moves to the next sort key.
+func (n *narrowing) cycleSort() { n.sortIdx = (n.sortIdx + 1) % len(filter.SortKeys()) }
+
+// cycle returns the value after cur in values, going "" → first → … → last → "".
+func cycle(cur string, values []string) string {
+	i := slices.Index(values, cur)
+	if i+1 >= len(values) {
+		return ""
+	}
+	return values[i+1]
+}
+
+// keepValid drops a quick filter whose value a reloaded catalog no longer has.
+func (n *narrowing) keepValid(techs, pkgs []string) {
+	if n.tech != "" && !slices.Contains(techs, n.tech) {
+		n.tech = ""
+	}
+	if n.pkg != "" && !slices.Contains(pkgs, n.pkg) {
+		n.pkg = ""
+	}
+}
+
+// active reports whether anything beyond the default view is asked for.
+func (n *narrowing) active() bool {
+	return n.shortlist || n.find != "" || n.tech != "" || n.pkg != ""
+}
+
+// clear drops the text and quick filters and the shortlist view.
+func (n *narrowing) clear() { n.shortlist, n.find, n.tech, n.pkg = false, "", "", "" }
+
+// catalogValues lists the technologies and packages present in parts, sorted.
+func catalogValues(parts []*catalog.Part) (techs, pkgs []string) {
+	ts, ps := map[string]bool{}, map[string]bool{}
+	for _, p := range parts {
+		if p.Tech != "" {
+			ts[string(p.Tech)] = true
+		}
+		for _, k := range p.Packages {
+			ps[k] = true
+		}
+	}
+	for t := range ts {
+		techs = append(techs, t)
+	}
+	for k := range ps {
+		pkgs = append(pkgs, k)
+	}
+	slices.Sort(techs)
+	slices.Sort(pkgs)
+	return techs, pkgs
+}
+
+// searchText is what the text filter matches a part against, lower-cased.
+func searchText(p *catalog.Part) string {
+	return strings.ToLower(p.ID + "\x00" + p.Name + "\x00" + p.Notes)
+}
+
+// applyNarrowing rebuilds the list's rows from the results and keeps the
+// selection on the same part (by id) when it is still shown.
+func (m *Model) applyNarrowing() {
+	n := &m.narrow
+	find := strings.ToLower(strings.TrimSpace(n.find))
+	rows := m.list.view[:0]
+	for i := range m.results {
+		r := &m.results[i]
+		p := r.Part
+		switch {
+		case n.shortlist && !m.marks.has(p.ID):
+			continue
+		case !n.shortlist && !n.failing && !r.Pass:
+			continue
+		case n.tech != "" && string(p.Tech) != n.tech:
+			continue
+		case n.pkg != "" && !p.HasPackage(n.pkg):
+			continue
+		case find != "" && !strings.Contains(m.search[p], find):
+			continue
+		}
+		rows = append(rows, i)
+	}
+	m.list.view = rows
+	m.list.reselect(m.results, m.listRows())
+}

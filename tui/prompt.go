@@ -1,0 +1,179 @@
+package tui
+
+import (
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	"github.com/charmbracelet/bubbles/textinput"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/opsift/opsift/filter/report"
+)
+
+// promptKind says what a prompt's path is for.
+type promptKind int
+
+const (
+	promptExport promptKind = iota // the shortlist, in one of exportFormats
+	promptSave                     // the edited design, as design TOML
+)
+
+// exportFormats are the formats a shortlist can be exported in: those of
+// opsift rank except the terminal table.
+func exportFormats() []report.Format {
+	return []report.Format{report.Markdown, report.CSV, report.JSON, report.TOML}
+}
+
+// prompt asks for a path (and for an export, a format) on the bottom two
+// lines, then for a yes/no before it overwrites an existing file.
+type prompt struct {
+	kind    promptKind
+	input   textinput.Model
+	format  report.Format
+	confirm bool // waiting for y/n: the file exists
+}
+
+// openPrompt starts a prompt of kind with the path suggested.
+func (m *Model) openPrompt(kind promptKind, suggest string) tea.Cmd {
+	in := newInput(m.ui, suggest, 512)
+	m.prompt = prompt{kind: kind, input: in, format: report.Markdown}
+	if kind == promptExport {
+		m.prompt.format = formatOf(suggest, report.Markdown)
+	}
+	m.mode = modePrompt
+	return m.prompt.input.Focus()
+}
+
+// formatOf is the export format a path's extension names, else def.
+func formatOf(path string, def report.Format) report.Format {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".md", ".markdown":
+		return report.Markdown
+	case ".csv":
+		return report.CSV
+	case ".json":
+		return report.JSON
+	case ".toml":
+		return report.TOML
+	}
+	return def
+}
+
+// withExt replaces a path's extension by the format's.
+func withExt(path string, f report.Format) string {
+	ext := filepath.Ext(path)
+	if formatOf(path, "") == "" {
+		ext = ""
+	}
+	return strings.TrimSuffix(path, ext) + "." + string(f)
+}
+
+// updatePrompt handles a key while a prompt is open.
+func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
+	p := &m.prompt
+	keys := &m.ui.keys
+	if p.confirm {
+		switch k.String() {
+		case "y", "Y":
+			p.confirm = false
+			return m.finishPrompt(true)
+		case "n", "N", "esc":
+			p.confirm = false // back to the path
+		}
+		return nil
+	}
+	switch {
+	case key.Matches(k, keys.Cancel):
+		m.mode = modeBrowse
+		m.setMessage("nothing written")
+		return nil
+	case key.Matches(k, keys.Accept):
+		return m.finishPrompt(false)
+	case k.String() == "tab" && p.kind == promptExport:
+		fs := exportFormats()
+		p.format = fs[(slices.Index(fs, p.format)+1)%len(fs)]
+		if v := strings.TrimSpace(p.input.Value()); v != "" {
+			p.input.SetValue(withExt(v, p.format))
+			p.input.CursorEnd()
+		}
+		return nil
+	}
+	var cmd tea.Cmd
+	p.input, cmd = p.input.Update(k)
+	if p.kind == promptExport {
+		p.format = formatOf(p.input.Value(), p.format)
+	}
+	return cmd
+}
+
+// finishPrompt writes the file, asking first when it exists (unless
+// overwrite is already confirmed).
+func (m *Model) finishPrompt(overwrite bool) tea.Cmd {
+	p := &m.prompt
+	path := strings.TrimSpace(p.input.Value())
+	if path == "" {
+		m.setMessage("give a file name, or esc to cancel")
+		return nil
+	}
+	if strings.HasPrefix(path, "~/") {
+		if home, err := os.UserHomeDir(); err == nil {
+			path = filepath.Join(home, path[2:])
+		}
+	}
+	if st, err := os.Stat(path); err == nil && !overwrite {
+		if st.IsDir() {
+			m.setMessage("%s is a directory: give a file name", path)
+			return nil
+		}
+		p.confirm = true
+		return nil
+	}
+	var err error
+	switch p.kind {
+	case promptExport:
+		err = m.exportShortlist(path, p.format)
+	case promptSave:
+		err = m.saveDesign(path)
+	}
+	if err != nil {
+		m.setError(err)
+		return nil // the prompt stays open to try another path
+	}
+	m.mode = modeBrowse
+	return nil
+}
+
+// promptView draws an open prompt on the two bottom lines.
+func (m *Model) promptView(w int) (line1, line2 string) {
+	p := &m.prompt
+	st := &m.ui.st
+	path := strings.TrimSpace(p.input.Value())
+	if p.confirm {
+		q := path + " exists: overwrite it?"
+		if p.kind == promptSave {
+			q = path + " exists: overwrite it? (comments in it are not kept)"
+		}
+		return fit(st.Prompt.Render(q)+" y/n", w), fit(st.HelpKey.Render("y")+" overwrite  "+st.HelpKey.Render("n")+" back", w)
+	}
+	label := "save design to "
+	hint := st.HelpKey.Render("enter") + " save  " + st.HelpKey.Render("esc") + " cancel"
+	if p.kind == promptExport {
+		label = "export " + plural(m.marks.len(), "marked part") + " as " + string(p.format) + " to "
+		hint = st.HelpKey.Render("enter") + " write  " + st.HelpKey.Render("tab") + " format (md csv json toml)  " +
+			st.HelpKey.Render("esc") + " cancel"
+	}
+	p.input.Width = max(10, w-len([]rune(label))-2)
+	return fit(st.Prompt.Render(label)+p.input.View(), w), fit(hint, w)
+}
+
+// plural is "1 part" or "3 parts".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return strconv.Itoa(n) + " " + noun + "s"
+}

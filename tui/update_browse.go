@@ -1,0 +1,152 @@
+package tui
+
+import (
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// updateBrowse handles a key while nothing has the keyboard: moving, and
+// the single-key commands.
+func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
+	keys := &m.ui.keys
+	switch {
+	case key.Matches(k, keys.Quit):
+		m.quitting = true
+		return tea.Quit
+	case key.Matches(k, keys.Help):
+		m.mode = modeHelp
+	case key.Matches(k, keys.Focus):
+		m.focus = (m.focus + 1) % paneCount
+	case key.Matches(k, keys.FocusBack):
+		m.focus = (m.focus + paneCount - 1) % paneCount
+	case key.Matches(k, keys.Up):
+		m.moveFocused(-1)
+	case key.Matches(k, keys.Down):
+		m.moveFocused(1)
+	case key.Matches(k, keys.PageUp):
+		m.moveFocused(-m.pageRows())
+	case key.Matches(k, keys.PageDn):
+		m.moveFocused(m.pageRows())
+	case key.Matches(k, keys.Top):
+		m.moveFocused(-1 << 30)
+	case key.Matches(k, keys.Bottom):
+		m.moveFocused(1 << 30)
+	case key.Matches(k, keys.Edit) && m.focus == paneDesign:
+		return m.startEdit()
+	case key.Matches(k, keys.Edit) && m.focus == paneList:
+		m.focus = paneDetail
+	case key.Matches(k, keys.Failing):
+		m.narrow.failing = !m.narrow.failing
+		m.applyNarrowing()
+		if m.narrow.failing {
+			m.setMessage("showing failing parts too, after the passing ones, with what they miss")
+		} else {
+			m.setMessage("showing passing parts only")
+		}
+	case key.Matches(k, keys.Sort):
+		m.narrow.cycleSort()
+		m.setMessage("sorted by %s", m.narrow.sortKey())
+		return m.rerank()
+	case key.Matches(k, keys.Find):
+		return m.startFind()
+	case key.Matches(k, keys.Tech):
+		m.narrow.tech = cycle(m.narrow.tech, m.techs)
+		m.applyNarrowing()
+		m.setMessage("technology: %s", orAny(m.narrow.tech))
+	case key.Matches(k, keys.Package):
+		m.narrow.pkg = cycle(m.narrow.pkg, m.pkgs)
+		m.applyNarrowing()
+		m.setMessage("package: %s", orAny(m.narrow.pkg))
+	case key.Matches(k, keys.Clear), key.Matches(k, keys.Cancel) && m.narrow.active():
+		m.narrow.clear()
+		m.applyNarrowing()
+		m.setMessage("filters cleared")
+	case key.Matches(k, keys.Mark):
+		m.toggleMark()
+	case key.Matches(k, keys.Shortlist):
+		m.narrow.shortlist = !m.narrow.shortlist
+		m.applyNarrowing()
+		if m.narrow.shortlist {
+			m.focus = paneList
+		}
+	case key.Matches(k, keys.Export):
+		if m.marks.len() == 0 {
+			m.setMessage("mark parts with space first; x exports the marked ones")
+			return nil
+		}
+		return m.openPrompt(promptExport, "shortlist.md")
+	case key.Matches(k, keys.Save):
+		path := m.cfg.DesignFile
+		if path == "" {
+			path = "design.toml"
+		}
+		return m.openPrompt(promptSave, path)
+	case key.Matches(k, keys.Reload):
+		return m.reload("reloaded")
+	case key.Matches(k, keys.Open):
+		return m.openEditor()
+	}
+	return nil
+}
+
+// orAny is v, or "any" when empty.
+func orAny(v string) string {
+	if v == "" {
+		return "any"
+	}
+	return v
+}
+
+// moveFocused moves the cursor of the focused pane by n.
+func (m *Model) moveFocused(n int) {
+	switch m.focus {
+	case paneDesign:
+		m.form.move(n)
+	case paneList:
+		m.list.move(n, m.results, m.listRows())
+	case paneDetail:
+		m.checks.offset = max(0, m.checks.offset+max(-1<<20, min(1<<20, n)))
+	}
+}
+
+// toggleMark marks or unmarks the selected candidate.
+func (m *Model) toggleMark() {
+	r := m.list.selected(m.results)
+	if r == nil {
+		m.setMessage("no candidate selected")
+		return
+	}
+	if m.marks.toggle(r.Part.ID) {
+		m.setMessage("marked %s (%s on the shortlist; x exports)", r.Part.ID, plural(m.marks.len(), "part"))
+	} else {
+		m.setMessage("unmarked %s (%s on the shortlist)", r.Part.ID, plural(m.marks.len(), "part"))
+	}
+	if m.narrow.shortlist {
+		m.applyNarrowing()
+	}
+}
+
+// listRows is how many candidate rows fit on screen.
+func (m *Model) listRows() int { return max(1, m.ui.layout().list.h-2) }
+
+// pageRows is how far page up/down move in the focused pane.
+func (m *Model) pageRows() int {
+	l := m.ui.layout()
+	switch m.focus {
+	case paneDesign:
+		return max(1, l.design.h/2)
+	case paneDetail:
+		return max(1, l.detail.h-3)
+	}
+	return m.listRows()
+}
+
+// updateHelp closes the help overlay on any key but ctrl+c, which quits.
+func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
+	if k.String() == "ctrl+c" {
+		m.quitting = true
+		return tea.Quit
+	}
+	m.mode = modeBrowse
+	return nil
+}

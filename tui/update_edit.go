@@ -1,0 +1,154 @@
+package tui
+
+import (
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/opsift/opsift/filter"
+)
+
+// startEdit gives the field under the design pane's cursor the keyboard.
+func (m *Model) startEdit() tea.Cmd {
+	f, ok := m.form.current()
+	if !ok {
+		return nil
+	}
+	m.mode = modeEdit
+	m.form.editing = true
+	m.form.before = f.Raw
+	m.form.editErr = ""
+	m.form.follow = true
+	m.form.input.SetValue(f.Raw)
+	m.form.input.CursorEnd()
+	help := f.Help
+	if f.Default != "" {
+		help += " (empty: " + f.Default + ")"
+	}
+	if len(f.Choices) > 0 {
+		help += "; one of: " + joinChoices(f.Choices)
+	}
+	m.setMessage("%s: %s", f.Label, help)
+	return m.form.input.Focus()
+}
+
+// updateEdit handles a key while a design field is being edited. Every
+// change of the text is applied at once; moving away or enter ends the
+// edit, esc puts back the text the field had before.
+func (m *Model) updateEdit(k tea.KeyMsg) tea.Cmd {
+	keys := &m.ui.keys
+	switch {
+	case k.String() == "ctrl+c":
+		m.quitting = true
+		return tea.Quit
+	case key.Matches(k, keys.Cancel):
+		cmd := m.applyField(m.form.path(), m.form.before)
+		m.endEdit()
+		return cmd
+	case key.Matches(k, keys.Accept):
+		m.endEdit()
+		return nil
+	case k.String() == "up", k.String() == "shift+tab":
+		m.endEdit()
+		m.form.move(-1)
+		return nil
+	case k.String() == "down", k.String() == "tab":
+		m.endEdit()
+		m.form.move(1)
+		return nil
+	}
+	old := m.form.input.Value()
+	var cmd tea.Cmd
+	m.form.input, cmd = m.form.input.Update(k)
+	if v := m.form.input.Value(); v != old {
+		return tea.Batch(cmd, m.applyField(m.form.path(), v))
+	}
+	return cmd
+}
+
+// endEdit leaves the field. Text that is not in force (it did not parse or
+// derive) is dropped: the field shows the value in force again.
+func (m *Model) endEdit() {
+	if m.form.editErr != "" {
+		f, _ := m.form.current()
+		shown := f.Raw
+		if shown == "" {
+			shown = "(" + f.Default + ")"
+		}
+		m.setMessage("%s: kept %s; %q was not accepted", f.Label, shown, m.form.input.Value())
+	}
+	m.form.editing = false
+	m.form.editErr = ""
+	m.form.input.Blur()
+	m.mode = modeBrowse
+}
+
+// applyField sets the design input at path to raw on a clone of the design
+// in force. When it parses and the design still derives, the clone is put
+// in force and re-ranked; otherwise the error shows inline and the last
+// valid value stays in force.
+func (m *Model) applyField(path, raw string) tea.Cmd {
+	c := m.design.Clone()
+	if err := c.Set(path, raw); err != nil {
+		m.form.editErr = cleanFieldErr(err, c.Name)
+		return nil
+	}
+	plan, err := filter.Derive(c)
+	if err != nil {
+		m.form.editErr = cleanFieldErr(err, c.Name)
+		return nil
+	}
+	m.form.editErr = ""
+	m.design, m.plan, m.planErr = c, plan, nil
+	m.form.refresh(c)
+	return m.rerank()
+}
+
+// joinChoices lists choices for a help line.
+func joinChoices(cs []string) string {
+	s := ""
+	for i, c := range cs {
+		if i > 0 {
+			s += ", "
+		}
+		s += c
+	}
+	return s
+}
+
+// startFind opens the text filter on the status line.
+func (m *Model) startFind() tea.Cmd {
+	m.mode = modeFind
+	m.form.input.Blur()
+	in := &m.prompt.input
+	*in = newFindInput(m.ui, m.narrow.find)
+	return in.Focus()
+}
+
+// updateFind handles a key while the text filter is being typed: the list
+// narrows with every key; enter keeps the filter, esc drops it.
+func (m *Model) updateFind(k tea.KeyMsg) tea.Cmd {
+	switch k.String() {
+	case "ctrl+c":
+		m.quitting = true
+		return tea.Quit
+	case "esc":
+		m.narrow.find = ""
+		m.mode = modeBrowse
+		m.applyNarrowing()
+		return nil
+	case "enter":
+		m.mode = modeBrowse
+		m.focus = paneList
+		return nil
+	case "up", "down":
+		m.list.move(map[string]int{"up": -1, "down": 1}[k.String()], m.results, m.listRows())
+		return nil
+	}
+	var cmd tea.Cmd
+	m.prompt.input, cmd = m.prompt.input.Update(k)
+	if v := m.prompt.input.Value(); v != m.narrow.find {
+		m.narrow.find = v
+		m.applyNarrowing()
+	}
+	return cmd
+}
