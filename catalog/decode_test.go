@@ -237,11 +237,11 @@ func TestEditDistance(t *testing.T) {
 	tests := []struct {
 		a, b string
 		want int
-	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"flaw", "lawn", 2}, {"same", "same", 0},
+	}{{"kitten", "sitting", 3}, {"", "abc", 3}, {"flaw", "lawn", 2}, {"same", "same", 0}, {"µa", "ua", 1},
 		{"tpy", "typ", 1}, {"ca", "abc", 3}}
 	for _, tc := range tests {
 		t.Run(tc.a+"/"+tc.b, func(t *testing.T) {
-			if d := editDistance(tc.a, tc.b); d != tc.want {
+			if d := EditDistance(tc.a, tc.b); d != tc.want {
 				t.Errorf("got %d, want %d", d, tc.want)
 			}
 		})

@@ -87,7 +87,7 @@ func suggest(got string, known []string) string {
 	limit := max(1, len(g)/3)
 	best, bestD := "", limit+1
 	for _, k := range known {
-		if d := editDistance(g, k); d < bestD {
+		if d := EditDistance(g, k); d < bestD {
 			best, bestD = k, d
 		}
 	}
@@ -106,10 +106,11 @@ func suggest(got string, known []string) string {
 	return best
 }
 
-// editDistance is the optimal-string-alignment distance between a and b,
-// in bytes: insertions, deletions, substitutions and swaps of two
+// EditDistance is the optimal-string-alignment distance between sa and sb,
+// in runes: insertions, deletions, substitutions and swaps of two
 // neighbouring letters each count 1, so "tpy" is one edit from "typ".
-func editDistance(a, b string) int {
+func EditDistance(sa, sb string) int {
+	a, b := []rune(sa), []rune(sb)
 	// d[i][j] is the distance between a[:i] and b[:j], kept in three rows.
 	prev2 := make([]int, len(b)+1)
 	prev := make([]int, len(b)+1)

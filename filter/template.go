@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+
+	"github.com/opsift/opsift/catalog"
 )
 
 // Template is a stage kind: the inputs it takes and how it turns them into
@@ -164,7 +166,7 @@ func nearest(s string, candidates []string) string {
 	sorted := append([]string(nil), candidates...)
 	sort.Strings(sorted)
 	for _, c := range sorted {
-		if d := editDistance(s, c); d < bestD {
+		if d := catalog.EditDistance(s, c); d < bestD {
 			best, bestD = c, d
 		}
 	}
@@ -172,26 +174,4 @@ func nearest(s string, candidates []string) string {
 		return best
 	}
 	return ""
-}
-
-// editDistance is the Levenshtein distance between a and b.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }

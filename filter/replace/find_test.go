@@ -268,24 +268,6 @@ func TestLookup(t *testing.T) {
 	}
 }
 
-// TestEditDistance against hand-worked Levenshtein distances (the classic
-// kitten → sitting = 3 example; Levenshtein 1966, from memory).
-func TestEditDistance(t *testing.T) {
-	tests := []struct {
-		a, b string
-		want int
-	}{
-		{"kitten", "sitting", 3}, {"", "abc", 3}, {"abc", "abc", 0}, {"flaw", "lawn", 2}, {"µa", "ua", 1},
-	}
-	for _, tt := range tests {
-		t.Run(tt.a+"-"+tt.b, func(t *testing.T) {
-			if got := editDistance(tt.a, tt.b); got != tt.want {
-				t.Errorf("editDistance(%q, %q) = %d, want %d", tt.a, tt.b, got, tt.want)
-			}
-		})
-	}
-}
-
 // TestSameWorstRegressionBySize: two candidates whose worst regression is
 // the same figure are ordered by how far they fall short — a 16 V
 // maximum supply before a 5.5 V one, against 32 V — even when the smaller

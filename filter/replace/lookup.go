@@ -63,7 +63,7 @@ func suggest(id string, parts []*catalog.Part) []string {
 			continue
 		}
 		got := strings.ToLower(p.ID)
-		d := editDistance(want, got)
+		d := catalog.EditDistance(want, got)
 		if d > limit && want != "" && (strings.Contains(got, want) || strings.Contains(want, got)) {
 			d = limit // a substring match is as good as the furthest near miss
 		}
@@ -85,27 +85,4 @@ func suggest(id string, parts []*catalog.Part) []string {
 		out = append(out, h.id)
 	}
 	return out
-}
-
-// editDistance is the Levenshtein distance between a and b, in runes
-// (insertions, deletions and substitutions each cost 1).
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }
