@@ -2,7 +2,6 @@ package main
 
 import (
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"strings"
@@ -23,20 +22,10 @@ Options:
 
 func runCheck(e *env, args []string) error {
 	var catalogs pathList
-	fset := flag.NewFlagSet("check", flag.ContinueOnError)
-	fset.SetOutput(e.stderr)
-	fset.Var(&catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
-	fset.Usage = func() {
-		fmt.Fprint(fset.Output(), checkUsage)
-		fset.PrintDefaults()
-	}
-	if err := fset.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fset.SetOutput(e.stdout)
-			fset.Usage()
-			return nil
-		}
-		return &exitError{code: 2}
+	fset := newFlagSet(e, "check", checkUsage)
+	fset.Var(&catalogs, "catalog", catalogHelp)
+	if helped, err := parseFlags(e, fset, args); helped || err != nil {
+		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("check: unexpected argument %q; give catalogs with --catalog (see opsift check --help)", fset.Arg(0))

@@ -1,8 +1,6 @@
 package main
 
 import (
-	"errors"
-	"flag"
 	"fmt"
 	"io/fs"
 	"os"
@@ -23,21 +21,11 @@ Options:
 
 func runDerive(e *env, args []string) error {
 	var design, format string
-	fset := flag.NewFlagSet("derive", flag.ContinueOnError)
-	fset.SetOutput(e.stderr)
+	fset := newFlagSet(e, "derive", deriveUsage)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&format, "format", "text", "output format: text or json")
-	fset.Usage = func() {
-		fmt.Fprint(fset.Output(), deriveUsage)
-		fset.PrintDefaults()
-	}
-	if err := fset.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fset.SetOutput(e.stdout)
-			fset.Usage()
-			return nil
-		}
-		return &exitError{code: 2}
+	if helped, err := parseFlags(e, fset, args); helped || err != nil {
+		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("derive: unexpected argument %q (see opsift derive --help)", fset.Arg(0))

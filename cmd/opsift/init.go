@@ -2,7 +2,6 @@ package main
 
 import (
 	"errors"
-	"flag"
 	"fmt"
 	"io/fs"
 	"os"
@@ -22,16 +21,9 @@ written.
 `
 
 func runInit(e *env, args []string) error {
-	fset := flag.NewFlagSet("init", flag.ContinueOnError)
-	fset.SetOutput(e.stderr)
-	fset.Usage = func() { fmt.Fprint(fset.Output(), initUsage) }
-	if err := fset.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fset.SetOutput(e.stdout)
-			fset.Usage()
-			return nil
-		}
-		return &exitError{code: 2}
+	fset := newFlagSet(e, "init", initUsage)
+	if helped, err := parseFlags(e, fset, args); helped || err != nil {
+		return err
 	}
 	if fset.NArg() > 1 {
 		return usageError("init: want at most one directory, got %d arguments (see opsift init --help)", fset.NArg())

@@ -2,8 +2,6 @@ package main
 
 import (
 	"bytes"
-	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -42,9 +40,8 @@ type rankFlags struct {
 
 func runRank(e *env, args []string) error {
 	var f rankFlags
-	fset := flag.NewFlagSet("rank", flag.ContinueOnError)
-	fset.SetOutput(e.stderr)
-	fset.Var(&f.catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fset := newFlagSet(e, "rank", rankUsage)
+	fset.Var(&f.catalogs, "catalog", catalogHelp)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.format, "format", "table", "output format: table, csv, json, md or toml")
 	fset.BoolVar(&f.all, "all", false, "list failing parts too, after the passing ones")
@@ -52,17 +49,8 @@ func runRank(e *env, args []string) error {
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	fset.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
-	fset.Usage = func() {
-		fmt.Fprint(fset.Output(), rankUsage)
-		fset.PrintDefaults()
-	}
-	if err := fset.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fset.SetOutput(e.stdout)
-			fset.Usage()
-			return nil
-		}
-		return &exitError{code: 2}
+	if helped, err := parseFlags(e, fset, args); helped || err != nil {
+		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("rank: unexpected argument %q (see opsift rank --help)", fset.Arg(0))

@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -46,9 +45,8 @@ type replaceFlags struct {
 
 func runReplace(e *env, args []string) error {
 	var f replaceFlags
-	fs := flag.NewFlagSet("replace", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
-	fs.Var(&f.catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fs := newFlagSet(e, "replace", replaceUsage)
+	fs.Var(&f.catalogs, "catalog", catalogHelp)
 	fs.StringVar(&f.design, "design", "", "design TOML: evaluate every candidate in this circuit")
 	fs.StringVar(&f.format, "format", "table", "output format: "+strings.Join(replaceFormats, ", "))
 	fs.BoolVar(&f.all, "all", false, "with --design, list the candidates that fail the design too")
@@ -56,18 +54,9 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
 	fs.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
-	fs.Usage = func() {
-		fmt.Fprint(fs.Output(), replaceUsage)
-		fs.PrintDefaults()
-	}
 	pos, err := replaceParseArgs(fs, args)
-	if errors.Is(err, flag.ErrHelp) {
-		fs.SetOutput(e.stdout)
-		fs.Usage()
-		return nil
-	}
-	if err != nil {
-		return &exitError{code: 2} // the flag package already printed the problem
+	if helped, err := flagResult(e, fs, err); helped || err != nil {
+		return err
 	}
 	switch {
 	case len(pos) == 0:

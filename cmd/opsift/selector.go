@@ -1,8 +1,6 @@
 package main
 
 import (
-	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"log"
@@ -34,22 +32,12 @@ func runSelector(e *env, args []string) error {
 		design   string
 		strict   bool
 	)
-	fset := flag.NewFlagSet("opsift", flag.ContinueOnError)
-	fset.SetOutput(e.stderr)
-	fset.Var(&catalogs, "catalog", "catalog file or directory of *.toml (repeatable; later overrides earlier by id)")
+	fset := newFlagSet(e, "opsift", selectorUsage)
+	fset.Var(&catalogs, "catalog", catalogHelp)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
-	fset.Usage = func() {
-		fmt.Fprint(fset.Output(), selectorUsage)
-		fset.PrintDefaults()
-	}
-	if err := fset.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			fset.SetOutput(e.stdout)
-			fset.Usage()
-			return nil
-		}
-		return &exitError{code: 2}
+	if helped, err := parseFlags(e, fset, args); helped || err != nil {
+		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("unexpected argument %q (see opsift --help)", fset.Arg(0))
