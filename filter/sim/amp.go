@@ -64,9 +64,9 @@ func (a Amp) params() (ampParams, error) {
 	case !fin(a.SlewFall) || a.SlewFall < 0:
 		return ampParams{}, bad("slew_fall", a.SlewFall, "a rate of 0 V/s (same as slew_rise) or more")
 	case !fin(a.VOL) || !fin(a.VOH) || a.VOH <= a.VOL:
-		return ampParams{}, fmt.Errorf("sim: amp: swing %g V … %g V, want vol below voh", a.VOL, a.VOH)
+		return ampParams{}, fmt.Errorf("sim: amp: swing %.4g V … %.4g V, want vol below voh", a.VOL, a.VOH)
 	case !fin(a.CMLow) || !fin(a.CMHigh) || a.CMHigh < a.CMLow:
-		return ampParams{}, fmt.Errorf("sim: amp: common-mode range %g V … %g V, want low ≤ high", a.CMLow, a.CMHigh)
+		return ampParams{}, fmt.Errorf("sim: amp: common-mode range %.4g V … %.4g V, want low ≤ high", a.CMLow, a.CMHigh)
 	}
 	fall := a.SlewFall
 	if fall == 0 {

@@ -78,7 +78,7 @@ func measureDriven(st *stage, ap *ampParams, r *runner, ideal []float64, in Inpu
 		}
 		if railTicks > 0 {
 			m.Clipped = true
-			m.Notes = append(m.Notes, fmt.Sprintf("output held at the swing limit (%g V … %g V) for %.1f %% of the time",
+			m.Notes = append(m.Notes, fmt.Sprintf("output held at the swing limit (%.4g V … %.4g V) for %.1f %% of the time",
 				ap.vol, ap.voh, 100*float64(railTicks)*r.tick/(win.t1-win.t0)))
 		}
 	}

@@ -1,0 +1,166 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// previewResult is what one run of opsift preview printed and returned.
+type previewResult struct {
+	stdout, stderr string
+	code           int
+}
+
+// previewRun runs opsift with args: no user catalog directory (the demo
+// catalog applies), no COLUMNS unless vars sets it.
+func previewRun(t *testing.T, vars map[string]string, args ...string) previewResult {
+	t.Helper()
+	home := t.TempDir()
+	var out, errb bytes.Buffer
+	e := &env{
+		stdin: strings.NewReader(""), stdout: &out, stderr: &errb,
+		getenv: func(k string) string {
+			if k == "XDG_CONFIG_HOME" || k == "HOME" {
+				return home
+			}
+			return vars[k]
+		},
+	}
+	code := exitCode(run(args, e), &errb)
+	return previewResult{out.String(), errb.String(), code}
+}
+
+// previewGolden compares got with testdata/name, rewriting it under -update.
+func previewGolden(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if got != string(want) {
+		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
+	}
+}
+
+const previewMixed = "../../data/designs/mixed-templates.toml"
+
+func TestPreviewGolden(t *testing.T) {
+	tests := []struct {
+		name string
+		vars map[string]string
+		args []string
+	}{
+		{"preview_gain_text", nil, []string{"gp4-bip", "--stage", "gain", "--height", "12"}},
+		{"preview_default_text", map[string]string{"COLUMNS": "60"}, []string{"rr4-cmos", "--height", "8"}},
+		{"preview_typical_text", nil, []string{"gp4-bip", "--stage", "gain", "--typical", "--width", "60", "--height", "8"}},
+		{"preview_clock_text", nil, []string{"gp4-bip", "--design", previewMixed, "--stage", "clock", "--height", "10"}},
+		{"preview_detect_text", nil, []string{"--design", previewMixed, "rr4-cmos", "--stage", "detect", "--height", "10"}},
+		{"preview_json", nil, []string{"gp4-bip", "--stage", "gain", "--format", "json", "--points", "6"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			r := previewRun(t, tc.vars, append([]string{"preview"}, tc.args...)...)
+			if r.code != 0 {
+				t.Fatalf("exit %d, stderr %q", r.code, r.stderr)
+			}
+			previewGolden(t, tc.name+".golden", r.stdout)
+		})
+	}
+}
+
+// TestPreviewJSONFields pins the contract's field names and SI values: the
+// demo gain stage is 10 Vpp at 20 kHz, so ideal_pp is 10 (V) and the
+// arrays cover whole periods of 50 µs.
+func TestPreviewJSONFields(t *testing.T) {
+	r := previewRun(t, nil, "preview", "gp4-bip", "--stage", "gain", "--format", "json")
+	if r.code != 0 {
+		t.Fatalf("exit %d: %s", r.code, r.stderr)
+	}
+	var got map[string]any
+	if err := json.Unmarshal([]byte(r.stdout), &got); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"part", "stage", "metrics", "t", "in", "out", "ideal", "basis", "notes"} {
+		if _, ok := got[k]; !ok {
+			t.Errorf("JSON lacks %q", k)
+		}
+	}
+	m := got["metrics"].(map[string]any)
+	for _, k := range []string{"output_pp", "ideal_pp", "peak_error", "thd", "slewing_fraction"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("metrics lack %q", k)
+		}
+	}
+	for _, k := range []string{"frequency", "duty", "transition_time", "input_low", "cm_exceeded"} {
+		if _, ok := m[k]; ok {
+			t.Errorf("metrics have %q, which does not apply to an amplifier or is not in the contract", k)
+		}
+	}
+	if v := m["ideal_pp"].(float64); v < 9.99 || v > 10.01 {
+		t.Errorf("ideal_pp = %g, want 10 (V)", v)
+	}
+	ts := got["t"].([]any)
+	if n := len(ts); n < 100 || len(got["out"].([]any)) != n || len(got["ideal"].([]any)) != n || len(got["in"].([]any)) != n {
+		t.Errorf("arrays of %d samples, want equal lengths ≥ 100", n)
+	}
+	if span := ts[len(ts)-1].(float64); span < 240e-6 || span > 250e-6 {
+		t.Errorf("t ends at %g s, want just under 5 periods of 50 µs", span)
+	}
+	if got["basis"] != "worst_case" || got["part"] != "gp4-bip" || got["stage"] != "gain" {
+		t.Errorf("part %v, stage %v, basis %v", got["part"], got["stage"], got["basis"])
+	}
+}
+
+func TestPreviewErrors(t *testing.T) {
+	dir := t.TempDir()
+	broken := filepath.Join(dir, "broken.toml")
+	if err := os.WriteFile(broken, []byte("title = \"x\"\n[supply]\npos = \"5 V\"\n[[stage]]\nname = \"a\"\nkind = \"follower\"\nsignal = { peak = \"1 V\", freq = \"fast\" }\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"no part", nil, 2, "missing PART-ID"},
+		{"two parts", []string{"a", "b"}, 2, "one PART-ID expected"},
+		{"unknown part", []string{"gp4-bi"}, 2, `no part with id "gp4-bi" in the catalog; did you mean one of "gp4-bip"`},
+		{"unknown stage", []string{"gp4-bip", "--stage", "gian"}, 2, `--stage "gian": no such stage, want one of "buffer", "gain"`},
+		{"no waveform", []string{"gp4-bip", "--design", previewMixed, "--stage", "midrail"}, 2, "stage kind rail_splitter has no waveform preview"},
+		{"missing design", []string{"gp4-bip", "--design", filepath.Join(dir, "none.toml")}, 2, "none.toml: no such file"},
+		{"broken design", []string{"gp4-bip", "--design", broken}, 2, `broken.toml:7: stage "a": field "signal.freq": "fast"`},
+		{"bad format", []string{"gp4-bip", "--format", "xml"}, 2, "want text or json"},
+		{"bad width", []string{"gp4-bip", "--width", "3"}, 2, "want 20 columns or more"},
+		{"bad flag", []string{"gp4-bip", "--nope"}, 2, "flag provided but not defined"},
+		{"bad catalog", []string{"gp4-bip", "--catalog", filepath.Join(dir, "none")}, 2, "cannot read catalog"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			r := previewRun(t, nil, append([]string{"preview"}, tc.args...)...)
+			if r.code != tc.code || !strings.Contains(r.stderr, tc.want) {
+				t.Errorf("exit %d, stderr %q; want exit %d and %q", r.code, r.stderr, tc.code, tc.want)
+			}
+			if strings.Contains(r.stderr, "panic") || r.stdout != "" {
+				t.Errorf("stdout %q, stderr %q: want only an error", r.stdout, r.stderr)
+			}
+		})
+	}
+}
+
+func TestPreviewHelp(t *testing.T) {
+	r := previewRun(t, nil, "preview", "--help")
+	if r.code != 0 || !strings.Contains(r.stdout, "Usage: opsift preview PART-ID") {
+		t.Errorf("exit %d, stdout %q", r.code, r.stdout)
+	}
+}
