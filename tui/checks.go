@@ -184,6 +184,8 @@ func (m *Model) detailView(w, h int) []string {
 	switch m.detail {
 	case detailChecks:
 		return m.checksView(w, h)
+	case detailPreview:
+		return m.previewView(w, h)
 	}
 	return blank(w, h)
 }

@@ -25,6 +25,11 @@ type KeyMap struct {
 	Save           key.Binding // save the design
 	Reload         key.Binding
 	Open           key.Binding // open the part in $EDITOR
+	Replace        key.Binding // replacement mode for the selected part
+	Preview        key.Binding // detail area: checks or waveform preview
+	Compare        key.Binding // preview the two shortlisted parts together
+	StagePrev      key.Binding // preview: previous stage with a waveform
+	StageNext      key.Binding // preview: next stage with a waveform
 	Help           key.Binding
 	Quit           key.Binding
 }
@@ -58,6 +63,11 @@ func DefaultKeyMap() KeyMap {
 		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
 		Reload:    b([]string{"r"}, "r", "reload catalog"),
 		Open:      b([]string{"o"}, "o", "edit part file"),
+		Replace:   b([]string{"R"}, "R", "replace"),
+		Preview:   b([]string{"v"}, "v", "wave"),
+		Compare:   b([]string{"V"}, "V", "compare 2 marked"),
+		StagePrev: b([]string{"["}, "[", "previous stage"),
+		StageNext: b([]string{"]"}, "]", "next stage"),
 		Help:      b([]string{"?"}, "?", "keys"),
 		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
 	}
@@ -66,7 +76,7 @@ func DefaultKeyMap() KeyMap {
 // ShortHelp is the bottom line while browsing; "?" and "q" come early so
 // they stay visible at 80 columns.
 func (k KeyMap) ShortHelp() []key.Binding {
-	return []key.Binding{k.Focus, k.Edit, k.Mark, k.Failing, k.Export, k.Help, k.Quit, k.Sort, k.Find, k.Shortlist}
+	return []key.Binding{k.Focus, k.Edit, k.Mark, k.Failing, k.Export, k.Help, k.Quit, k.Replace, k.Preview, k.Sort, k.Find, k.Shortlist}
 }
 
 // FullHelp is the overlay: moving, narrowing, shortlist, keeping the work.
@@ -75,6 +85,7 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
 		{k.Mark, k.Shortlist, k.Export, k.Save, k.Reload, k.Open, k.Help, k.Quit},
+		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare},
 	}
 }
 

@@ -7,11 +7,12 @@ package tui
 type mode int
 
 const (
-	modeBrowse mode = iota // moving around, single-key commands
-	modeEdit               // a design field's text input has the keyboard
-	modeFind               // typing the text filter
-	modePrompt             // a path/format prompt (export, save) or a yes/no
-	modeHelp               // the full key-help overlay
+	modeBrowse  mode = iota // moving around, single-key commands
+	modeEdit                // a design field's text input has the keyboard
+	modeFind                // typing the text filter
+	modePrompt              // a path/format prompt (export, save) or a yes/no
+	modeHelp                // the full key-help overlay
+	modeReplace             // replacement finder for the selected part (replace_mode.go)
 )
 
 // pane names a focusable area of the main screen, in tab order.
@@ -30,5 +31,6 @@ const (
 type detail int
 
 const (
-	detailChecks detail = iota // the selected part's checks, per stage
+	detailChecks  detail = iota // the selected part's checks, per stage
+	detailPreview               // its waveform in a stage of the design (preview_detail.go)
 )

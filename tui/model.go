@@ -77,6 +77,8 @@ type Model struct {
 	narrow narrowing
 	marks  shortlist
 	prompt prompt
+	repl   replacer    // replacement mode (replace_mode.go)
+	prev   previewPane // waveform preview detail (preview_detail.go)
 	help   help.Model
 
 	message string // last message for the status line
@@ -142,11 +144,14 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.list.scrollTo(m.listRows())
 		return m, nil
 	case tea.KeyMsg:
-		return m, m.updateKey(msg)
+		return m, m.followPreview(m.updateKey(msg))
 	case tea.MouseMsg:
-		return m, m.updateMouse(msg)
+		return m, m.followPreview(m.updateMouse(msg))
 	case rankedMsg:
 		m.adoptRanking(msg)
+		return m, m.followPreview(nil)
+	case previewMsg:
+		m.adoptPreview(msg)
 		return m, nil
 	}
 	return m, m.updateJobs(msg)
@@ -163,6 +168,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updatePrompt(k)
 	case modeHelp:
 		return m.updateHelp(k)
+	case modeReplace:
+		return m.updateReplace(k)
 	}
 	return m.updateBrowse(k)
 }

@@ -41,8 +41,11 @@ func (m *Model) View() string {
 			body = append(body, left[i]+sep+right[i])
 		}
 	}
-	if m.mode == modeHelp {
+	switch m.mode {
+	case modeHelp:
 		body = m.helpOverlay(u.width, len(body))
+	case modeReplace:
+		body = m.replaceView(u.width, len(body))
 	}
 	lines = append(lines, body...)
 
@@ -98,6 +101,9 @@ func (m *Model) statusView(w int) string {
 
 // helpLine is the short key help of the current mode.
 func (m *Model) helpLine() string {
+	if m.mode == modeReplace {
+		return " " + m.help.ShortHelpView(replaceHelp{&m.ui.keys}.ShortHelp())
+	}
 	if m.mode == modeEdit {
 		return " " + m.help.ShortHelpView(editHelp{&m.ui.keys}.ShortHelp()) +
 			m.ui.st.Muted.Render("  · ↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us")

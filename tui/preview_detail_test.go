@@ -1,0 +1,210 @@
+package tui
+
+import (
+	"fmt"
+	"io/fs"
+	"math"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+
+	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
+)
+
+// openPreviewOn selects id (failing parts shown) and turns the preview on
+// with v, running the preview job as the program would.
+func openPreviewOn(t *testing.T, m *Model, id string) {
+	t.Helper()
+	press(t, m, "f")
+	selectID(t, m, id)
+	press(t, m, "v")
+	if m.detail != detailPreview {
+		t.Fatalf("v did not switch the detail area to the preview (message %q)", m.message)
+	}
+	if len(m.prev.res) == 0 || m.prev.err != nil {
+		t.Fatalf("no preview after v: err %v", m.prev.err)
+	}
+}
+
+// TestPreviewToggle: v shows the selected part's waveform with axes, units,
+// metrics and a legend naming the ideal and the output; v again goes back to
+// the checks.
+func TestPreviewToggle(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	top := m.list.selected(m.results).Part.ID
+	openPreviewOn(t, m, top)
+	r := m.prev.res[0]
+	if r.Part.ID != top || r.Stage != "buffer" {
+		t.Fatalf("preview of %s in %s, want %s in the first stage (buffer)", r.Part.ID, r.Stage, top)
+	}
+	screen := m.View()
+	for _, want := range []string{"PREVIEW · buffer (follower)", "┤", "└──", " V ┤", "µs", "out ", "ideal", "slewing", "THD", top + " output"} {
+		if !strings.Contains(screen, want) {
+			t.Errorf("preview lacks %q:\n%s", want, screen)
+		}
+	}
+	press(t, m, "v")
+	if m.detail != detailChecks || !strings.Contains(m.View(), "CHECKS · "+top) {
+		t.Errorf("second v did not go back to the checks pane")
+	}
+}
+
+// TestPreviewSlewLimited: in the demo's gain stage (10 Vpp at 20 kHz) the
+// obsolete bipolar quad, whose worst-case slew rate is below the
+// 2π·f·Vo = 0.628 V/µs the stage needs, turns the sine into a triangle no
+// taller than SR/(2f) — the fully slew-limited sine (Sedra & Smith,
+// Microelectronic Circuits, slew-rate limiting; from memory) — and the
+// pane says it is slewing.
+func TestPreviewSlewLimited(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	openPreviewOn(t, m, obsoleteQuad)
+	press(t, m, "]")
+	r := m.prev.res[0]
+	if r.Stage != "gain" {
+		t.Fatalf("] previews stage %q, want gain", r.Stage)
+	}
+	sr, f := r.Amp.SlewRise, 20e3
+	if sr >= 2*math.Pi*f*5 {
+		t.Fatalf("precondition: worst-case slew %g V/s is enough for 10 Vpp at 20 kHz", sr)
+	}
+	mt := r.Metrics
+	if limit := sr / (2 * f); mt.OutputPP > limit*1.01 {
+		t.Errorf("output %g Vpp, above the slew-limited triangle's SR/(2f) = %g Vpp", mt.OutputPP, limit)
+	}
+	if math.Abs(mt.IdealPP-10) > 0.05 {
+		t.Errorf("ideal %g Vpp, want 10 Vpp (gain 10 × 1 Vpp)", mt.IdealPP)
+	}
+	// At SR/(2π·f·Vo) ≈ 0.56 the output still meets the input briefly
+	// each half cycle, but slews for most of it.
+	if mt.SlewingFraction < 0.5 || mt.OutputPP >= mt.IdealPP {
+		t.Errorf("slewing fraction %g, output %g Vpp against %g: want slew-limited most of the time and short of the ideal", mt.SlewingFraction, mt.OutputPP, mt.IdealPP)
+	}
+	line := lineWith(t, m.View(), "out ", "pp (ideal 10 V)", "slewing")
+	if !strings.Contains(line, percent(mt.SlewingFraction)) {
+		t.Errorf("metrics line %q does not show the slewing fraction %s", line, percent(mt.SlewingFraction))
+	}
+	press(t, m, "[")
+	if m.prev.res[0].Stage != "buffer" {
+		t.Errorf("[ previews %q, want buffer again", m.prev.res[0].Stage)
+	}
+}
+
+// TestPreviewOscillator: in a relaxation stage the pane shows the
+// frequency against the ideal astable's. With β = R1/(R1+R2) = 1/3 and
+// swing symmetric about the reference, the ideal period is
+// 2RC·ln((1+β)/(1−β)) = 2RC·ln 2 (Horowitz & Hill, The Art of
+// Electronics, op-amp relaxation oscillator; from memory): 4.81 kHz for
+// 15 kΩ and 10 nF. The worst-case swing need not be quite symmetric, so
+// the check allows 10 %.
+func TestPreviewOscillator(t *testing.T) {
+	b, err := fs.ReadFile(data.Designs, "mixed-templates.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := filter.DecodeDesign("mixed-templates.toml", b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := New(Config{Design: d, Catalog: demoCatalog(t), Renderer: asciiRenderer()})
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	run(t, m, m.Init())
+	press(t, m, "f", "v")
+	for i := 0; i < 4 && (len(m.prev.res) == 0 || m.prev.res[0].Kind != "relaxation"); i++ {
+		press(t, m, "]")
+	}
+	if len(m.prev.res) == 0 || m.prev.res[0].Kind != "relaxation" {
+		t.Fatalf("no relaxation stage reached with ]: %v", m.prev.err)
+	}
+	mt := m.prev.res[0].Metrics
+	if mt.Frequency == nil || mt.IdealFrequency == nil {
+		t.Fatal("oscillator metrics without frequencies")
+	}
+	want := 1 / (2 * 15e3 * 10e-9 * math.Ln2)
+	if got := *mt.IdealFrequency; math.Abs(got/want-1) > 0.10 {
+		t.Errorf("ideal frequency %g Hz, want about %g Hz", got, want)
+	}
+	lineWith(t, m.View(), "f ", "Hz (ideal ", "Hz, ", "duty ")
+}
+
+// TestStalePreviewDropped: moving the cursor twice before the first
+// preview finishes must show the second part only; the first result,
+// arriving late, is dropped by its generation.
+func TestStalePreviewDropped(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	press(t, m, "f")
+	m.focus = paneList
+	openPreviewOn(t, m, m.list.selected(m.results).Part.ID)
+	_, first := m.Update(keyMsg("down"))
+	firstID := m.list.selected(m.results).Part.ID
+	_, second := m.Update(keyMsg("down"))
+	secondID := m.list.selected(m.results).Part.ID
+	if first == nil || second == nil || firstID == secondID {
+		t.Fatalf("moving the cursor started no preview jobs (%v, %v) or did not move", first, second)
+	}
+	newer := second()
+	older := first()
+	m.Update(newer)
+	m.Update(older) // arrives late
+	if got := m.prev.res[0].Part.ID; got != secondID {
+		t.Errorf("preview shows %s, want %s (the stale result for %s must be dropped)", got, secondID, firstID)
+	}
+	if strings.Contains(m.View(), "simulating…") {
+		t.Error("pane still says simulating after the newest result arrived")
+	}
+}
+
+// TestPreviewCompare: with exactly two parts marked, V plots both outputs
+// and the ideal in one plot, each part's metrics on its own line; with one
+// marked it says what it needs.
+func TestPreviewCompare(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	m.focus = paneList
+	press(t, m, "space", "V")
+	if m.prev.compare || !strings.Contains(m.message, "exactly two") {
+		t.Fatalf("V with one mark: compare %v, message %q", m.prev.compare, m.message)
+	}
+	press(t, m, "down", "space", "V")
+	if !m.prev.compare || len(m.prev.res) != 2 {
+		t.Fatalf("V with two marks: compare %v, %d results (err %v)", m.prev.compare, len(m.prev.res), m.prev.err)
+	}
+	a, b := m.prev.res[0].Part.ID, m.prev.res[1].Part.ID
+	screen := m.View()
+	lineWith(t, screen, a+" (line): out ")
+	lineWith(t, screen, b+" (×): out ")
+	lineWith(t, screen, "ideal", a+" output", "× ", b+" output")
+	if !strings.Contains(screen, a+" vs "+b) {
+		t.Errorf("heading does not name both parts")
+	}
+	press(t, m, "space") // unmark one: compare ends, the selection is previewed
+	if m.prev.compare || len(m.prev.res) != 1 {
+		t.Errorf("after unmarking: compare %v, %d results", m.prev.compare, len(m.prev.res))
+	}
+}
+
+// TestPreviewScreens: the preview fills the screen exactly at every size
+// and matches the golden screens at 120×40 and 80×24.
+func TestPreviewScreens(t *testing.T) {
+	for _, sz := range [][2]int{{120, 40}, {80, 24}, {100, 30}, {60, 16}, {200, 60}} {
+		t.Run(fmt.Sprintf("%dx%d", sz[0], sz[1]), func(t *testing.T) {
+			m := newDemo(t, sz[0], sz[1])
+			openPreviewOn(t, m, obsoleteQuad)
+			press(t, m, "]")
+			screen := m.View()
+			ls := lines(screen)
+			if len(ls) != sz[1] {
+				t.Errorf("%d lines, want %d", len(ls), sz[1])
+			}
+			for i, l := range ls {
+				if w := ansi.StringWidth(l); w != sz[0] {
+					t.Errorf("line %d is %d cells, want %d: %q", i, w, sz[0], l)
+				}
+			}
+			if sz == [2]int{120, 40} || sz == [2]int{80, 24} {
+				checkGolden(t, "testdata", fmt.Sprintf("TestPreviewDetail_%dx%d", sz[0], sz[1]), screen)
+			}
+		})
+	}
+}
