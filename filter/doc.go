@@ -16,9 +16,10 @@
 //
 // A stage kind is a Template (Kind, Params, Derive), one file per kind
 // (stage_direct.go, stage_follower.go, stage_noninverting.go,
-// stage_inverting.go) plus one line in templates(). A kind the design
-// format names but no template implements yet is an error listing the
-// known kinds.
+// stage_inverting.go, stage_comparator.go, stage_relaxation.go,
+// stage_sallen_key.go, stage_rail_splitter.go, stage_transimpedance.go)
+// plus one line in templates(). An unknown kind is an error listing the
+// known kinds, with a did-you-mean.
 //
 // # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
 // frequency, ε allowed gain error, default 1 %)

@@ -14,10 +14,14 @@
 //	catalog file changed (fsnotify, debounced) or r ─► Config.Load ─► reloadedMsg
 //	      ─► new catalog, selection and shortlist kept ─► rankJob
 //
+//	v / cursor move ─► previewJob{gen} (filter/preview, off the UI path) ─► previewMsg
+//	      ─► dropped unless gen is the newest ─► previewPane ─► tui/plot
+//	R ─► replace.Find with the plan in force ─► replacer (its own mode)
+//
 // The root Model holds the panes' sub-models (form, list, checksPane,
-// prompt) and one read-only ui context (size, styles, keys) they draw with.
-// Each mode (browse, edit, find, prompt, help) has its own update function;
-// the right-hand detail area switches on a detail kind so more panes can
-// join the checks pane. Styles come from a Theme of ANSI colours 0–15 and a
+// previewPane, replacer, prompt) and one read-only ui context (size,
+// styles, keys) they draw with. Each mode (browse, edit, find, prompt,
+// help, replace) has its own update function; the right-hand detail area
+// switches on a detail kind: the checks pane or the waveform preview. Styles come from a Theme of ANSI colours 0–15 and a
 // lipgloss renderer chosen by the caller (no colour for NO_COLOR and tests).
 package tui

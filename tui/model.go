@@ -140,7 +140,7 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.ui.width, m.ui.height = msg.Width, msg.Height
-		m.help.Width = msg.Width
+		m.help.Width = msg.Width - 1 // the help line starts with a space
 		m.list.scrollTo(m.listRows())
 		return m, nil
 	case tea.KeyMsg:
@@ -247,7 +247,7 @@ func firstProblem(err error) error {
 // newHelp builds the key-help line with the selector's styles.
 func newHelp(u *ui) help.Model {
 	h := help.New()
-	h.Width = u.width
+	h.Width = u.width - 1 // the help line starts with a space
 	h.Styles = help.Styles{
 		Ellipsis:       u.st.HelpSep,
 		ShortKey:       u.st.HelpKey,
