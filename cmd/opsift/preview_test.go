@@ -34,24 +34,6 @@ func previewRun(t *testing.T, vars map[string]string, args ...string) previewRes
 	return previewResult{out.String(), errb.String(), code}
 }
 
-// previewGolden compares got with testdata/name, rewriting it under -update.
-func previewGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
-}
-
 const previewMixed = "../../data/designs/mixed-templates.toml"
 
 func TestPreviewGolden(t *testing.T) {
@@ -73,7 +55,7 @@ func TestPreviewGolden(t *testing.T) {
 			if r.code != 0 {
 				t.Fatalf("exit %d, stderr %q", r.code, r.stderr)
 			}
-			previewGolden(t, tc.name+".golden", r.stdout)
+			assertGolden(t, tc.name+".golden", r.stdout)
 		})
 	}
 }

@@ -37,25 +37,6 @@ func rankRun(t *testing.T, tty bool, vars map[string]string, args ...string) cmd
 	return cmdResult{out.String(), errb.String(), code}
 }
 
-// rankGolden compares got with testdata/name, rewriting it under -update.
-func rankGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
-}
-
 const (
 	rankCat    = "testdata/rank-parts.toml"
 	rankDesign = "../../testdata/designs/audio-split.toml"
@@ -85,7 +66,7 @@ func TestRankGolden(t *testing.T) {
 			if r.code != 0 || r.stderr != "" {
 				t.Fatalf("exit %d, stderr %q", r.code, r.stderr)
 			}
-			rankGolden(t, tc.name, r.stdout)
+			assertGolden(t, tc.name, r.stdout)
 		})
 	}
 }

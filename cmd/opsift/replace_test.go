@@ -3,14 +3,11 @@ package main
 import (
 	"bytes"
 	"encoding/json"
-	"flag"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files")
 
 // replaceResult is what one run of opsift printed and returned.
 type replaceResult struct {
@@ -40,24 +37,6 @@ func replaceRun(t *testing.T, tty bool, vars map[string]string, args ...string) 
 	}
 	code := exitCode(run(args, e), &errb)
 	return replaceResult{out.String(), errb.String(), code}
-}
-
-// replaceGolden compares got with testdata/name, rewriting it under -update.
-func replaceGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
 }
 
 const (
@@ -92,7 +71,7 @@ func TestReplaceGolden(t *testing.T) {
 			if r.code != 0 {
 				t.Fatalf("exit %d, stderr %s", r.code, r.stderr)
 			}
-			replaceGolden(t, "replace_"+tt.name+".golden", r.stdout)
+			assertGolden(t, "replace_"+tt.name+".golden", r.stdout)
 		})
 	}
 }
