@@ -8,38 +8,6 @@ import (
 	"testing"
 )
 
-// cmdResult is what one run of opsift printed and the exit status.
-type cmdResult struct {
-	stdout, stderr string
-	code           int
-}
-
-// runOpsift runs opsift with args; the environment is vars (HOME and
-// XDG_CONFIG_HOME default to an empty temporary directory, so no user
-// catalog is found unless a test makes one).
-func runOpsift(t *testing.T, vars map[string]string, args ...string) cmdResult {
-	t.Helper()
-	home := t.TempDir()
-	var out, errb bytes.Buffer
-	e := &env{
-		stdin:  strings.NewReader(""),
-		stdout: &out,
-		stderr: &errb,
-		getenv: func(k string) string {
-			if v, ok := vars[k]; ok {
-				return v
-			}
-			switch k {
-			case "XDG_CONFIG_HOME", "HOME":
-				return home
-			}
-			return ""
-		},
-	}
-	code := exitCode(run(args, e), &errb)
-	return cmdResult{out.String(), errb.String(), code}
-}
-
 func TestCheckClean(t *testing.T) {
 	dir := filepath.Join("..", "..", "testdata", "catalog")
 	r := runOpsift(t, nil, "check", "--catalog", dir)

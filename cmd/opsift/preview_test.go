@@ -1,38 +1,12 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-// previewResult is what one run of opsift preview printed and returned.
-type previewResult struct {
-	stdout, stderr string
-	code           int
-}
-
-// previewRun runs opsift with args: no user catalog directory (the demo
-// catalog applies), no COLUMNS unless vars sets it.
-func previewRun(t *testing.T, vars map[string]string, args ...string) previewResult {
-	t.Helper()
-	home := t.TempDir()
-	var out, errb bytes.Buffer
-	e := &env{
-		stdin: strings.NewReader(""), stdout: &out, stderr: &errb,
-		getenv: func(k string) string {
-			if k == "XDG_CONFIG_HOME" || k == "HOME" {
-				return home
-			}
-			return vars[k]
-		},
-	}
-	code := exitCode(run(args, e), &errb)
-	return previewResult{out.String(), errb.String(), code}
-}
 
 const previewMixed = "../../data/designs/mixed-templates.toml"
 
@@ -51,7 +25,7 @@ func TestPreviewGolden(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			r := previewRun(t, tc.vars, append([]string{"preview"}, tc.args...)...)
+			r := runOpsift(t, tc.vars, append([]string{"preview"}, tc.args...)...)
 			if r.code != 0 {
 				t.Fatalf("exit %d, stderr %q", r.code, r.stderr)
 			}
@@ -64,7 +38,7 @@ func TestPreviewGolden(t *testing.T) {
 // demo gain stage is 10 Vpp at 20 kHz, so ideal_pp is 10 (V) and the
 // arrays cover whole periods of 50 µs.
 func TestPreviewJSONFields(t *testing.T) {
-	r := previewRun(t, nil, "preview", "gp4-bip", "--stage", "gain", "--format", "json")
+	r := runOpsift(t, nil, "preview", "gp4-bip", "--stage", "gain", "--format", "json")
 	if r.code != 0 {
 		t.Fatalf("exit %d: %s", r.code, r.stderr)
 	}
@@ -129,7 +103,7 @@ func TestPreviewErrors(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			r := previewRun(t, nil, append([]string{"preview"}, tc.args...)...)
+			r := runOpsift(t, nil, append([]string{"preview"}, tc.args...)...)
 			if r.code != tc.code || !strings.Contains(r.stderr, tc.want) {
 				t.Errorf("exit %d, stderr %q; want exit %d and %q", r.code, r.stderr, tc.code, tc.want)
 			}
@@ -141,7 +115,7 @@ func TestPreviewErrors(t *testing.T) {
 }
 
 func TestPreviewHelp(t *testing.T) {
-	r := previewRun(t, nil, "preview", "--help")
+	r := runOpsift(t, nil, "preview", "--help")
 	if r.code != 0 || !strings.Contains(r.stdout, "Usage: opsift preview PART-ID") {
 		t.Errorf("exit %d, stdout %q", r.code, r.stdout)
 	}

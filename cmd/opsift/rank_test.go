@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -10,32 +9,6 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 )
-
-// rankRun runs opsift in a test environment with no user catalog; tty
-// makes stdout a terminal.
-func rankRun(t *testing.T, tty bool, vars map[string]string, args ...string) cmdResult {
-	t.Helper()
-	home := t.TempDir()
-	var out, errb bytes.Buffer
-	e := &env{
-		stdin:  strings.NewReader(""),
-		stdout: &out,
-		stderr: &errb,
-		getenv: func(k string) string {
-			if v, ok := vars[k]; ok {
-				return v
-			}
-			switch k {
-			case "XDG_CONFIG_HOME", "HOME":
-				return home
-			}
-			return ""
-		},
-		isTTY: tty,
-	}
-	code := exitCode(run(args, e), &errb)
-	return cmdResult{out.String(), errb.String(), code}
-}
 
 const (
 	rankCat    = "testdata/rank-parts.toml"
@@ -62,7 +35,7 @@ func TestRankGolden(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			r := rankRun(t, false, nil, tc.args...)
+			r := runCLI(t, false, nil, tc.args...)
 			if r.code != 0 || r.stderr != "" {
 				t.Fatalf("exit %d, stderr %q", r.code, r.stderr)
 			}
@@ -73,7 +46,7 @@ func TestRankGolden(t *testing.T) {
 
 // The demo catalog and design run with no flags at all.
 func TestRankDemo(t *testing.T) {
-	r := rankRun(t, false, nil, "rank", "--format", "json")
+	r := runCLI(t, false, nil, "rank", "--format", "json")
 	if r.code != 0 {
 		t.Fatalf("exit %d: %s", r.code, r.stderr)
 	}
@@ -93,16 +66,16 @@ func TestRankDemo(t *testing.T) {
 // width follows COLUMNS.
 func TestRankColourAndWidth(t *testing.T) {
 	args := []string{"rank", "--design", rankDesign, "--catalog", rankCat, "--all"}
-	if r := rankRun(t, true, nil, args...); !strings.Contains(r.stdout, "\x1b[") {
+	if r := runCLI(t, true, nil, args...); !strings.Contains(r.stdout, "\x1b[") {
 		t.Errorf("no colour on a terminal")
 	}
-	if r := rankRun(t, true, map[string]string{"NO_COLOR": "1"}, args...); strings.Contains(r.stdout, "\x1b[") {
+	if r := runCLI(t, true, map[string]string{"NO_COLOR": "1"}, args...); strings.Contains(r.stdout, "\x1b[") {
 		t.Errorf("colour with NO_COLOR")
 	}
-	if r := rankRun(t, false, nil, args...); strings.Contains(r.stdout, "\x1b[") {
+	if r := runCLI(t, false, nil, args...); strings.Contains(r.stdout, "\x1b[") {
 		t.Errorf("colour when not a terminal")
 	}
-	r := rankRun(t, false, map[string]string{"COLUMNS": "64"}, args...)
+	r := runCLI(t, false, map[string]string{"COLUMNS": "64"}, args...)
 	for _, l := range strings.Split(r.stdout, "\n") {
 		if n := len([]rune(l)); n > 64 {
 			t.Errorf("COLUMNS=64: line of %d: %q", n, l)
@@ -138,7 +111,7 @@ func TestRankErrors(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			r := rankRun(t, false, nil, tc.args...)
+			r := runCLI(t, false, nil, tc.args...)
 			if r.code != tc.code {
 				t.Errorf("exit %d, want %d (stderr %q)", r.code, tc.code, r.stderr)
 			}
@@ -151,7 +124,7 @@ func TestRankErrors(t *testing.T) {
 
 func TestRankHelp(t *testing.T) {
 	for _, cmd := range []string{"rank", "derive"} {
-		r := rankRun(t, false, nil, cmd, "--help")
+		r := runCLI(t, false, nil, cmd, "--help")
 		if r.code != 0 || !strings.Contains(r.stdout, "Usage: opsift "+cmd) {
 			t.Errorf("%s --help: exit %d, stdout %q", cmd, r.code, r.stdout)
 		}
@@ -164,7 +137,7 @@ func TestRankOutputFileAndTOMLRoundTrip(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "short.toml")
 	os.WriteFile(out, []byte("old"), 0o600)
-	r := rankRun(t, false, nil, "rank", "--design", rankDesign, "--catalog", rankCat, "--format", "toml", "-o", out)
+	r := runCLI(t, false, nil, "rank", "--design", rankDesign, "--catalog", rankCat, "--format", "toml", "-o", out)
 	if r.code != 0 || r.stdout != "" {
 		t.Fatalf("exit %d, stdout %q, stderr %q", r.code, r.stdout, r.stderr)
 	}
@@ -175,11 +148,11 @@ func TestRankOutputFileAndTOMLRoundTrip(t *testing.T) {
 	if st, _ := os.Stat(out); st.Mode().Perm() != 0o600 {
 		t.Errorf("mode %v, want the old file's 0600", st.Mode().Perm())
 	}
-	if c := rankRun(t, false, nil, "check", "--catalog", out); c.code != 0 {
+	if c := runCLI(t, false, nil, "check", "--catalog", out); c.code != 0 {
 		t.Errorf("check on the export: exit %d: %s%s", c.code, c.stdout, c.stderr)
 	}
 	ids := func(args ...string) []string {
-		r := rankRun(t, false, nil, append([]string{"rank", "--design", rankDesign, "--format", "json"}, args...)...)
+		r := runCLI(t, false, nil, append([]string{"rank", "--design", rankDesign, "--format", "json"}, args...)...)
 		var doc struct{ Candidates []struct{ ID string } }
 		if err := json.Unmarshal([]byte(r.stdout), &doc); err != nil {
 			t.Fatal(err)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -9,35 +8,7 @@ import (
 	"testing"
 )
 
-// replaceResult is what one run of opsift printed and returned.
-type replaceResult struct {
-	stdout, stderr string
-	code           int
-}
-
-// replaceRun runs opsift with args in a test environment: no user catalog
-// directory (an empty config home), stdout a terminal when tty is set, and
-// the given extra environment variables.
-func replaceRun(t *testing.T, tty bool, vars map[string]string, args ...string) replaceResult {
-	t.Helper()
-	home := t.TempDir()
-	var out, errb bytes.Buffer
-	e := &env{
-		stdin:  strings.NewReader(""),
-		stdout: &out,
-		stderr: &errb,
-		getenv: func(k string) string {
-			switch k {
-			case "XDG_CONFIG_HOME", "HOME":
-				return home
-			}
-			return vars[k]
-		},
-		isTTY: tty,
-	}
-	code := exitCode(run(args, e), &errb)
-	return replaceResult{out.String(), errb.String(), code}
-}
+// cmdResult is what one run of opsift printed and returned.
 
 const (
 	replaceCat    = "testdata/replace_quads.toml"
@@ -67,7 +38,7 @@ func TestReplaceGolden(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			args := append([]string{"replace", "--catalog", replaceCat}, tt.args...)
-			r := replaceRun(t, tt.tty, tt.vars, args...)
+			r := runCLI(t, tt.tty, tt.vars, args...)
 			if r.code != 0 {
 				t.Fatalf("exit %d, stderr %s", r.code, r.stderr)
 			}
@@ -94,7 +65,7 @@ func TestReplaceColour(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			args := append([]string{"replace", "bq4-old", "--catalog", replaceCat}, tt.args...)
-			r := replaceRun(t, tt.tty, tt.vars, args...)
+			r := runCLI(t, tt.tty, tt.vars, args...)
 			if got := strings.Contains(r.stdout, "\x1b["); got != tt.want {
 				t.Errorf("escape codes %v, want %v", got, tt.want)
 			}
@@ -122,7 +93,7 @@ func TestReplaceErrors(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			r := replaceRun(t, false, nil, tt.args...)
+			r := runCLI(t, false, nil, tt.args...)
 			if r.code != tt.code {
 				t.Errorf("exit %d, want %d (stderr %q)", r.code, tt.code, r.stderr)
 			}
@@ -139,7 +110,7 @@ func TestReplaceErrors(t *testing.T) {
 // TestReplaceJSONContract checks the contract fields of the JSON and that
 // values are SI: the 16 V CMOS quad's slew of 5 V/µs is 5e6 V/s.
 func TestReplaceJSONContract(t *testing.T) {
-	r := replaceRun(t, false, nil, "replace", "--catalog", replaceCat, "bq4-old", "--design", replaceDesign, "--format", "json", "--all")
+	r := runCLI(t, false, nil, "replace", "--catalog", replaceCat, "bq4-old", "--design", replaceDesign, "--format", "json", "--all")
 	if r.code != 0 {
 		t.Fatalf("exit %d: %s", r.code, r.stderr)
 	}
@@ -203,7 +174,7 @@ func TestReplaceOutputFile(t *testing.T) {
 	if err := os.WriteFile(path, []byte("old review\n"), 0o600); err != nil {
 		t.Fatal(err)
 	}
-	r := replaceRun(t, true, nil, "replace", "bq4-old", "--catalog", replaceCat, "--format", "md", "-o", path)
+	r := runCLI(t, true, nil, "replace", "bq4-old", "--catalog", replaceCat, "--format", "md", "-o", path)
 	if r.code != 0 || r.stdout != "" {
 		t.Fatalf("exit %d, stdout %q, stderr %q", r.code, r.stdout, r.stderr)
 	}
@@ -227,14 +198,14 @@ func TestReplaceOutputFile(t *testing.T) {
 // with their regressions, and with the demo design the 16 V CMOS quad
 // passes while its lower maximum supply shows as a warning.
 func TestReplaceDemoObsoletePart(t *testing.T) {
-	r := replaceRun(t, false, nil, "replace", "gp4-bip-old", "--format", "json")
+	r := runCLI(t, false, nil, "replace", "gp4-bip-old", "--format", "json")
 	if r.code != 0 {
 		t.Fatalf("exit %d: %s", r.code, r.stderr)
 	}
 	if !strings.Contains(r.stdout, `"id": "rr4-cmos"`) || !strings.Contains(r.stdout, `"key": "supply_max"`) {
 		t.Errorf("demo: rr4-cmos with a supply_max regression not listed:\n%s", r.stdout)
 	}
-	d := replaceRun(t, false, nil, "replace", "gp4-bip-old", "--design", "../../data/designs/signal-chain-12v.toml", "--format", "json")
+	d := runCLI(t, false, nil, "replace", "gp4-bip-old", "--design", "../../data/designs/signal-chain-12v.toml", "--format", "json")
 	if d.code != 0 {
 		t.Fatalf("with the demo design: exit %d: %s", d.code, d.stderr)
 	}
