@@ -411,13 +411,8 @@ func show(v any) string {
 	case int64:
 		return strconv.FormatInt(v, 10)
 	case float64:
-		switch {
-		case math.IsNaN(v):
-			return "nan"
-		case math.IsInf(v, 1):
-			return "inf"
-		case math.IsInf(v, -1):
-			return "-inf"
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return tomlFloat(v)
 		}
 		if v == math.Trunc(v) && math.Abs(v) < 1e15 {
 			return strconv.FormatFloat(v, 'f', 1, 64) // 4.0, as TOML writes a float
