@@ -10,13 +10,15 @@ import (
 const catalogHelp = "catalog file or directory of *.toml (repeatable; later overrides earlier by id)"
 
 // newFlagSet returns the flag set of a command: problems go to stderr and
-// its usage prints the command's usage text, then the flag defaults.
+// its usage prints the command's usage text, the flag defaults and the
+// caution.
 func newFlagSet(e *env, name, usage string) *flag.FlagSet {
 	fset := flag.NewFlagSet(name, flag.ContinueOnError)
 	fset.SetOutput(e.stderr)
 	fset.Usage = func() {
 		fmt.Fprint(fset.Output(), usage)
 		fset.PrintDefaults()
+		fmt.Fprintf(fset.Output(), "\nCaution: %s\n", caution)
 	}
 	return fset
 }

@@ -18,7 +18,8 @@ const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--stri
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
 Mark parts for a shortlist and export it (md, csv, json, toml); save the
-edited design. Press ? inside for every key.
+edited design; R finds replacements for a part, v shows its waveform.
+Press ? inside for every key.
 
 Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
 
