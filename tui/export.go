@@ -28,7 +28,7 @@ func (m *Model) exportShortlist(path string, f report.Format) error {
 	if err := report.Write(&buf, f, doc); err != nil {
 		return fmt.Errorf("export %s: %w", path, err)
 	}
-	if err := writeAtomic(path, buf.Bytes()); err != nil {
+	if err := report.WriteFile(path, buf.Bytes()); err != nil {
 		return fmt.Errorf("export: %w", err)
 	}
 	m.setMessage("exported %s as %s to %s", plural(len(res), "part"), f, path)
@@ -41,7 +41,7 @@ func (m *Model) saveDesign(path string) error {
 	if err := filter.EncodeDesign(&buf, m.design); err != nil {
 		return fmt.Errorf("save design: %w", err)
 	}
-	if err := writeAtomic(path, buf.Bytes()); err != nil {
+	if err := report.WriteFile(path, buf.Bytes()); err != nil {
 		return fmt.Errorf("save design: %w", err)
 	}
 	m.setMessage("saved the design to %s", path)

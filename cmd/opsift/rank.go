@@ -2,10 +2,6 @@ package main
 
 import (
 	"bytes"
-	"fmt"
-	"io"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -84,7 +80,10 @@ func runRank(e *env, args []string) error {
 		return err
 	}
 	if f.out != "" {
-		return writeRankOutput(f.out, buf.Bytes())
+		if err := report.WriteFile(f.out, buf.Bytes()); err != nil {
+			return inputError(err)
+		}
+		return nil
 	}
 	_, err = e.stdout.Write(buf.Bytes())
 	return err
@@ -98,41 +97,3 @@ func terminalWidth(e *env) int {
 	return report.DefaultWidth
 }
 
-// writeRankOutput writes data to path atomically: a temporary file in the
-// same directory, synced and renamed over path, so an existing file is
-// never half-written or lost.
-func writeRankOutput(path string, data []byte) error {
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return inputError(fmt.Errorf("-o %s: %w", path, err))
-	}
-	name := tmp.Name()
-	fail := func(err error) error {
-		tmp.Close()
-		os.Remove(name)
-		return inputError(fmt.Errorf("-o %s: %w", path, err))
-	}
-	if _, err := io.Copy(tmp, bytes.NewReader(data)); err != nil {
-		return fail(err)
-	}
-	if err := tmp.Sync(); err != nil {
-		return fail(err)
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(name)
-		return inputError(fmt.Errorf("-o %s: %w", path, err))
-	}
-	perm := os.FileMode(0o644)
-	if st, err := os.Stat(path); err == nil {
-		perm = st.Mode().Perm()
-	}
-	if err := os.Chmod(name, perm); err != nil {
-		os.Remove(name)
-		return inputError(fmt.Errorf("-o %s: %w", path, err))
-	}
-	if err := os.Rename(name, path); err != nil {
-		os.Remove(name)
-		return inputError(fmt.Errorf("-o %s: %w", path, err))
-	}
-	return nil
-}

@@ -6,12 +6,12 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // replaceFormats are the output formats of opsift replace.
@@ -99,7 +99,7 @@ func runReplace(e *env, args []string) error {
 		return err
 	}
 	if f.out != "" {
-		if err := replaceWriteFile(f.out, buf.Bytes()); err != nil {
+		if err := report.WriteFile(f.out, buf.Bytes()); err != nil {
 			return inputError(err)
 		}
 		return nil
@@ -153,43 +153,6 @@ func replaceLoadDesign(path string) (*filter.Design, *filter.Plan, error) {
 		return nil, nil, err
 	}
 	return d, plan, nil
-}
-
-// replaceWriteFile writes data to path atomically: a temporary file in the
-// same directory, synced, then renamed over path, so a reader (or a crash)
-// never sees half a file and an existing file is never lost.
-func replaceWriteFile(path string, data []byte) error {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	name := tmp.Name()
-	fail := func(err error) error {
-		tmp.Close()
-		os.Remove(name)
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if _, err := io.Copy(tmp, bytes.NewReader(data)); err != nil {
-		return fail(err)
-	}
-	if err := tmp.Sync(); err != nil {
-		return fail(err)
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(name)
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if st, err := os.Stat(path); err == nil {
-		os.Chmod(name, st.Mode().Perm())
-	} else {
-		os.Chmod(name, 0o644)
-	}
-	if err := os.Rename(name, path); err != nil {
-		os.Remove(name)
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	return nil
 }
 
 // replaceView is what the writers show of a Result: the candidates listed

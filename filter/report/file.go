@@ -1,4 +1,4 @@
-package tui
+package report
 
 import (
 	"fmt"
@@ -6,10 +6,12 @@ import (
 	"path/filepath"
 )
 
-// writeAtomic writes data to path so that path holds either its old
+// WriteFile writes data to path so that path holds either its old
 // content or all of the new: a temporary file in the same directory,
-// synced, given the old file's permissions, then renamed over path.
-func writeAtomic(path string, data []byte) (err error) {
+// synced, given the old file's permissions (0644 for a new file), then
+// renamed over path. A failure leaves no temporary file behind. Every
+// output opsift writes to a user's file goes through it.
+func WriteFile(path string, data []byte) (err error) {
 	dir := filepath.Dir(path)
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
