@@ -3,6 +3,8 @@ package main
 import (
 	"io"
 	"os"
+	"strconv"
+	"strings"
 )
 
 // env is what a command may touch of the outside world. Tests build one
@@ -32,4 +34,13 @@ func newEnv() *env {
 func isTerminal(f *os.File) bool {
 	st, err := f.Stat()
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// columns is $COLUMNS when it is a positive number, else def: the width
+// text output is laid out for.
+func (e *env) columns(def int) int {
+	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("COLUMNS"))); err == nil && n > 0 {
+		return n
+	}
+	return def
 }

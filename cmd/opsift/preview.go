@@ -78,7 +78,7 @@ func runPreview(e *env, args []string) error {
 		return usageError("preview: --points %d: want 2 or more", f.points)
 	}
 	if f.width == 0 {
-		f.width = previewWidth(e)
+		f.width = e.columns(previewDefaultWidth)
 	}
 
 	cat, err := loadCatalog(e, f.catalogs)
@@ -140,14 +140,6 @@ func previewCheckStage(plan *filter.Plan, name string) error {
 		}
 	}
 	return fmt.Errorf("--stage %q: no such stage, %s", name, want)
-}
-
-// previewWidth is $COLUMNS when it is a positive number, else 80.
-func previewWidth(e *env) int {
-	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("COLUMNS"))); err == nil && n > 0 {
-		return n
-	}
-	return previewDefaultWidth
 }
 
 // previewMetricsJSON are the metrics of the contract, those that apply.

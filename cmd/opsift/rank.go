@@ -2,8 +2,6 @@ package main
 
 import (
 	"bytes"
-	"strconv"
-	"strings"
 
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/report"
@@ -73,7 +71,7 @@ func runRank(e *env, args []string) error {
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
-		Sources: cat.Sources, Width: terminalWidth(e)}
+		Sources: cat.Sources, Width: e.columns(report.DefaultWidth)}
 	doc.Color = f.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {
@@ -88,12 +86,3 @@ func runRank(e *env, args []string) error {
 	_, err = e.stdout.Write(buf.Bytes())
 	return err
 }
-
-// terminalWidth is $COLUMNS when it is a positive number, else 100.
-func terminalWidth(e *env) int {
-	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("COLUMNS"))); err == nil && n > 0 {
-		return n
-	}
-	return report.DefaultWidth
-}
-
