@@ -306,3 +306,44 @@ func FuzzDecode(f *testing.F) {
 		}
 	})
 }
+
+// TestDecodeLinesPastStrings checks that problems after multi-line strings
+// (which hold header-like lines) and arrays holding such strings point at
+// the right lines; the lines are counted by hand from the text.
+func TestDecodeLinesPastStrings(t *testing.T) {
+	text := `[[part]]
+id = "a"
+notes = """
+quoted: \"""
+[[part]]
+id = "fake"
+"""
+packages = ["soic8", """
+[[part]]""", '''
+[[part]]''']
+slewx = "1 V/us"
+[[part]]
+id = "b"
+datasheet = '''
+[[part]]
+'''
+gbww = "1 MHz"
+`
+	_, err := Decode("c.toml", []byte(text))
+	var probs Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("got %v, want problems", err)
+	}
+	want := map[string]int{"slewx": 11, "gbww": 17}
+	for _, p := range probs {
+		if w, ok := want[p.Field]; ok {
+			if p.Pos.Line != w {
+				t.Errorf("%s: line %d, want %d", p.Field, p.Pos.Line, w)
+			}
+			delete(want, p.Field)
+		}
+	}
+	for f := range want {
+		t.Errorf("no problem reported for %s in %v", f, probs)
+	}
+}

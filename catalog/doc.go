@@ -2,9 +2,9 @@
 // units every figure is written in, decoding and validation of catalog TOML
 // files, layered loading of several sources, and encoding back to TOML.
 //
-//	file bytes ──► scanLines (key → line) ─┐
+//	file bytes ──► tomlpos.Scan (key → line) ─┐
 //	           ──► TOML decode (in pieces on large files) ─► partDecoder (units, types, unknown keys)
-//	                                       └─► validate (required keys, signs, limit order, names)
+//	                                          └─► validate (required keys, signs, limit order, names)
 //	                                           ──► []*Part + Problems (every problem, FILE:LINE: part: field)
 //	Layer 1, Layer 2 … ──► Load: duplicate id within a layer is a problem,
 //	                       a later layer overrides an earlier one by id (a note) ──► Catalog

@@ -10,6 +10,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/tomlpos"
 )
 
 // DecodeDesign reads a design TOML file. name is used in error messages,
@@ -25,36 +26,33 @@ func DecodeDesign(name string, data []byte) (*Design, error) {
 	if _, err := toml.Decode(string(data), &raw); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, fmt.Errorf("%s:%d: %s", name, pe.Position.Line, pe.Message)
+			return nil, &Error{File: name, Line: pe.Position.Line, Err: &catalog.SyntaxError{Msg: pe.Message, Err: err}}
 		}
-		return nil, fmt.Errorf("%s: %w", name, err)
+		return nil, &Error{File: name, Err: err}
 	}
-	dec := &designDecoder{name: name, lines: indexLines(data)}
+	dec := &designDecoder{name: name, lines: tomlpos.Scan(string(data))}
 	d := dec.design(raw)
 	if len(dec.errs) > 0 {
-		sort.SliceStable(dec.errs, func(i, j int) bool { return dec.errs[i].line < dec.errs[j].line })
+		sort.SliceStable(dec.errs, func(i, j int) bool { return dec.errs[i].Line < dec.errs[j].Line })
 		e := dec.errs[0]
-		if e.line > 0 {
-			return nil, fmt.Errorf("%s:%d: %w", name, e.line, e.err)
-		}
-		return nil, fmt.Errorf("%s: %w", name, e.err)
+		e.File = name
+		return nil, e
 	}
 	return d, nil
 }
 
-type lineErr struct {
-	line int
-	err  error
-}
-
+// designDecoder turns the decoded TOML of a design into a Design,
+// collecting an error for every key it cannot read.
 type designDecoder struct {
 	name  string
-	lines lineIndex
-	errs  []lineErr
+	lines *tomlpos.Index // where each key path is written
+	errs  []*Error
 }
 
-func (dec *designDecoder) fail(path string, format string, a ...any) {
-	dec.errs = append(dec.errs, lineErr{dec.lines.line(path), fmt.Errorf(format, a...)})
+// fail records an error about the key at path (the file's dotted key,
+// "stage.0.signal.freq"), which is field of stage ("" at design level).
+func (dec *designDecoder) fail(path, stage, field string, format string, a ...any) {
+	dec.errs = append(dec.errs, &Error{Line: dec.lines.Line(path), Stage: stage, Field: field, Err: fmt.Errorf(format, a...)})
 }
 
 // topKeys are the tables and keys a design file may have at its top level.
@@ -75,14 +73,14 @@ func (dec *designDecoder) design(raw map[string]any) *Design {
 		case "title":
 			s, ok := v.(string)
 			if !ok {
-				dec.fail(k, "field \"title\": want a string")
+				dec.fail(k, "", k, "want a string")
 				continue
 			}
 			d.Title = s
 		case "supply", "choose", "policy", "environment":
 			tbl, ok := v.(map[string]any)
 			if !ok {
-				dec.fail(k, "%q must be a table [%s]", k, k)
+				dec.fail(k, "", "", "%q must be a table [%s]", k, k)
 				continue
 			}
 			for _, sub := range sortedKeys(tbl) {
@@ -103,7 +101,7 @@ func (dec *designDecoder) design(raw map[string]any) *Design {
 		case "stage":
 			list, ok := v.([]map[string]any)
 			if !ok {
-				dec.fail(k, "\"stage\" must be an array of tables [[stage]]")
+				dec.fail(k, "", "", "\"stage\" must be an array of tables [[stage]]")
 				continue
 			}
 			for i, st := range list {
@@ -118,7 +116,7 @@ func (dec *designDecoder) design(raw map[string]any) *Design {
 	seen := map[string]int{}
 	for i, s := range d.Stages {
 		if j, dup := seen[s.Name]; dup {
-			dec.errs = append(dec.errs, lineErr{s.Line, fmt.Errorf("stage %q: duplicate name (stage %d has it too)", s.Name, j+1)})
+			dec.errs = append(dec.errs, &Error{Line: s.Line, Stage: s.Name, Err: fmt.Errorf("duplicate name (stage %d has it too)", j+1)})
 		}
 		seen[s.Name] = i
 	}
@@ -138,22 +136,22 @@ func validStageName(s string) bool {
 }
 
 func (dec *designDecoder) stage(i int, raw map[string]any) *Stage {
-	base := "stage." + strconv.Itoa(i)
-	s := &Stage{Line: dec.lines.line(base), Values: map[string]Value{}}
+	base := tomlpos.Element("stage", i)
+	s := &Stage{Line: dec.lines.Line(base), Values: map[string]Value{}}
 	name, ok := raw["name"].(string)
 	if !ok || name == "" {
-		dec.errs = append(dec.errs, lineErr{s.Line, fmt.Errorf("stage %d: field \"name\": missing, want a name such as \"gain\"", i+1)})
+		dec.errs = append(dec.errs, &Error{Line: s.Line, Index: i + 1, Field: "name", Err: errors.New("missing, want a name such as \"gain\"")})
 		return nil
 	}
 	if !validStageName(name) {
-		dec.fail(base+".name", "stage %q: field \"name\": want letters, digits, _ or -", name)
+		dec.fail(base+".name", name, "name", "want letters, digits, _ or -")
 		return nil
 	}
 	s.Name = name
 	kind, _ := raw["kind"].(string)
 	t, ok := TemplateFor(kind)
 	if !ok {
-		dec.fail(base+".kind", "stage %q: field \"kind\": %w", name, unknownKind(kind))
+		dec.fail(base+".kind", name, "kind", "%w", unknownKind(kind))
 		return nil
 	}
 	s.Kind = kind
@@ -232,14 +230,6 @@ func tableKeys(ps []designParam, prefix string) []string {
 	return out
 }
 
-// where prefixes a message with the stage it belongs to.
-func where(stage string) string {
-	if stage == "" {
-		return ""
-	}
-	return fmt.Sprintf("stage %q: ", stage)
-}
-
 func (dec *designDecoder) unknown(stage, path, key string, known []string) {
 	field, prefix := path, ""
 	if stage != "" {
@@ -248,10 +238,10 @@ func (dec *designDecoder) unknown(stage, path, key string, known []string) {
 		prefix = path[:i+1]
 	}
 	if s := nearest(key, known); s != "" {
-		dec.fail(path, "%sunknown field %q (did you mean %q?)", where(stage), field, prefix+s)
+		dec.fail(path, stage, "", "unknown field %q (did you mean %q?)", field, prefix+s)
 		return
 	}
-	dec.fail(path, "%sunknown field %q, want one of %s", where(stage), field, strings.Join(known, ", "))
+	dec.fail(path, stage, "", "unknown field %q, want one of %s", field, strings.Join(known, ", "))
 }
 
 // fieldName is the field as messages show it: the path inside the stage
@@ -276,32 +266,32 @@ func (dec *designDecoder) value(path, stage string, p Param, v any) (Value, bool
 		raw = strconv.FormatInt(x, 10)
 	case float64:
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			dec.fail(path, "%sfield %q: %v is not a finite number", where(stage), field, x)
+			dec.fail(path, stage, field, "%v is not a finite number", x)
 			return Value{}, false
 		}
 		raw = strconv.FormatFloat(x, 'g', -1, 64)
 	case []any:
 		if p.Kind != List {
-			dec.fail(path, "%sfield %q: is a list, want %s", where(stage), field, wantOf(p))
+			dec.fail(path, stage, field, "is a list, want %s", wantOf(p))
 			return Value{}, false
 		}
 		items := make([]string, 0, len(x))
 		for _, it := range x {
 			s, ok := it.(string)
 			if !ok {
-				dec.fail(path, "%sfield %q: list item %v is not a string, want %s", where(stage), field, it, wantOf(p))
+				dec.fail(path, stage, field, "list item %v is not a string, want %s", it, wantOf(p))
 				return Value{}, false
 			}
 			items = append(items, s)
 		}
 		raw = strings.Join(items, ", ")
 	default:
-		dec.fail(path, "%sfield %q: want %s", where(stage), field, wantOf(p))
+		dec.fail(path, stage, field, "want %s", wantOf(p))
 		return Value{}, false
 	}
 	if p.Kind == List {
 		if _, isList := v.([]any); !isList {
-			dec.fail(path, "%sfield %q: %q is not a list, want %s", where(stage), field, raw, wantOf(p))
+			dec.fail(path, stage, field, "%q is not a list, want %s", raw, wantOf(p))
 			return Value{}, false
 		}
 	}
@@ -310,10 +300,10 @@ func (dec *designDecoder) value(path, stage string, p Param, v any) (Value, bool
 		val = Value{}
 	}
 	if err != nil {
-		dec.fail(path, "%sfield %q: %w", where(stage), field, err)
+		dec.fail(path, stage, field, "%w", err)
 		return Value{}, false
 	}
-	val.Line = dec.lines.line(path)
+	val.Line = dec.lines.Line(path)
 	return val, true
 }
 
@@ -323,7 +313,7 @@ func (dec *designDecoder) pair(path string, v any, stage string, set func(lo, hi
 	arr, ok := v.([]any)
 	if !ok || len(arr) != 2 {
 		lo, hi := pairExample(p)
-		dec.fail(path, "%sfield %q: want two values [low, high] such as [%q, %q]", where(stage), field, lo, hi)
+		dec.fail(path, stage, field, "want two values [low, high] such as [%q, %q]", lo, hi)
 		return
 	}
 	q := p

@@ -2,6 +2,7 @@ package filter_test
 
 import (
 	"bytes"
+	"errors"
 	"flag"
 	"fmt"
 	"os"
@@ -215,5 +216,61 @@ func TestFieldsAreSettable(t *testing.T) {
 		if err := d.Set(f.Path, f.Raw); err != nil {
 			t.Errorf("Set(%q, %q): %v", f.Path, f.Raw, err)
 		}
+	}
+}
+
+// TestDesignErrorLinesPastStrings checks the line of an error that follows
+// multi-line strings holding [[stage]] lines; lines counted by hand.
+func TestDesignErrorLinesPastStrings(t *testing.T) {
+	text := `title = """
+A title that quotes a header:
+[[stage]]
+name = "fake"
+"""
+[supply]
+pos = "5 V"
+[choose]
+packages = ["soic8", '''
+[[stage]]''']
+[[stage]]
+name = "first"
+kind = "follower"
+signal = { shape = "sine", peak = "0.1 V", freq = "2 kHz" }
+[[stage]]
+name = "gain"
+kind = "noninverting"
+gain = 2
+signal = { shape = "sine", peak = "0.1 V", freq = "2 kHz/s" }
+`
+	_, err := filter.DecodeDesign("d.toml", []byte(text))
+	var e *filter.Error
+	if !errors.As(err, &e) {
+		t.Fatalf("got %v, want a *filter.Error", err)
+	}
+	if e.File != "d.toml" || e.Line != 19 || e.Stage != "gain" || e.Field != "signal.freq" {
+		t.Errorf("error at %s:%d stage %q field %q, want d.toml:19 stage \"gain\" field \"signal.freq\" (%v)",
+			e.File, e.Line, e.Stage, e.Field, err)
+	}
+}
+
+// TestErrorFields checks that Derive and Set report the stage and field
+// as fields of *Error, and that the message carries them once.
+func TestErrorFields(t *testing.T) {
+	text := "[supply]\npos = \"5 V\"\n[[stage]]\nname = \"gain\"\nkind = \"noninverting\"\ngain = 0.5\nsignal = { shape = \"sine\", peak = \"0.1 V\", freq = \"2 kHz\" }\n"
+	d, err := filter.DecodeDesign("d.toml", []byte(text))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = filter.Derive(d)
+	var e *filter.Error
+	if !errors.As(err, &e) || e.Stage != "gain" || e.Field != "gain" || e.Line != 6 {
+		t.Fatalf("Derive: %#v, want stage gain, field gain, line 6", err)
+	}
+	if want := `d.toml:6: stage "gain": field "gain": "0.5" is below 1, want a non-inverting gain ≥ 1 V/V`; err.Error() != want {
+		t.Errorf("Derive: %q, want %q", err, want)
+	}
+	err = d.Set("stage.gain.signal.freq", "3 V")
+	if !errors.As(err, &e) || e.Stage != "gain" || e.Field != "signal.freq" || strings.Contains(e.Err.Error(), "field") {
+		t.Errorf("Set: %#v, want stage gain, field signal.freq and the bare reason in Err", err)
 	}
 }

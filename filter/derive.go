@@ -1,6 +1,7 @@
 package filter
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -24,16 +25,16 @@ func Derive(d *Design) (*Plan, error) {
 	seen := map[string]bool{}
 	for _, s := range d.Stages {
 		if seen[s.Name] {
-			return nil, d.errAt(s.Line, "stage %q: duplicate stage name", s.Name)
+			return nil, &Error{File: d.file(), Line: s.Line, Stage: s.Name, Err: errors.New("duplicate stage name")}
 		}
 		seen[s.Name] = true
 		t, ok := TemplateFor(s.Kind)
 		if !ok {
-			return nil, d.errAt(s.Line, "stage %q: field \"kind\": %w", s.Name, unknownKind(s.Kind))
+			return nil, &Error{File: d.file(), Line: s.Line, Stage: s.Name, Field: "kind", Err: unknownKind(s.Kind)}
 		}
 		sp, err := t.Derive(NewStageInput(s, t), p)
 		if err != nil {
-			return nil, d.errAt(s.Line, "stage %q: %w", s.Name, err)
+			return nil, inStage(d.file(), s, err)
 		}
 		sp.Stage, sp.Name, sp.Kind = s, s.Name, s.Kind
 		for i := range sp.Requirements {
@@ -43,7 +44,7 @@ func Derive(d *Design) (*Plan, error) {
 		p.Stages = append(p.Stages, sp)
 	}
 	if len(p.Stages) == 0 {
-		return nil, d.errAt(0, "no [[stage]]: a design needs at least one stage")
+		return nil, &Error{File: d.file(), Err: errors.New("no [[stage]]: a design needs at least one stage")}
 	}
 	if b := d.Choose.SupplyCurrent; b.Set {
 		p.Global = append(p.Global, Requirement{Key: KeySupplyCurrent, Bound: BoundMax, Value: b.V,
@@ -54,29 +55,30 @@ func Derive(d *Design) (*Plan, error) {
 	return p, nil
 }
 
-// errAt formats an error prefixed with the design's file and a line.
-func (d *Design) errAt(line int, format string, a ...any) error {
-	pre := d.Name
-	if pre == "" {
-		pre = "design"
+// file names the design in errors.
+func (d *Design) file() string {
+	if d.Name == "" {
+		return "design"
 	}
-	if line > 0 {
-		pre = fmt.Sprintf("%s:%d", pre, line)
-	}
-	return fmt.Errorf(pre+": "+format, a...)
+	return d.Name
+}
+
+// errAt is an error about a design-level field, on line (0: not known).
+func (d *Design) errAt(line int, field, format string, a ...any) error {
+	return &Error{File: d.file(), Line: line, Field: field, Err: fmt.Errorf(format, a...)}
 }
 
 func (p *Plan) deriveSupply(d *Design) error {
 	s := d.Supply
 	if !s.Pos.Set {
-		return d.errAt(0, "field \"supply.pos\": missing, want a voltage such as \"3.3 V\"")
+		return d.errAt(0, "supply.pos", "missing, want a voltage such as \"3.3 V\"")
 	}
 	neg := 0.0
 	if s.Neg.Set {
 		neg = s.Neg.V
 	}
 	if s.Pos.V <= neg {
-		return d.errAt(s.Pos.Line, "field \"supply.pos\": %q is not above supply.neg (%s), want V+ > V−",
+		return d.errAt(s.Pos.Line, "supply.pos", "%q is not above supply.neg (%s), want V+ > V−",
 			s.Pos.Raw, catalog.Format(neg, catalog.Volt))
 	}
 	tol := 0.0
@@ -84,7 +86,7 @@ func (p *Plan) deriveSupply(d *Design) error {
 		tol = s.Tolerance.V
 	}
 	if tol < 0 || tol >= 0.5 {
-		return d.errAt(s.Tolerance.Line, "field \"supply.tolerance\": %q is out of range, want a ratio from 0 %% to 50 %% such as \"5 %%\"", s.Tolerance.Raw)
+		return d.errAt(s.Tolerance.Line, "supply.tolerance", "%q is out of range, want a ratio from 0 %% to 50 %% such as \"5 %%\"", s.Tolerance.Raw)
 	}
 	r := Rails{Pos: s.Pos.V, Neg: neg, Tol: tol, Span: s.Pos.V - neg}
 	r.PosWorst, r.NegWorst = s.Pos.V*(1-tol), neg*(1-tol)
@@ -107,11 +109,11 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 		p.TempHigh = d.Temp[1].V
 	}
 	if p.TempLow > p.TempHigh {
-		return d.errAt(d.Temp[0].Line, "field \"environment.temp\": low %s is above high %s, want [low, high]",
+		return d.errAt(d.Temp[0].Line, "environment.temp", "low %s is above high %s, want [low, high]",
 			catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius))
 	}
 	if p.TempLow < -273.15 {
-		return d.errAt(d.Temp[0].Line, "field \"environment.temp\": %q is below absolute zero", d.Temp[0].Raw)
+		return d.errAt(d.Temp[0].Line, "environment.temp", "%q is below absolute zero", d.Temp[0].Raw)
 	}
 	p.Global = append(p.Global, Requirement{Key: KeyTemperature, Bound: BoundHard, Low: p.TempLow, High: p.TempHigh,
 		Dim: catalog.Celsius, Unit: "°C",
@@ -119,13 +121,13 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 	p.DerateTyp, p.InflateTyp = DefaultDerateTyp, DefaultInflateTyp
 	if v := d.Policy.DerateTyp; v.Set {
 		if v.V <= 0 || v.V > 1 {
-			return d.errAt(v.Line, "field \"policy.derate_typ\": %q is out of range, want a factor in (0, 1] such as \"0.7\"", v.Raw)
+			return d.errAt(v.Line, "policy.derate_typ", "%q is out of range, want a factor in (0, 1] such as \"0.7\"", v.Raw)
 		}
 		p.DerateTyp = v.V
 	}
 	if v := d.Policy.InflateTyp; v.Set {
 		if v.V < 1 {
-			return d.errAt(v.Line, "field \"policy.inflate_typ\": %q is out of range, want a factor ≥ 1 such as \"2\"", v.Raw)
+			return d.errAt(v.Line, "policy.inflate_typ", "%q is out of range, want a factor ≥ 1 such as \"2\"", v.Raw)
 		}
 		p.InflateTyp = v.V
 	}

@@ -174,7 +174,7 @@ func (d *Design) Set(path, raw string) error {
 		if p.Key == path {
 			v, err := parseParam(p.Param, raw)
 			if err != nil {
-				return fmt.Errorf("field %q: %w", path, err)
+				return &Error{Field: path, Err: err}
 			}
 			*p.v = v
 			return nil
@@ -195,22 +195,22 @@ func (d *Design) Set(path, raw string) error {
 	}
 	if path == "kind" {
 		if _, ok := TemplateFor(raw); !ok {
-			return fmt.Errorf("stage %q: field \"kind\": %w", s.Name, unknownKind(raw))
+			return &Error{Stage: s.Name, Field: "kind", Err: unknownKind(raw)}
 		}
 		s.Kind = raw
 		return nil
 	}
 	t, ok := TemplateFor(s.Kind)
 	if !ok {
-		return fmt.Errorf("stage %q: %w", s.Name, unknownKind(s.Kind))
+		return &Error{Stage: s.Name, Err: unknownKind(s.Kind)}
 	}
 	p, key, ok := stageParam(t, path)
 	if !ok {
-		return fmt.Errorf("stage %q: no field %q for kind %q", s.Name, path, s.Kind)
+		return &Error{Stage: s.Name, Err: fmt.Errorf("no field %q for kind %q", path, s.Kind)}
 	}
 	v, err := parseParam(p, raw)
 	if err != nil {
-		return fmt.Errorf("stage %q: field %q: %w", s.Name, path, err)
+		return &Error{Stage: s.Name, Field: path, Err: err}
 	}
 	if s.Values == nil {
 		s.Values = map[string]Value{}

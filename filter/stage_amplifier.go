@@ -74,11 +74,11 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		return sp, err
 	}
 	if vp < 0 {
-		return sp, fmt.Errorf("field \"signal.peak\": %q is negative, want a peak ≥ 0 V", in.Raw("signal.peak"))
+		return sp, fieldErrorf("signal.peak", "%q is negative, want a peak ≥ 0 V", in.Raw("signal.peak"))
 	}
 	eps, _ := in.Num("gain_error")
 	if eps <= 0 || eps >= 1 {
-		return sp, fmt.Errorf("field \"gain_error\": %q is out of range, want a ratio between 0 and 100 %% such as \"1 %%\"", in.Raw("gain_error"))
+		return sp, fieldErrorf("gain_error", "%q is out of range, want a ratio between 0 and 100 %% such as \"1 %%\"", in.Raw("gain_error"))
 	}
 	sp.Peak, sp.GainError = vp, eps
 	sp.Vo = a.gain * vp
@@ -87,7 +87,7 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	sp.LoadR, _ = in.Num("load_r")
 	for _, k := range []string{"source_r", "load_r", "feedback_r", "cload", "dc_error", "noise"} {
 		if v, ok := in.Num(k); ok && v <= 0 {
-			return sp, fmt.Errorf("field %q: %q is not positive, want a value > 0", k, in.Raw(k))
+			return sp, fieldErrorf(k, "%q is not positive, want a value > 0", in.Raw(k))
 		}
 	}
 	vo, ng := sp.Vo, a.noiseGain
@@ -110,10 +110,10 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	case "sine":
 		f, err := in.Need("signal.freq")
 		if err != nil {
-			return sp, fmt.Errorf("%w (a sine needs signal.freq)", err)
+			return sp, noted(err, "a sine needs signal.freq")
 		}
 		if f <= 0 {
-			return sp, fmt.Errorf("field \"signal.freq\": %q is not positive, want a frequency such as \"1 kHz\"", in.Raw("signal.freq"))
+			return sp, fieldErrorf("signal.freq", "%q is not positive, want a frequency such as \"1 kHz\"", in.Raw("signal.freq"))
 		}
 		sp.Freq = f
 		Hz := catalog.Format(f, catalog.Hertz)
@@ -126,10 +126,10 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	case "square":
 		rise, err := in.Need("signal.rise")
 		if err != nil {
-			return sp, fmt.Errorf("%w (a square needs signal.rise)", err)
+			return sp, noted(err, "a square needs signal.rise")
 		}
 		if rise <= 0 {
-			return sp, fmt.Errorf("field \"signal.rise\": %q is not positive, want a time such as \"2 us\"", in.Raw("signal.rise"))
+			return sp, fieldErrorf("signal.rise", "%q is not positive, want a time such as \"2 us\"", in.Raw("signal.rise"))
 		}
 		sp.Rise = rise
 		sp.Freq, _ = in.Num("signal.freq")

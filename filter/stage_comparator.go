@@ -83,7 +83,7 @@ func (comparatorTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return sp, err
 	}
 	if vol >= voh {
-		return sp, fmt.Errorf("field \"out_low\": %q is not below out_high %q, want out_low < out_high", in.Raw("out_low"), in.Raw("out_high"))
+		return sp, fieldErrorf("out_low", "%q is not below out_high %q, want out_low < out_high", in.Raw("out_low"), in.Raw("out_high"))
 	}
 	t, err := tmplNeedPositive(in, "transition")
 	if err != nil {
@@ -156,7 +156,7 @@ func tmplNeedPositive(in *StageInput, key string) (float64, error) {
 		return 0, err
 	}
 	if !(v > 0) {
-		return 0, fmt.Errorf("field %q: %q is not positive, want a value > 0", key, in.Raw(key))
+		return 0, fieldErrorf(key, "%q is not positive, want a value > 0", in.Raw(key))
 	}
 	return v, nil
 }
@@ -166,7 +166,7 @@ func tmplNeedPositive(in *StageInput, key string) (float64, error) {
 func tmplOptionalPositive(in *StageInput, keys ...string) error {
 	for _, k := range keys {
 		if v, ok := in.Num(k); ok && !(v > 0) {
-			return fmt.Errorf("field %q: %q is not positive, want a value > 0", k, in.Raw(k))
+			return fieldErrorf(k, "%q is not positive, want a value > 0", in.Raw(k))
 		}
 	}
 	return nil
@@ -181,7 +181,7 @@ func tmplPair(in *StageInput, key string) (lo, hi float64, err error) {
 		return 0, 0, err
 	}
 	if lo > hi {
-		return 0, 0, fmt.Errorf("field %q: low %s is above high %s, want [low, high]", key,
+		return 0, 0, fieldErrorf(key, "low %s is above high %s, want [low, high]",
 			catalog.Format(lo, catalog.Volt), catalog.Format(hi, catalog.Volt))
 	}
 	return lo, hi, nil
@@ -196,13 +196,13 @@ func amplifierResistors(in *StageInput, rgKey string) (rf, rg float64, ok bool, 
 		return 0, 0, false, nil
 	}
 	if in.Given("gain") {
-		return 0, 0, false, fmt.Errorf("field \"gain\": give either gain or rf and %s, not both", rgKey)
+		return 0, 0, false, fieldErrorf("gain", "give either gain or rf and %s, not both", rgKey)
 	}
 	if rf, err = tmplNeedPositive(in, "rf"); err != nil {
-		return 0, 0, false, fmt.Errorf("%w (with resistors, give rf and %s)", err, rgKey)
+		return 0, 0, false, noted(err, fmt.Sprintf("with resistors, give rf and %s", rgKey))
 	}
 	if rg, err = tmplNeedPositive(in, rgKey); err != nil {
-		return 0, 0, false, fmt.Errorf("%w (with resistors, give rf and %s)", err, rgKey)
+		return 0, 0, false, noted(err, fmt.Sprintf("with resistors, give rf and %s", rgKey))
 	}
 	return rf, rg, true, nil
 }

@@ -42,7 +42,7 @@ func (directTemplate) Params() []Param {
 func (directTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	ng, _ := in.Num("noise_gain")
 	if ng < 1 {
-		return StagePlan{}, fmt.Errorf("field \"noise_gain\": %q is below 1, want NG ≥ 1 V/V", in.Raw("noise_gain"))
+		return StagePlan{}, fieldErrorf("noise_gain", "%q is below 1, want NG ≥ 1 V/V", in.Raw("noise_gain"))
 	}
 	sp := StagePlan{NoiseGain: ng}
 	sp.SourceR, _ = in.Num("source_r")
@@ -55,13 +55,13 @@ func (directTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		lo, okL := in.Num(w.key + ".low")
 		hi, okH := in.Num(w.key + ".high")
 		if okL != okH {
-			return sp, fmt.Errorf("field %q: want both ends [low, high]", w.key)
+			return sp, fieldErrorf(w.key, "want both ends [low, high]")
 		}
 		if !okL {
 			continue
 		}
 		if lo > hi {
-			return sp, fmt.Errorf("field %q: low %s is above high %s, want [low, high]", w.key,
+			return sp, fieldErrorf(w.key, "low %s is above high %s, want [low, high]",
 				catalog.Format(lo, catalog.Volt), catalog.Format(hi, catalog.Volt))
 		}
 		add(Requirement{Key: w.k, Bound: BoundRange, Low: lo, High: hi, Dim: catalog.Volt,
@@ -87,7 +87,7 @@ func (directTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			continue
 		}
 		if v <= 0 && s.dim != catalog.Decibel {
-			return sp, fmt.Errorf("field %q: %q is not positive, want a value > 0", s.key, in.Raw(s.key))
+			return sp, fieldErrorf(s.key, "%q is not positive, want a value > 0", in.Raw(s.key))
 		}
 		add(Requirement{Key: s.k, Bound: s.bound, Value: v, Dim: s.dim, Why: "stated: " + s.key + " = " + in.Raw(s.key)})
 	}

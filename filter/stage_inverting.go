@@ -1,8 +1,6 @@
 package filter
 
 import (
-	"fmt"
-
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
 )
@@ -45,10 +43,10 @@ func (invertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	}
 	g, err := in.Need("gain")
 	if err != nil {
-		return StagePlan{}, fmt.Errorf("%w (or give rf and rin)", err)
+		return StagePlan{}, noted(err, "or give rf and rin")
 	}
 	if g <= 0 {
-		return StagePlan{}, fmt.Errorf("field \"gain\": %q is not positive, want the gain magnitude such as \"10\"", in.Raw("gain"))
+		return StagePlan{}, fieldErrorf("gain", "%q is not positive, want the gain magnitude such as \"10\"", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
 	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: 1 + g, inputAtRef: true, feedbackR: fb})

@@ -1,8 +1,6 @@
 package filter
 
 import (
-	"fmt"
-
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
 )
@@ -44,10 +42,10 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	}
 	g, err := in.Need("gain")
 	if err != nil {
-		return StagePlan{}, fmt.Errorf("%w (or give rf and rg)", err)
+		return StagePlan{}, noted(err, "or give rf and rg")
 	}
 	if g < 1 {
-		return StagePlan{}, fmt.Errorf("field \"gain\": %q is below 1, want a non-inverting gain ≥ 1 V/V", in.Raw("gain"))
+		return StagePlan{}, fieldErrorf("gain", "%q is below 1, want a non-inverting gain ≥ 1 V/V", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
 	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: g, feedbackR: fb})

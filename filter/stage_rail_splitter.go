@@ -70,11 +70,11 @@ func (railSplitterTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	isrc, okSrc := in.Num("i_source")
 	isnk, okSnk := in.Num("i_sink")
 	if !okSrc && !okSnk {
-		return sp, fmt.Errorf("field \"i_source\": missing, want the return current to source and/or sink (i_source, i_sink) such as \"5 mA\"")
+		return sp, fieldErrorf("i_source", "missing, want the return current to source and/or sink (i_source, i_sink) such as \"5 mA\"")
 	}
 	ref := tmplRef(in, p)
 	if !(p.Rails.Neg < ref && ref < p.Rails.Pos) {
-		return sp, fmt.Errorf("field \"ref\": %s is not between the rails %s and %s, want a mid-rail inside the supply",
+		return sp, fieldErrorf("ref", "%s is not between the rails %s and %s, want a mid-rail inside the supply",
 			catalog.Format(ref, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))
 	}
 	iso, hasIso := in.Num("iso_r")

@@ -102,12 +102,12 @@ func readAstable(in *StageInput, p *Plan) (astable, error) {
 		a.voh, a.levelsGiven = v, true
 	}
 	if !(a.vol < a.ref && a.ref < a.voh) {
-		return a, fmt.Errorf("field \"ref\": %s is not between the output levels %s and %s, want out_low < ref < out_high",
+		return a, fieldErrorf("ref", "%s is not between the output levels %s and %s, want out_low < ref < out_high",
 			catalog.Format(a.ref, catalog.Volt), catalog.Format(a.vol, catalog.Volt), catalog.Format(a.voh, catalog.Volt))
 	}
 	a.share, _ = in.Num("freq_error")
 	if !(a.share > 0 && a.share < 1) {
-		return a, fmt.Errorf("field \"freq_error\": %q is out of range, want a ratio between 0 and 100 %% such as \"5 %%\"", in.Raw("freq_error"))
+		return a, fieldErrorf("freq_error", "%q is out of range, want a ratio between 0 and 100 %% such as \"5 %%\"", in.Raw("freq_error"))
 	}
 	return a, nil
 }

@@ -80,7 +80,7 @@ func (sallenKeyTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	comps := in.Given("r1") || in.Given("r2") || in.Given("c1") || in.Given("c2")
 	direct := in.Given("f0") || in.Given("q")
 	if comps && direct {
-		return sp, fmt.Errorf("field \"f0\": give either r1, r2, c1, c2 or f0 and q, not both")
+		return sp, fieldErrorf("f0", "give either r1, r2, c1, c2 or f0 and q, not both")
 	}
 	var r1, r2, c1, c2, f0, q float64
 	var err error
@@ -90,16 +90,16 @@ func (sallenKeyTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			v   *float64
 		}{{"r1", &r1}, {"r2", &r2}, {"c1", &c1}, {"c2", &c2}} {
 			if *f.v, err = tmplNeedPositive(in, f.key); err != nil {
-				return sp, fmt.Errorf("%w (with components, give all of r1, r2, c1, c2)", err)
+				return sp, noted(err, "with components, give all of r1, r2, c1, c2")
 			}
 		}
 		f0, q = circuit.SallenKeyF0(r1, r2, c1, c2), circuit.SallenKeyQ(r1, r2, c1, c2)
 	} else {
 		if f0, err = tmplNeedPositive(in, "f0"); err != nil {
-			return sp, fmt.Errorf("%w (give r1, r2, c1, c2, or f0 and q)", err)
+			return sp, noted(err, "give r1, r2, c1, c2, or f0 and q")
 		}
 		if q, err = tmplNeedPositive(in, "q"); err != nil {
-			return sp, fmt.Errorf("%w (give r1, r2, c1, c2, or f0 and q)", err)
+			return sp, noted(err, "give r1, r2, c1, c2, or f0 and q")
 		}
 	}
 	k, err := tmplNeedPositive(in, "gbw_factor")
@@ -111,7 +111,7 @@ func (sallenKeyTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return sp, err
 	}
 	if !(vp > 0) {
-		return sp, fmt.Errorf("field \"signal.peak\": %q is not positive, want a peak > 0 V", in.Raw("signal.peak"))
+		return sp, fieldErrorf("signal.peak", "%q is not positive, want a peak > 0 V", in.Raw("signal.peak"))
 	}
 	if err := tmplOptionalPositive(in, "load_r", "cload", "source_r", "dc_error"); err != nil {
 		return sp, err

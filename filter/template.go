@@ -154,7 +154,7 @@ func (in *StageInput) Need(key string) (float64, error) {
 	v, ok := in.Num(key)
 	if !ok {
 		p := in.params[key]
-		return 0, fmt.Errorf("field %q: missing, want %s such as %q", key, p.Dim, p.Dim.Example())
+		return 0, fieldErrorf(key, "missing, want %s such as %q", p.Dim, p.Dim.Example())
 	}
 	return v, nil
 }

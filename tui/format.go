@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -160,28 +161,13 @@ func trimFloat(v float64) string {
 	return strings.TrimSuffix(s, ".")
 }
 
-// cleanFieldErr drops the prefixes of an error from Set or Derive that the
-// inline position already says (the design file, the stage, the field).
-func cleanFieldErr(err error, designName string) string {
-	s := err.Error()
-	if designName != "" {
-		if rest, ok := strings.CutPrefix(s, designName); ok {
-			if i := strings.Index(rest, ": "); i >= 0 && strings.Trim(rest[:i], ":0123456789") == "" {
-				s = rest[i+2:]
-			}
-		}
+// fieldErrText is what an error from Set or Derive says about the field
+// being edited, without the file, line, stage and field the inline
+// position already shows.
+func fieldErrText(err error) string {
+	var e *filter.Error
+	if errors.As(err, &e) && e.Err != nil {
+		return e.Err.Error()
 	}
-	for {
-		t := s
-		for _, p := range []string{"stage ", "field "} {
-			if rest, ok := strings.CutPrefix(s, p+`"`); ok {
-				if i := strings.Index(rest, `": `); i >= 0 {
-					s = rest[i+3:]
-				}
-			}
-		}
-		if t == s {
-			return s
-		}
-	}
+	return err.Error()
 }

@@ -173,6 +173,9 @@ func TestInlineError(t *testing.T) {
 			if !strings.Contains(m.form.editErr, tc.want) {
 				t.Errorf("inline error = %q, want it to contain %q", m.form.editErr, tc.want)
 			}
+			if strings.HasPrefix(m.form.editErr, "stage ") || strings.HasPrefix(m.form.editErr, "field ") {
+				t.Errorf("inline error %q repeats the stage or field the form already shows", m.form.editErr)
+			}
 			screen := m.View()
 			if !strings.Contains(screen, "✗") || !strings.Contains(strings.Join(strings.Fields(screen), " "), firstWords(m.form.editErr, 3)) {
 				t.Errorf("screen does not show the inline error %q:\n%s", m.form.editErr, screen)

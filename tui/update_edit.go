@@ -89,12 +89,12 @@ func (m *Model) endEdit() {
 func (m *Model) applyField(path, raw string) tea.Cmd {
 	c := m.design.Clone()
 	if err := c.Set(path, raw); err != nil {
-		m.form.editErr = cleanFieldErr(err, c.Name)
+		m.form.editErr = fieldErrText(err)
 		return nil
 	}
 	plan, err := filter.Derive(c)
 	if err != nil {
-		m.form.editErr = cleanFieldErr(err, c.Name)
+		m.form.editErr = fieldErrText(err)
 		return nil
 	}
 	m.form.editErr = ""
