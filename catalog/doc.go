@@ -5,7 +5,7 @@
 //	file bytes ──► tomlpos.Scan (key → line) ─┐
 //	           ──► TOML decode (in pieces on large files) ─► partDecoder (units, types, unknown keys)
 //	                                          └─► validate (required keys, signs, limit order, names)
-//	                                           ──► []*Part + Problems (every problem, FILE:LINE: part: field)
+//	                                              ──► []*Part + Problems (every problem, FILE:LINE: part: field)
 //	Layer 1, Layer 2 … ──► Load: duplicate id within a layer is a problem,
 //	                       a later layer overrides an earlier one by id (a note) ──► Catalog
 //	[]*Part ──► Encode ──► catalog TOML that decodes to the same values
