@@ -163,7 +163,7 @@ func editField(t testing.TB, m *Model, path, text string) {
 func topIDs(m *Model, n int) []string {
 	var out []string
 	for i := 0; i < n && i < len(m.list.view); i++ {
-		out = append(out, m.results[m.list.view[i]].Part.ID)
+		out = append(out, m.rank.results[m.list.view[i]].Part.ID)
 	}
 	return out
 }
@@ -172,8 +172,8 @@ func topIDs(m *Model, n int) []string {
 func selectID(t testing.TB, m *Model, id string) {
 	t.Helper()
 	for i, ri := range m.list.view {
-		if m.results[ri].Part.ID == id {
-			m.list.move(i-m.list.cursor, m.results, m.listRows())
+		if m.rank.results[ri].Part.ID == id {
+			m.list.move(i-m.list.cursor, m.rank.results, m.listRows())
 			return
 		}
 	}
