@@ -26,12 +26,9 @@ func scanLines(text string) fileLines {
 	for _, k := range ix.Keys("") {
 		fl.top[k] = ix.Line(k)
 	}
-	for i := 0; ; i++ {
+	for i := range ix.Count("part") {
 		el := tomlpos.Element("part", i)
-		p, ok := ix.Pos(el)
-		if !ok {
-			break
-		}
+		p, _ := ix.Pos(el)
 		pl := partLines{line: p.Line, off: p.Offset, keys: map[string]int{}}
 		for _, k := range ix.Keys(el) {
 			pl.keys[k] = ix.Line(tomlpos.Join(el, k))

@@ -11,6 +11,8 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // demoParts decodes every embedded catalog file with the real decoder and

@@ -450,12 +450,8 @@ func (r *replacer) compareView(w, h int) []string {
 	return append(out, blank(w, h-len(out))...)
 }
 
-// replaceHelp is the bottom line in replacement mode.
-type replaceHelp struct{ k *KeyMap }
-
-// ShortHelp lists the keys of replacement mode.
-func (h replaceHelp) ShortHelp() []key.Binding {
-	k := h.k
+// replaceKeys are the bottom line in replacement mode.
+func (k *KeyMap) replaceKeys() []key.Binding {
 	return []key.Binding{
 		key.NewBinding(key.WithKeys("up", "down"), key.WithHelp("↑/↓", "candidate")),
 		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "scroll comparison")),
@@ -464,9 +460,6 @@ func (h replaceHelp) ShortHelp() []key.Binding {
 		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "back")),
 	}
 }
-
-// FullHelp is the same as ShortHelp.
-func (h replaceHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
 
 // openReplace opens replacement mode for the selected candidate.
 func (m *Model) openReplace() tea.Cmd {

@@ -55,7 +55,7 @@ func (m *Model) View() string {
 		in := m.prompt.input
 		in.Width = max(10, u.width-8)
 		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width),
-			fit(m.help.ShortHelpView(editHelp{&u.keys}.ShortHelp()), u.width))
+			fit(m.help.ShortHelpView(u.keys.editKeys()), u.width))
 	default:
 		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
 	}
@@ -100,10 +100,10 @@ func (m *Model) statusView(w int) string {
 // helpLine is the short key help of the current mode.
 func (m *Model) helpLine() string {
 	if m.mode == modeReplace {
-		return " " + m.help.ShortHelpView(replaceHelp{&m.ui.keys}.ShortHelp())
+		return " " + m.help.ShortHelpView(m.ui.keys.replaceKeys())
 	}
 	if m.mode == modeEdit {
-		return " " + m.help.ShortHelpView(editHelp{&m.ui.keys}.ShortHelp()) +
+		return " " + m.help.ShortHelpView(m.ui.keys.editKeys()) +
 			m.ui.st.Muted.Render("  · ↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us")
 	}
 	return " " + m.help.ShortHelpView(m.ui.keys.ShortHelp())

@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/BurntSushi/toml"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // TestScan checks the line of key paths in documents built around each
