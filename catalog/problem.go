@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"slices"
 	"strings"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Problem is one thing wrong with a catalog: where it is, which part and
@@ -25,7 +27,7 @@ type Problem struct {
 func (p Problem) Error() string {
 	var b strings.Builder
 	if p.Pos.File != "" {
-		b.WriteString(p.Pos.File)
+		b.WriteString(safe.Text(p.Pos.File))
 		if p.Pos.Line > 0 {
 			fmt.Fprintf(&b, ":%d", p.Pos.Line)
 		}
@@ -75,11 +77,22 @@ func (ps Problems) Unwrap() []error {
 	return errs
 }
 
+// summaryIndex marks the problem that counts those left unlisted; it
+// sorts last.
+const summaryIndex = -1
+
 // sortProblems orders the problems of one file by line and part number,
 // keeping the order they were found in otherwise.
 func sortProblems(ps Problems) {
+	last := func(p Problem) int {
+		if p.Index == summaryIndex {
+			return 1
+		}
+		return 0
+	}
 	slices.SortStableFunc(ps, func(a, b Problem) int {
 		return cmp.Or(
+			cmp.Compare(last(a), last(b)),
 			cmp.Compare(a.Pos.Line, b.Pos.Line),
 			cmp.Compare(a.Index, b.Index),
 		)
