@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Derive checks the design's inputs and derives every requirement: the
@@ -20,7 +21,9 @@ func Derive(d *Design) (*Plan, error) {
 	if err := p.deriveEnvironment(d); err != nil {
 		return nil, err
 	}
-	p.deriveFilters(d)
+	if err := p.deriveFilters(d); err != nil {
+		return nil, err
+	}
 	seen := map[string]bool{}
 	for _, s := range d.Stages {
 		if seen[s.Name] {
@@ -56,7 +59,7 @@ func Derive(d *Design) (*Plan, error) {
 
 // errAt formats an error prefixed with the design's file and a line.
 func (d *Design) errAt(line int, format string, a ...any) error {
-	pre := d.Name
+	pre := safe.Text(d.Name)
 	if pre == "" {
 		pre = "design"
 	}
@@ -132,8 +135,11 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 	return nil
 }
 
-func (p *Plan) deriveFilters(d *Design) {
+func (p *Plan) deriveFilters(d *Design) error {
 	c := d.Choose
+	if v := c.MaxUnitCost; v.Set && (v.V < 0 || v.V > MaxUnitCost) {
+		return d.errAt(v.Line, "field \"choose.max_unit_cost\": %q is out of range, want a budget from 0 to %g", v.Raw, float64(MaxUnitCost))
+	}
 	life := c.Lifecycle.List()
 	why := "lifecycle is one of " + strings.Join(life, ", ")
 	if len(life) == 0 {
@@ -153,7 +159,12 @@ func (p *Plan) deriveFilters(d *Design) {
 		p.Global = append(p.Global, Requirement{Key: KeyCost, Bound: BoundHard, Value: v.V,
 			Why: "unit cost ≤ " + catalog.Format(v.V, catalog.Dimensionless)})
 	}
+	return nil
 }
+
+// MaxUnitCost is the largest choose.max_unit_cost accepted, the same as
+// the largest unit_cost a catalog part may give.
+const MaxUnitCost = 1e6
 
 // gbwFactor is 1/√(1/(1−ε)² − 1): the loop gain a single-pole amplifier
 // needs at the signal frequency, per unit of NG·f, for a gain error of ε.

@@ -125,3 +125,20 @@ func JSON(doc []byte) []byte {
 	}
 	return []byte(b.String())
 }
+
+// Lines is Text for a multi-line document the program itself lays out:
+// line feeds and tabs are kept, every other unsafe rune is escaped.
+func Lines(s string) string {
+	if Clean(strings.NewReplacer("\n", " ", "\t", " ").Replace(s)) {
+		return s
+	}
+	parts := strings.Split(s, "\n")
+	for i, p := range parts {
+		fields := strings.Split(p, "\t")
+		for j, f := range fields {
+			fields[j] = Text(f)
+		}
+		parts[i] = strings.Join(fields, "\t")
+	}
+	return strings.Join(parts, "\n")
+}

@@ -102,3 +102,14 @@ func FuzzText(f *testing.F) {
 		}
 	})
 }
+
+func TestLines(t *testing.T) {
+	in := "title\x1b[2J\n\tcell\u202e\r\n"
+	want := "title\\x1b[2J\n\tcell\\u202e\\x0d\n"
+	if got := Lines(in); got != want {
+		t.Fatalf("Lines(%q) = %q, want %q", in, got, want)
+	}
+	if got := Lines("a\nb\tc"); got != "a\nb\tc" {
+		t.Fatalf("Lines changed clean text: %q", got)
+	}
+}

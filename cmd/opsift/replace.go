@@ -5,7 +5,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
@@ -81,7 +80,7 @@ func runReplace(e *env, args []string) error {
 	var design *filter.Design
 	if f.design != "" {
 		var plan *filter.Plan
-		design, plan, err = replaceLoadDesign(f.design)
+		design, plan, err = deriveDesign(f.design)
 		if err != nil {
 			return inputError(err)
 		}
@@ -138,22 +137,6 @@ func replaceOneOf(s string, set []string) bool {
 	return false
 }
 
-// replaceLoadDesign reads, decodes and derives the design at path.
-func replaceLoadDesign(path string) (*filter.Design, *filter.Plan, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, nil, fmt.Errorf("design: %w", err)
-	}
-	d, err := filter.DecodeDesign(path, data)
-	if err != nil {
-		return nil, nil, err
-	}
-	plan, err := filter.Derive(d)
-	if err != nil {
-		return nil, nil, err
-	}
-	return d, plan, nil
-}
 
 // replaceView is what the writers show of a Result: the candidates listed
 // (with a design and without --all, only those that pass) and what was
