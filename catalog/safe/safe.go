@@ -142,3 +142,43 @@ func Lines(s string) string {
 	}
 	return strings.Join(parts, "\n")
 }
+
+// CheckOutput is the test of "no control byte from data reaches the
+// terminal": it returns an error for the first byte below 0x20 in out
+// that is not a line feed, a tab or the start of an SGR styling sequence
+// (ESC [ digits and semicolons m, the only escapes opsift writes), and
+// for any C1 control, bidirectional control or zero-width character.
+func CheckOutput(out string) error {
+	for i := 0; i < len(out); i++ {
+		c := out[i]
+		switch {
+		case c == '\n' || c == '\t':
+		case c == 0x1b:
+			j := i + 1
+			if j < len(out) && out[j] == '[' {
+				j++
+				for j < len(out) && (out[j] >= '0' && out[j] <= '9' || out[j] == ';') {
+					j++
+				}
+				if j < len(out) && out[j] == 'm' {
+					i = j
+					continue
+				}
+			}
+			return fmt.Errorf("escape sequence that is not styling at byte %d: %q", i, context(out, i))
+		case c < 0x20 || c == 0x7f:
+			return fmt.Errorf("control byte 0x%02x at byte %d: %q", c, i, context(out, i))
+		}
+	}
+	for i, r := range out {
+		if r >= 0x80 && Unsafe(r) {
+			return fmt.Errorf("%s at byte %d: %q", Name(r), i, context(out, i))
+		}
+	}
+	return nil
+}
+
+// context is the text around byte i, for messages.
+func context(s string, i int) string {
+	return s[max(i-20, 0):min(i+20, len(s))]
+}
