@@ -13,45 +13,38 @@ import (
 // naming the range. The ranges are wide on purpose: every general-purpose,
 // precision, micropower, high-speed and power op-amp class fits with room
 // (common practice, no source). The README lists them.
-var plausible = map[string][2]float64{
-	"gbw":       {1, 100e9},    // 1 Hz … 100 GHz
-	"slew":      {1, 100e9},    // 1 V/s … 100 kV/µs
-	"aol":       {0, 250},      // dB
-	"vos":       {0, 1},        // ≤ 1 V
-	"vos_drift": {0, 1e-3},     // ≤ 1 mV/°C
-	"ib":        {0, 1e-3},     // ≤ 1 mA
-	"ios":       {0, 1e-3},     // ≤ 1 mA
-	"en":        {1e-12, 1e-3}, // 1 pV/√Hz … 1 mV/√Hz
-	"in":        {1e-18, 1e-6}, // 1 aA/√Hz … 1 µA/√Hz
-	"iq":        {1e-12, 10},   // 1 pA … 10 A
-	"iout":      {1e-9, 100},   // 1 nA … 100 A
-	"vdiff_max": {1e-3, 10e3},  // 1 mV … 10 kV
-	"cload":     {1e-15, 1},    // 1 fF … 1 F
-	"cin":       {1e-18, 1e-6}, // 1 aF … 1 µF
-	"supply":    {1e-3, 10e3},  // 1 mV … 10 kV, both ends
-	"input_cm":  {0, 10e3},     // offsets from the rails
-	"output":    {0, 10e3},     // offsets from the rails; load 1 mΩ … 1 TΩ below
-	"load":      {1e-3, 1e12},  // output.load
-	"temp":      {0, 1000},     // |°C| ≤ 1000
-	"unit_cost": {0, 1e6},      // 0 … 1,000,000 per package
-	"channels":  {1, MaxChannels},
+var plausible = map[string]plausibleRange{
+	"gbw":       {1, 100e9, "1 Hz … 100 GHz"},
+	"slew":      {1, 100e9, "1 V/s … 100 kV/µs"},
+	"aol":       {0, 250, "0 … 250 dB"},
+	"vos":       {0, 1, "0 … 1 V"},
+	"vos_drift": {0, 1e-3, "0 … 1 mV/°C"},
+	"ib":        {0, 1e-3, "0 … 1 mA"},
+	"ios":       {0, 1e-3, "0 … 1 mA"},
+	"en":        {1e-12, 1e-3, "1 pV/√Hz … 1 mV/√Hz"},
+	"in":        {1e-18, 1e-6, "1 aA/√Hz … 1 µA/√Hz"},
+	"iq":        {1e-12, 10, "1 pA … 10 A"},
+	"iout":      {1e-9, 100, "1 nA … 100 A"},
+	"vdiff_max": {1e-3, 10e3, "1 mV … 10 kV"},
+	"cload":     {1e-15, 1, "1 fF … 1 F"},
+	"cin":       {1e-18, 1e-6, "1 aF … 1 µF"},
+	"supply":    {1e-3, 10e3, "1 mV … 10 kV"},
+	"input_cm":  {0, 10e3, "0 … 10 kV from a rail"},
+	"output":    {0, 10e3, "0 … 10 kV from a rail"},
+	"load":      {1e-3, 1e12, "1 mΩ … 1 TΩ"},
+	"temp":      {0, 1000, "−1000 … 1000 °C"},
+	"unit_cost": {0, 1e6, "0 … 1000000"},
+}
+
+// plausibleRange is the accepted range of a key's magnitude: lo ≤ |v| ≤ hi,
+// with the text messages and the README show.
+type plausibleRange struct {
+	lo, hi float64
+	text   string
 }
 
 // MaxChannels is the most op-amps one package may hold.
 const MaxChannels = 64
-
-// plausibleRange renders the range of key in dim, for messages.
-func plausibleRange(key string, dim Dim) string {
-	r := plausible[key]
-	if dim == Dimensionless {
-		return fmt.Sprintf("%g … %g", r[0], r[1])
-	}
-	lo := Format(r[0], dim)
-	if r[0] == 0 {
-		lo = "0"
-	}
-	return lo + " … " + Format(r[1], dim)
-}
 
 // outside reports whether |v| lies outside key's plausible range.
 func outside(key string, v float64) bool {
@@ -62,7 +55,7 @@ func outside(key string, v float64) bool {
 	if v < 0 {
 		v = -v
 	}
-	return v < r[0] || v > r[1]
+	return v < r.lo || v > r.hi
 }
 
 // plausibility checks every quantity of the part against plausible.
@@ -75,7 +68,7 @@ func (c *checker) plausibility() {
 				what = ""
 			}
 			c.add(key, "%s%s is outside the plausible range %s for %s; check the unit prefix",
-				what, formatAny(o.V, dim), plausibleRange(rangeKey, dim), key)
+				what, formatAny(o.V, dim), plausible[rangeKey].text, key)
 		}
 	}
 	for _, f := range figures {

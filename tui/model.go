@@ -90,7 +90,7 @@ type Model struct {
 	// loadGen numbers catalog reads as they start; loadShown is the newest
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
-	quitting  bool
+	quitting           bool
 }
 
 // New builds the selector from cfg. It derives the design at once; the

@@ -130,7 +130,6 @@ func replaceOneOf(s string, set []string) bool {
 	return false
 }
 
-
 // replaceView is what the writers show of a Result: the candidates listed
 // (with a design and without --all, only those that pass) and what was
 // left out.
