@@ -55,7 +55,7 @@ func required(c *filter.Check) string {
 	}
 	switch {
 	case len(q.Allowed) > 0:
-		return strings.Join(q.Allowed, " ")
+		return safe.Text(strings.Join(q.Allowed, " "))
 	case q.Key == filter.KeyTemperature:
 		return span(q.Low, q.High, catalog.Celsius)
 	case q.Key == filter.KeyCost:

@@ -139,7 +139,7 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 			f.input.Width = max(1, valueW-1)
 			value = f.input.View()
 		case fl.Set:
-			value = st.Value.Render(fit(fl.Raw, valueW))
+			value = st.Value.Render(fit(safe.Text(fl.Raw), valueW))
 		case fl.Default != "":
 			value = st.Default.Render(fit("("+fl.Default+")", valueW))
 		default:
@@ -210,7 +210,7 @@ func requirementText(r *filter.Requirement) string {
 	}
 	switch {
 	case len(r.Allowed) > 0:
-		return k + " ∈ " + strings.Join(r.Allowed, ", ")
+		return k + " ∈ " + safe.Text(strings.Join(r.Allowed, ", "))
 	case r.Key == filter.KeyTemperature:
 		return k + " covers " + span(r.Low, r.High, catalog.Celsius)
 	case r.Key == filter.KeyCost:

@@ -4,17 +4,18 @@ import (
 	"io"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 	"testing"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
 	"github.com/muesli/termenv"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
+	"github.com/opsift/opsift/filter"
 )
 
 // hostileText holds what a shared catalog could use against a terminal:
@@ -27,23 +28,27 @@ const hostileText = "evil\x1b]52;c;aGVsbG8=\x07\x1b]0;pwned\x07\x1b[2J\r\n\u009b
 // hostile part name, design title and error message, and scans every
 // frame for control bytes that are not the program's own styling.
 func TestSelectorFrameHasNoControlBytes(t *testing.T) {
-	cat := demoCatalog(t)
-	top := topIDs(newDemo(t, 120, 40), 1)[0] // a listed part
-	c := *cat
-	c.Parts = slices.Clone(cat.Parts)
-	for i, p := range c.Parts {
-		if p.ID == top {
-			bad := *p
-			bad.Name = hostileText
-			bad.Notes = hostileText
-			c.Parts[i] = &bad
-		}
+	hostile := filepath.Join("..", "testdata", "hostile")
+	b, err := os.ReadFile(filepath.Join(hostile, "designs", "hostile_title.toml"))
+	if err != nil {
+		t.Fatal(err)
 	}
-	d := demoDesign(t)
-	d.Title = hostileText
+	d, err := filter.DecodeDesign("hostile_title.toml", b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cat, err := catalog.Load(catalog.PathLayer(filepath.Join(hostile, "catalog", "plain.toml")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Parts built in code bypass the catalog's checks: the selector must
+	// still escape them.
+	bad := *cat.Parts[0]
+	bad.Name, bad.Notes = hostileText, hostileText
+	cat.Parts = []*catalog.Part{&bad}
 	r := lipgloss.NewRenderer(io.Discard)
 	r.SetColorProfile(termenv.TrueColor)
-	m := New(Config{Design: d, Catalog: &c, Renderer: r, DesignFile: "design\x1b[2J.toml"})
+	m := New(Config{Design: d, Catalog: cat, Renderer: r, DesignFile: "design\x1b[2J.toml"})
 	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
 	run(t, m, m.Init())
 	m.focus = paneList
@@ -52,9 +57,18 @@ func TestSelectorFrameHasNoControlBytes(t *testing.T) {
 	frames = append(frames, m.View())
 	press(t, m, "enter")
 	frames = append(frames, m.View())
+	press(t, m, "tab", "tab")
+	frames = append(frames, m.View())
 	for i, f := range frames {
 		if err := safe.CheckOutput(f); err != nil {
 			t.Errorf("frame %d: %v", i, err)
+		}
+		// Escaping at the source keeps the layout: a string escaped only by
+		// the last net (safe.Styled) would overflow its line.
+		for j, l := range strings.Split(f, "\n") {
+			if w := ansi.StringWidth(l); w > 120 {
+				t.Errorf("frame %d line %d is %d cells wide: %q", i, j, w, ansi.Strip(l))
+			}
 		}
 	}
 	if !strings.Contains(frames[0], `\x1b]52`) {

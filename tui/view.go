@@ -63,7 +63,10 @@ func (m *Model) View() string {
 	default:
 		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
 	}
-	return strings.Join(lines, "\n")
+	// Data strings are escaped where they are drawn; safe.Styled is the
+	// net under that: nothing but the program's own styling reaches the
+	// terminal.
+	return safe.Styled(strings.Join(lines, "\n"))
 }
 
 // titleView is the top line: the program, the design file and the sources.

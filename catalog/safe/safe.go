@@ -154,16 +154,9 @@ func CheckOutput(out string) error {
 		switch {
 		case c == '\n' || c == '\t':
 		case c == 0x1b:
-			j := i + 1
-			if j < len(out) && out[j] == '[' {
-				j++
-				for j < len(out) && (out[j] >= '0' && out[j] <= '9' || out[j] == ';') {
-					j++
-				}
-				if j < len(out) && out[j] == 'm' {
-					i = j
-					continue
-				}
+			if n := sgrLen(out[i:]); n > 0 {
+				i += n - 1
+				continue
 			}
 			return fmt.Errorf("escape sequence that is not styling at byte %d: %q", i, context(out, i))
 		case c < 0x20 || c == 0x7f:
@@ -181,4 +174,55 @@ func CheckOutput(out string) error {
 // context is the text around byte i, for messages.
 func context(s string, i int) string {
 	return s[max(i-20, 0):min(i+20, len(s))]
+}
+
+// Styled is the last safety net for a frame the program has styled
+// itself: it keeps line feeds, tabs and SGR styling sequences (ESC [
+// digits and semicolons m) and escapes every other unsafe rune, so that
+// whatever slipped past escaping at the source can still move no cursor,
+// clear no screen and set no title or clipboard. The result always passes
+// CheckOutput.
+func Styled(frame string) string {
+	if CheckOutput(frame) == nil {
+		return frame
+	}
+	var b strings.Builder
+	b.Grow(len(frame) + 16)
+	for i := 0; i < len(frame); {
+		if n := sgrLen(frame[i:]); n > 0 {
+			b.WriteString(frame[i : i+n])
+			i += n
+			continue
+		}
+		r, n := utf8.DecodeRuneInString(frame[i:])
+		switch {
+		case r == '\n' || r == '\t':
+			b.WriteRune(r)
+		case r == utf8.RuneError && n <= 1:
+			fmt.Fprintf(&b, `\x%02x`, frame[i])
+		case r < 0x80 && Unsafe(r):
+			fmt.Fprintf(&b, `\x%02x`, r)
+		case Unsafe(r):
+			fmt.Fprintf(&b, `\u%04x`, r)
+		default:
+			b.WriteString(frame[i : i+n])
+		}
+		i += n
+	}
+	return b.String()
+}
+
+// sgrLen is the length of the SGR sequence s starts with, or 0.
+func sgrLen(s string) int {
+	if len(s) < 3 || s[0] != 0x1b || s[1] != '[' {
+		return 0
+	}
+	j := 2
+	for j < len(s) && (s[j] >= '0' && s[j] <= '9' || s[j] == ';') {
+		j++
+	}
+	if j < len(s) && s[j] == 'm' {
+		return j + 1
+	}
+	return 0
 }

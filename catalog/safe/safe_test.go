@@ -71,6 +71,9 @@ func FuzzText(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
+		if err := CheckOutput(Styled(s)); err != nil {
+			t.Fatalf("Styled(%q): %v", s, err)
+		}
 		out := Text(s)
 		if !Clean(out) {
 			t.Fatalf("Text(%q) = %q is not clean", s, out)
@@ -111,5 +114,20 @@ func TestLines(t *testing.T) {
 	}
 	if got := Lines("a\nb\tc"); got != "a\nb\tc" {
 		t.Fatalf("Lines changed clean text: %q", got)
+	}
+}
+
+// TestStyled keeps the program's SGR styling and escapes everything else.
+func TestStyled(t *testing.T) {
+	in := "\x1b[1;36mtitle\x1b[0m \x1b]0;pwned\x07 \x1b[2J\n\u009b\x1b[m"
+	want := "\x1b[1;36mtitle\x1b[0m \\x1b]0;pwned\\x07 \\x1b[2J\n\\u009b\x1b[m"
+	if got := Styled(in); got != want {
+		t.Fatalf("Styled = %q, want %q", got, want)
+	}
+	if err := CheckOutput(Styled(in)); err != nil {
+		t.Fatal(err)
+	}
+	if err := CheckOutput(in); err == nil {
+		t.Fatal("CheckOutput passed an OSC sequence")
 	}
 }
