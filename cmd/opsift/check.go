@@ -11,11 +11,14 @@ import (
 
 const checkUsage = `Usage: opsift check [--catalog PATH]...
 
-Read every catalog source, check every part (units, keys, limits, ids) and
-print a summary and every problem found, one per line as FILE:LINE: part
-"ID": field "KEY": what is wrong. Without --catalog it checks the catalog
-the other commands would use: the user's catalog directory, else the
-embedded demo. Exit status 1 when there is any problem, 0 when clean.
+Read every catalog source, check every part (units, keys, limits, ids,
+plausible ranges, text a terminal would act on) and print a summary and
+the problems found, one per line as FILE:LINE: part "ID": field "KEY":
+what is wrong, at most 50 per file. Files other than regular files, over
+4 MiB, or nested or dotted too deeply are refused before decoding.
+Without --catalog it checks the catalog the other commands would use: the
+user's catalog directory, else the embedded demo. Exit status 1 when there
+is any problem, 0 when clean.
 
 Options:
 `

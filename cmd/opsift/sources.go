@@ -44,9 +44,9 @@ func catalogLayers(e *env, paths []string) []catalog.Layer {
 // earlier source, a source without files) go to stderr as "opsift: note:
 // …", at most maxShown of them, so that stdout stays the document.
 func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
-	c, err := catalog.Load(catalogLayers(e, paths)...)
+	c, err := openCatalog(e, paths)
 	if err != nil {
-		return nil, inputError(newCatalogError(err, paths))
+		return nil, err
 	}
 	for i, n := range c.Notes {
 		if i == maxShown {
@@ -54,6 +54,16 @@ func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
 			break
 		}
 		fmt.Fprintf(e.stderr, "opsift: note: %s\n", n)
+	}
+	return c, nil
+}
+
+// openCatalog is loadCatalog without the notes, for the selector, which
+// shows the catalog itself.
+func openCatalog(e *env, paths []string) (*catalog.Catalog, error) {
+	c, err := catalog.Load(catalogLayers(e, paths)...)
+	if err != nil {
+		return nil, inputError(newCatalogError(err, paths))
 	}
 	return c, nil
 }
