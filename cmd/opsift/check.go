@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 const checkUsage = `Usage: opsift check [--catalog PATH]...
@@ -38,7 +39,12 @@ func runCheck(e *env, args []string) error {
 	if err != nil && !errors.As(err, &probs) {
 		return inputError(err) // not a catalog problem: cannot happen with Load today
 	}
-	writeCheckReport(e.stdout, c, probs)
+	var buf strings.Builder
+	writeCheckReport(&buf, c, probs)
+	// Problems and file names are escaped where they are made; this is the net.
+	if _, err := io.WriteString(e.stdout, safe.Lines(buf.String())); err != nil {
+		return err
+	}
 	if len(probs) > 0 {
 		return problemsFound()
 	}
