@@ -64,20 +64,26 @@ func Text(s string) string {
 	var b strings.Builder
 	b.Grow(len(s) + 8)
 	for i := 0; i < len(s); {
-		r, n := utf8.DecodeRuneInString(s[i:])
-		switch {
-		case r == utf8.RuneError && n <= 1:
-			fmt.Fprintf(&b, `\x%02x`, s[i])
-		case r < 0x80 && Unsafe(r):
-			fmt.Fprintf(&b, `\x%02x`, r)
-		case Unsafe(r):
-			fmt.Fprintf(&b, `\u%04x`, r)
-		default:
-			b.WriteString(s[i : i+n])
-		}
-		i += n
+		i += writeEscaped(&b, s, i)
 	}
 	return b.String()
+}
+
+// writeEscaped writes the rune at s[i] to b, escaped when unsafe, and
+// returns its length in bytes.
+func writeEscaped(b *strings.Builder, s string, i int) int {
+	r, n := utf8.DecodeRuneInString(s[i:])
+	switch {
+	case r == utf8.RuneError && n <= 1:
+		fmt.Fprintf(b, `\x%02x`, s[i])
+	case r < 0x80 && Unsafe(r):
+		fmt.Fprintf(b, `\x%02x`, r)
+	case Unsafe(r):
+		fmt.Fprintf(b, `\u%04x`, r)
+	default:
+		b.WriteString(s[i : i+n])
+	}
+	return n
 }
 
 // Name describes an unsafe rune for messages: "U+001B (a control
@@ -132,15 +138,28 @@ func Lines(s string) string {
 	if Clean(strings.NewReplacer("\n", " ", "\t", " ").Replace(s)) {
 		return s
 	}
-	parts := strings.Split(s, "\n")
-	for i, p := range parts {
-		fields := strings.Split(p, "\t")
-		for j, f := range fields {
-			fields[j] = Text(f)
+	return keepLayout(s, func(string) int { return 0 })
+}
+
+// keepLayout escapes s as Text does but keeps line feeds, tabs and the
+// sequences keep measures (their length in bytes, 0 for none).
+func keepLayout(s string, keep func(string) int) string {
+	var b strings.Builder
+	b.Grow(len(s) + 16)
+	for i := 0; i < len(s); {
+		if n := keep(s[i:]); n > 0 {
+			b.WriteString(s[i : i+n])
+			i += n
+			continue
 		}
-		parts[i] = strings.Join(fields, "\t")
+		if s[i] == '\n' || s[i] == '\t' {
+			b.WriteByte(s[i])
+			i++
+			continue
+		}
+		i += writeEscaped(&b, s, i)
 	}
-	return strings.Join(parts, "\n")
+	return b.String()
 }
 
 // CheckOutput is the test of "no control byte from data reaches the
@@ -186,30 +205,7 @@ func Styled(frame string) string {
 	if CheckOutput(frame) == nil {
 		return frame
 	}
-	var b strings.Builder
-	b.Grow(len(frame) + 16)
-	for i := 0; i < len(frame); {
-		if n := sgrLen(frame[i:]); n > 0 {
-			b.WriteString(frame[i : i+n])
-			i += n
-			continue
-		}
-		r, n := utf8.DecodeRuneInString(frame[i:])
-		switch {
-		case r == '\n' || r == '\t':
-			b.WriteRune(r)
-		case r == utf8.RuneError && n <= 1:
-			fmt.Fprintf(&b, `\x%02x`, frame[i])
-		case r < 0x80 && Unsafe(r):
-			fmt.Fprintf(&b, `\x%02x`, r)
-		case Unsafe(r):
-			fmt.Fprintf(&b, `\u%04x`, r)
-		default:
-			b.WriteString(frame[i : i+n])
-		}
-		i += n
-	}
-	return b.String()
+	return keepLayout(frame, sgrLen)
 }
 
 // sgrLen is the length of the SGR sequence s starts with, or 0.

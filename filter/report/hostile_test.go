@@ -6,7 +6,9 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
+	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -22,12 +24,10 @@ const hostile = "x\x1b]52;c;aGk=\x07\x1b]0;t\x07\x1b[2J\r\n\u009b2J\x7f\u202e\u2
 func TestEveryFormatIsClean(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
 	p.Title = hostile
-	for i := range rs {
-		part := *rs[i].Part
+	editParts(rs, func(_ int, part *catalog.Part) {
 		part.Name, part.Notes, part.Datasheet, part.Pinout = hostile, hostile, hostile, hostile
 		part.Packages = append([]string{hostile}, part.Packages...)
-		rs[i].Part = &part
-	}
+	})
 	for _, f := range report.Formats() {
 		for _, color := range []bool{false, true} {
 			doc := &report.Doc{Plan: p, Results: rs, All: true, Sources: []string{hostile}, Color: color}
@@ -57,19 +57,8 @@ func TestEveryFormatIsClean(t *testing.T) {
 func TestCSVNeutralisesFormulas(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
 	starts := []string{"=1+2", "+1", "-cmd", "@SUM(A1)", "\tx", "\rx", "plain"}
-	for i := range rs {
-		part := *rs[i].Part
-		part.Name = starts[i%len(starts)]
-		rs[i].Part = &part
-	}
-	var b bytes.Buffer
-	if err := report.WriteCSV(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := csv.NewReader(&b).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	editParts(rs, func(i int, part *catalog.Part) { part.Name = starts[i%len(starts)] })
+	rows := csvRows(t, &report.Doc{Plan: p, Results: rs, All: true})
 	negative := false
 	for _, row := range rows[1:] {
 		name := row[2]
@@ -90,12 +79,10 @@ func TestCSVNeutralisesFormulas(t *testing.T) {
 func TestMarkdownLinks(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
 	links := []string{"javascript:alert(1)", "data:text/html,<b>x</b>", "file:///etc/passwd", "https://example.invalid/a.pdf"}
-	for i := range rs {
-		part := *rs[i].Part
+	editParts(rs, func(i int, part *catalog.Part) {
 		part.Datasheet = links[i%len(links)]
 		part.Name = "<img src=x onerror=alert(1)>"
-		rs[i].Part = &part
-	}
+	})
 	var b bytes.Buffer
 	if err := report.WriteMarkdown(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
 		t.Fatal(err)
@@ -111,4 +98,27 @@ func TestMarkdownLinks(t *testing.T) {
 			t.Errorf("markdown lacks %q", good)
 		}
 	}
+}
+
+// editParts gives every result a copy of its part changed by edit.
+func editParts(rs []filter.Result, edit func(i int, p *catalog.Part)) {
+	for i := range rs {
+		part := *rs[i].Part
+		edit(i, &part)
+		rs[i].Part = &part
+	}
+}
+
+// csvRows renders doc as CSV and reads it back.
+func csvRows(t *testing.T, doc *report.Doc) [][]string {
+	t.Helper()
+	var b bytes.Buffer
+	if err := report.WriteCSV(&b, doc); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&b).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rows
 }
