@@ -44,6 +44,30 @@ func Decode(file string, data []byte) ([]*Part, error) {
 // problem counts the rest, so a hostile file cannot flood the terminal.
 const MaxProblems = 50
 
+// UnlistedError is the last problem of a file with more than MaxProblems:
+// how many more there are.
+type UnlistedError struct{ N int }
+
+// Error says how many problems are not listed.
+func (e *UnlistedError) Error() string {
+	return fmt.Sprintf("%d more problems in this file not shown (at most %d are listed per file)", e.N, MaxProblems)
+}
+
+// Count is the number of problems ps stands for: each listed one, plus
+// those an UnlistedError counts.
+func (ps Problems) Count() int {
+	n := 0
+	for _, p := range ps {
+		var u *UnlistedError
+		if errors.As(p.Err, &u) {
+			n += u.N
+			continue
+		}
+		n++
+	}
+	return n
+}
+
 // decodeFile decodes and validates one file, returning its valid parts,
 // its problems (at most MaxProblems and a count of the rest) and the
 // number of parts left out; duplicate ids are left to the caller, which
@@ -104,8 +128,7 @@ func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 	}
 	sortProblems(probs)
 	if more > 0 {
-		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex,
-			Err: fmt.Errorf("%d more problems in this file not shown (at most %d are listed per file)", more, MaxProblems)})
+		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex, Err: &UnlistedError{N: more}})
 	}
 	return parts, probs, len(tables) - len(parts)
 }

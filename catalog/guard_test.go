@@ -66,3 +66,25 @@ func BenchmarkRefuseHostile(b *testing.B) {
 		})
 	}
 }
+
+// TestProblemsCapped: a file with more than MaxProblems problems lists
+// MaxProblems of them and one UnlistedError counting the rest, and Count
+// gives the whole number (8 problems per empty part: id, name, tech,
+// channels, packages, supply, gbw, slew).
+func TestProblemsCapped(t *testing.T) {
+	_, err := Decode("empty.toml", []byte(strings.Repeat("[[part]]\n", 1000)))
+	var ps Problems
+	if !errors.As(err, &ps) {
+		t.Fatalf("err = %v", err)
+	}
+	if len(ps) != MaxProblems+1 {
+		t.Fatalf("%d problems listed, want %d", len(ps), MaxProblems+1)
+	}
+	var u *UnlistedError
+	if !errors.As(ps[len(ps)-1].Err, &u) {
+		t.Fatalf("last problem %v is not the count of the rest", ps[len(ps)-1])
+	}
+	if got := ps.Count(); got != 8000 {
+		t.Fatalf("Count = %d, want 8000", got)
+	}
+}

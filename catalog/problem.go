@@ -16,9 +16,11 @@ import (
 //
 // leaving out whatever is not known.
 type Problem struct {
-	Pos   Pos
-	Part  string // the part's id; "" when the part has none (see Index)
-	Index int    // 1-based number of the [[part]] table in its file; 0 when not about one part
+	Pos  Pos
+	Part string // the part's id; "" when the part has none (see Index)
+	// Index is the 1-based number of the [[part]] table in its file; 0 when
+	// not about one part, -1 for the UnlistedError that ends a long list.
+	Index int
 	Field string // top-level key of the part, e.g. "slew"; "" for the part or file as a whole
 	Err   error
 }

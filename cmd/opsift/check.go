@@ -82,7 +82,7 @@ func writeCheckReport(w io.Writer, c *catalog.Catalog, probs catalog.Problems) {
 		fmt.Fprintln(w, "no problems found")
 		return
 	}
-	fmt.Fprintf(w, "%s found:\n", plural(len(probs), "problem"))
+	fmt.Fprintf(w, "%s found:\n", plural(probs.Count(), "problem"))
 	for _, p := range probs {
 		fmt.Fprintln(w, p.Error())
 	}

@@ -90,7 +90,7 @@ func (c *catalogError) Error() string {
 	lines := make([]string, 0, maxShown+1)
 	for i, p := range ps {
 		if i == maxShown {
-			lines = append(lines, fmt.Sprintf("… and %d more catalog problems (see %s)", len(ps)-maxShown, checkHint(c.paths)))
+			lines = append(lines, fmt.Sprintf("… and %d more catalog problems (see %s)", ps.Count()-maxShown, checkHint(c.paths)))
 			break
 		}
 		lines = append(lines, p.Error())
