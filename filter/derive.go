@@ -1,6 +1,7 @@
 package filter
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"strings"
@@ -37,6 +38,12 @@ func Derive(d *Design) (*Plan, error) {
 		sp, err := t.Derive(NewStageInput(s, t), p)
 		if err != nil {
 			return nil, d.errAt(s.Line, "stage %q: %w", s.Name, err)
+		}
+		// Templates with a narrower rule for ref (rail splitter, astable)
+		// have reported it above; this catches a ref off the supply in any.
+		if v, ok := s.Values["ref"]; ok && v.Set && (v.V < p.Rails.Neg || v.V > p.Rails.Pos) {
+			return nil, d.errAt(cmp.Or(v.Line, s.Line), "stage %q: field \"ref\": %s is outside the rails %s … %s, want a reference inside the supply",
+				s.Name, catalog.Format(v.V, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))
 		}
 		sp.Stage, sp.Name, sp.Kind = s, s.Name, s.Kind
 		for i := range sp.Requirements {

@@ -69,10 +69,6 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	if v, ok := in.Num("ref"); ok {
 		ref = v
 	}
-	if ref < p.Rails.Neg || ref > p.Rails.Pos {
-		return sp, fmt.Errorf("field \"ref\": %s is outside the rails %s … %s, want a reference inside the supply",
-			catalog.Format(ref, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))
-	}
 	vp, err := in.Need("signal.peak")
 	if err != nil {
 		return sp, err
