@@ -48,6 +48,9 @@ func WriteFileWith(path string, data []byte, opt WriteOptions) (err error) {
 	if err != nil {
 		return fmt.Errorf("write %s: %w", shown, err)
 	}
+	if stdoutPaths[target] {
+		return writeThrough(target, shown, data) // a link to /dev/stdout
+	}
 	perm := os.FileMode(0o644)
 	if st, serr := os.Stat(target); serr == nil {
 		if err := writable(st, opt); err != nil {
@@ -108,7 +111,8 @@ func writable(st fs.FileInfo, opt WriteOptions) error {
 }
 
 // resolveLinks follows symbolic links from path to the file they end at,
-// which need not exist yet (a dangling link names the file to create).
+// which need not exist yet (a dangling link names the file to create); it
+// stops at a name of standard output.
 func resolveLinks(path string) (string, error) {
 	for range 40 { // the usual kernel limit on links in a path
 		st, err := os.Lstat(path)
@@ -118,8 +122,8 @@ func resolveLinks(path string) (string, error) {
 		if err != nil {
 			return "", err
 		}
-		if st.Mode()&fs.ModeSymlink == 0 {
-			return path, nil
+		if st.Mode()&fs.ModeSymlink == 0 || stdoutPaths[path] {
+			return path, nil // stop at standard output's own names
 		}
 		to, err := os.Readlink(path)
 		if err != nil {
