@@ -27,8 +27,10 @@
 //   - Supply: span min/max = nominal span × (1 ∓ tolerance). A part passes
 //     when its rated supply.min ≤ span_min and span_max ≤ supply.max;
 //     margin = the smaller spare in volts / span_min.
-//   - Rails for headroom: each rail moved toward 0 V by the tolerance,
-//     V+w = pos·(1 − tol), V−w = neg·(1 − tol).
+//   - Rails for headroom: each rail moved toward the other by the
+//     tolerance, V+w = pos − tol·|pos|, V−w = neg + tol·|neg| (toward 0 V
+//     when 0 V lies between them; V+ 12 V, V− 2 V, 10 % gives 10.8 V and
+//     2.2 V, the span shrinks).
 //   - input_range: the signal at the op-amp inputs, ref ± Vp (follower,
 //     non-inverting) or the point ref (inverting: the inputs sit at ref),
 //     must lie within [V−w + input_cm.low, V+w + input_cm.high].

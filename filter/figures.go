@@ -9,6 +9,7 @@ import (
 // Notes the figure rules attach; constant so evaluation never formats text.
 const (
 	noteOT          = "limit over the rated temperature range"
+	noteOTRoom      = "limit over the rated temperature range, used at 25 °C (no 25 °C limit given; the rated range includes it)"
 	noteRoom        = "25 °C limit (no over-temperature limit given)"
 	noteRoomNoDrift = "25 °C limit; no drift figure to move it to temperature"
 	noteDrift       = "25 °C limit + drift·ΔT"
@@ -119,6 +120,8 @@ func (w worst) bigger(s catalog.Spec) Figure {
 		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOT}
 	case s.Min.Set:
 		return Figure{s.Min.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MinOT.Set:
+		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOTRoom}
 	case s.Typ.Set:
 		return Figure{s.Typ.V * w.derate, true, typBasis(s.Source), typNote(s.Source, noteDerate)}
 	}
@@ -141,6 +144,8 @@ func (w worst) smaller(s catalog.Spec) Figure {
 		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOT}
 	case s.Max.Set:
 		return Figure{s.Max.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MaxOT.Set:
+		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOTRoom}
 	case s.Typ.Set:
 		return Figure{s.Typ.V * w.inflate, true, typBasis(s.Source), typNote(s.Source, noteInflate)}
 	}
@@ -150,7 +155,7 @@ func (w worst) smaller(s catalog.Spec) Figure {
 // vos moves the offset to the design's temperature extreme by its drift.
 func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 	f := w.smaller(s)
-	if !f.Known || !w.leaves || f.Note == noteOT {
+	if !f.Known || !w.leaves || isOT(f.Note) {
 		return f
 	}
 	d := math.NaN()
@@ -179,7 +184,7 @@ func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 // gate leakage doubles every FETDoubling kelvin above 25 °C.
 func (w worst) leakage(s catalog.Spec, fet bool, dtHot float64) Figure {
 	f := w.smaller(s)
-	if !f.Known || !fet || dtHot == 0 || f.Note == noteOT {
+	if !f.Known || !fet || dtHot == 0 || isOT(f.Note) {
 		return f
 	}
 	f.V *= math.Exp2(dtHot / FETDoubling)
@@ -204,3 +209,7 @@ func typNote(s catalog.Source, note string) string {
 	}
 	return note
 }
+
+// isOT reports whether a figure came from an over-temperature limit, which
+// already covers the range and is not moved further.
+func isOT(note string) bool { return note == noteOT || note == noteOTRoom }

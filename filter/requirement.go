@@ -82,12 +82,33 @@ type Requirement struct {
 	// template-specific check instead of the built-in rule for Key.
 	// Known false makes the check unknown.
 	Measure func(p *catalog.Part, f *PartFigures) Figure
+	// Aside, when set, computes a per-part quantity shown beside the check
+	// (the transimpedance Cf, the relaxation stage's predicted frequency).
+	// It runs only when checks are kept (not in Options.Summary).
+	Aside func(p *catalog.Part, f *PartFigures) Aside
 }
+
+// Aside is a per-part quantity reported beside a check: Key names it in
+// JSON ("cf", "predicted_freq"), V is SI in Dim; Label introduces it in
+// text ("Cf", "runs at"). The zero value (Key "") is none.
+type Aside struct {
+	Key   string
+	Label string
+	V     float64
+	Dim   catalog.Dim
+}
+
+// The Aside keys, fixed by DESIGN.md "Contract additions" (cf) or used by
+// the JSON writer (predicted_freq).
+const (
+	AsideCf            = "cf"
+	AsidePredictedFreq = "predicted_freq"
+)
 
 // Rails is the supply as the checks use it.
 type Rails struct {
 	Pos, Neg           float64 // nominal rails, V
-	PosWorst, NegWorst float64 // each rail moved toward 0 V by the tolerance
+	PosWorst, NegWorst float64 // each rail moved toward the other by tolerance × its magnitude (RailsInward)
 	Tol                float64 // tolerance, fraction
 	Span               float64 // nominal span Pos − Neg
 	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)

@@ -190,6 +190,7 @@ func TestPredictedFrequencyUsesSwing(t *testing.T) {
 	part := tmplPart("s")
 	part.Output = catalog.Swing{Low: catalog.Some(0), High: catalog.Some(-1.5)}
 	part.Slew = catalog.Spec{Min: catalog.Some(1e12)} // effectively instant
+	part.GBW = catalog.Spec{Min: catalog.Some(1e15)}
 	f := filter.Figures(part, p)
 	got, ok := filter.PredictedFrequency(p, &p.Stages[0], &f)
 	if !ok {
