@@ -129,6 +129,19 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 		}
 		p.InflateTyp = v.V
 	}
+	p.SpeedTempco, p.IbColdTempco = DefaultSpeedTempco, DefaultIbColdTempco
+	if v := d.Policy.SpeedTempco; v.Set {
+		if v.V < 0 || v.V > 0.01 {
+			return d.errAt(v.Line, "field \"policy.speed_tempco\": %q is out of range, want a fraction per kelvin from 0 to 0.01 such as \"0.002\"", v.Raw)
+		}
+		p.SpeedTempco = v.V
+	}
+	if v := d.Policy.IbColdTempco; v.Set {
+		if v.V < 0 || v.V > 0.1 {
+			return d.errAt(v.Line, "field \"policy.ib_cold_tempco\": %q is out of range, want a fraction per kelvin from 0 to 0.1 such as \"0.0125\"", v.Raw)
+		}
+		p.IbColdTempco = v.V
+	}
 	return nil
 }
 

@@ -19,6 +19,10 @@ const (
 	noteInflDrift   = "typical × inflate_typ + drift·ΔT"
 	noteInflFET     = "typical × inflate_typ × 2^(ΔT/10 K), FET input"
 	noteEstimate    = "estimated figure"
+	noteSpeedTemp   = "25 °C limit × (1 − speed_tempco·|ΔT|)"
+	noteTypSpeed    = "typical × derate_typ × (1 − speed_tempco·|ΔT|)"
+	noteBipCold     = "25 °C limit × (1 + ib_cold_tempco·ΔT below 25 °C), bipolar input"
+	noteTypBipCold  = "typical × inflate_typ × (1 + ib_cold_tempco·ΔT below 25 °C), bipolar input"
 )
 
 // Figures returns the worst-case figures of part p at plan's temperature
@@ -59,6 +63,13 @@ func Figures(p *catalog.Part, plan *Plan) PartFigures {
 		Ios:  w.leakage(p.Ios, p.Tech.FETInput(), dtHot),
 	}
 	f.GBWHigh = f.GBW
+	f.GBW = w.speed(f.GBW, plan.SpeedTempco, dtAbs)
+	f.Slew = w.speed(f.Slew, plan.SpeedTempco, dtAbs)
+	if p.Tech == catalog.TechBipolar {
+		dtCold := math.Max(0, RoomTemp-plan.TempLow)
+		f.Ib = w.cold(f.Ib, plan.IbColdTempco, dtCold)
+		f.Ios = w.cold(f.Ios, plan.IbColdTempco, dtCold)
+	}
 	if p.GBW.Typ.Set {
 		f.GBWHigh = Figure{p.GBW.Typ.V, true, typBasis(p.GBW.Source), "typical, not derated (noise bandwidth)"}
 	}
@@ -213,3 +224,34 @@ func typNote(s catalog.Source, note string) string {
 // isOT reports whether a figure came from an over-temperature limit, which
 // already covers the range and is not moved further.
 func isOT(note string) bool { return note == noteOT || note == noteOTRoom }
+
+// speed lowers a GBW or slew figure given at 25 °C by k per kelvin of
+// dtAbs (policy.speed_tempco); over-temperature limits already hold over
+// the range and are left alone.
+func (w worst) speed(f Figure, k, dtAbs float64) Figure {
+	if !f.Known || !w.leaves || k == 0 || isOT(f.Note) {
+		return f
+	}
+	f.V *= math.Max(0, 1-k*dtAbs)
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteSpeedTemp
+	} else {
+		f.Note = noteTypSpeed
+	}
+	return f
+}
+
+// cold raises a bipolar bias or offset current given at 25 °C by k per
+// kelvin below 25 °C (policy.ib_cold_tempco).
+func (w worst) cold(f Figure, k, dtCold float64) Figure {
+	if !f.Known || dtCold == 0 || k == 0 || isOT(f.Note) {
+		return f
+	}
+	f.V *= 1 + k*dtCold
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteBipCold
+	} else {
+		f.Note = noteTypBipCold
+	}
+	return f
+}

@@ -144,6 +144,8 @@ type Plan struct {
 	TempLow, TempHigh float64
 	DerateTyp         float64
 	InflateTyp        float64
+	SpeedTempco       float64 // policy.speed_tempco, 1/K
+	IbColdTempco      float64 // policy.ib_cold_tempco, 1/K
 	// Global holds the design-level requirements (supply, temperature,
 	// hard filters, supply current); Stages hold each stage's own.
 	Global []Requirement

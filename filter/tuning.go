@@ -12,6 +12,20 @@ const (
 	// noise densities, Iq) known only as typical: spread is lopsided, a
 	// max is often 2–5 × typ, so 2 is the mildest sensible guess.
 	DefaultInflateTyp = 2.0
+	// DefaultSpeedTempco is the fraction by which a GBW or slew figure
+	// given at 25 °C (a 25 °C limit or a typical) is lowered per kelvin
+	// away from 25 °C, 1/K. From memory (textbook device behaviour, no
+	// datasheet at hand): MOS mobility falls about as T^−1.5, which takes
+	// a CMOS stage's gm, GBW and slew down roughly 0.2–0.4 %/K when hot;
+	// bipolar parts lose slew at cold as their bias currents fall. 0.2 %/K
+	// in both directions is the mild end, 13 % at 85 °C.
+	DefaultSpeedTempco = 0.002
+	// DefaultIbColdTempco is the fraction by which a bipolar part's Ib
+	// and Ios given at 25 °C are raised per kelvin below 25 °C, 1/K. From
+	// memory: the current gain β of a silicon transistor falls at cold, so
+	// base current rises; bias current of a bipolar input roughly doubles
+	// from 25 °C to −55 °C, 1/80 K = 0.0125/K (linear).
+	DefaultIbColdTempco = 0.0125
 	// DefaultGainError is the allowed gain error ε at the signal
 	// frequency when a stage does not say (DESIGN.md: default 1 %).
 	DefaultGainError = 0.01

@@ -52,11 +52,16 @@ func AstablePeriodLimited(r, c, ref, beta, vol, voh, sr, gbw float64) (float64, 
 	// Linear steps resolve the regeneration; while the drive is clamped at
 	// ±SR the output is a ramp and the step need only resolve the ramp and
 	// RC (it is taken only when all four RK4 stages stay clamped).
-	h := math.Min(1/(beta*wt), rc) / 64
+	lin := math.Min(1/(beta*wt), rc)
+	h := lin / 64
 	hRamp := h
 	if !math.IsInf(sr, 1) {
-		h = math.Min(h, (voh-vol)/sr/64)
-		hRamp = math.Min((voh-vol)/sr, rc) / 64
+		ramp := (voh - vol) / sr
+		// A ramp much shorter than the regeneration is resolved to 1/1024
+		// of the linear time constant; the output is then never clamped
+		// for long.
+		h = math.Min(h, math.Max(ramp/64, lin/1024))
+		hRamp = math.Max(h, math.Min(ramp, rc)/64)
 	}
 	clamped := 0
 	deriv := func(vout, vc float64) (dout, dc float64) {

@@ -149,9 +149,19 @@ func (r *reader) comparator() (stageBuild, error) {
 	if err != nil {
 		return stageBuild{}, err
 	}
+	vol, err := r.need("out_low")
+	if err != nil {
+		return stageBuild{}, err
+	}
+	voh, err := r.need("out_high")
+	if err != nil {
+		return stageBuild{}, err
+	}
 	f := 1 / (comparatorPeriodTransitions * r.sp.Rise)
 	return stageBuild{
-		circuit: sim.Comparator{Threshold: th},
+		// The edge is timed between the stage's levels, as its slew
+		// requirement counts it.
+		circuit: sim.Comparator{Threshold: th, Low: vol, High: voh},
 		input:   sim.Input{Shape: sim.Sine, Peak: (hi - lo) / 2, Offset: (hi + lo) / 2, Freq: f},
 		notes: []string{fmt.Sprintf("driven by a sine over the input range %s … %s at %s (the design gives no frequency; a period of %d allowed transition times)",
 			catalog.Format(lo, catalog.Volt), catalog.Format(hi, catalog.Volt), catalog.Format(f, catalog.Hertz), comparatorPeriodTransitions)},

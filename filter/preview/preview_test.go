@@ -217,11 +217,13 @@ func TestKinds(t *testing.T) {
 				t.Errorf("lowest output %.3g V, want it to fall below ref to −5 V", lo)
 			}
 		}},
-		// Comparator: rail to rail of the part's swing, edges of
-		// (VOH − VOL)·0.8/SR when slew-limited.
+		// Comparator: rail to rail of the part's swing; the edge is timed
+		// 10–90 % between the stage's levels (−10 … 10 V), 0.8·20 V/SR when
+		// slew-limited (5 %: the edge starts at the small overdrive of the
+		// slow input sine, below the slew limit).
 		{"check", "", fast.Output.High.V - fast.Output.Low.V + 24, func(t *testing.T, r *Result) {
 			tt := val(t, "transition_time", r.Metrics.TransitionTime)
-			near(t, "transition_time", tt, 0.8*(r.Amp.VOH-r.Amp.VOL)/r.Amp.SlewRise, 0.1)
+			near(t, "transition_time", tt, 0.8*20/r.Amp.SlewRise, 0.05)
 		}},
 	}
 	for _, tc := range tests {
@@ -244,6 +246,21 @@ func TestKinds(t *testing.T) {
 			}
 		})
 	}
+}
+
+// TestComparatorAtTheSlewBound: a part whose slew is exactly the
+// requirement 0.8·(VOH − VOL)/transition = 0.8·20 V/10 µs = 1.6 V/µs (by
+// hand) must show the allowed 10 µs edge in the preview. Before, the
+// preview timed 10–90 % of the part's full swing (±12 V rails here), which
+// showed 1.2× the allowed time for a part the rule passed.
+func TestComparatorAtTheSlewBound(t *testing.T) {
+	plan := filePlan(t, "testdata/kinds.toml")
+	part := *demoPart(t, "rr4-cmos")
+	part.Slew = catalog.Spec{Min: catalog.Some(1.6e6)}
+	part.GBW = catalog.Spec{Min: catalog.Some(100e6)}
+	r := mustRun(t, plan, "check", &part, Options{})
+	tt := val(t, "transition_time", r.Metrics.TransitionTime)
+	near(t, "transition at the bound", tt, 10e-6, 0.01)
 }
 
 // TestCommonModeNote: the slow quad's inputs (0 V … V+ − 1.5 V) cannot

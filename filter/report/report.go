@@ -194,6 +194,9 @@ func Has(c *filter.Check, p *catalog.Part) string {
 		if math.IsNaN(c.Available) {
 			return "?"
 		}
+		if a := c.Aside; a.Key != "" {
+			return catalog.Format(c.Available, q.Dim) + " (" + a.Label + " " + catalog.Format(a.V, a.Dim) + ")"
+		}
 		return catalog.Format(c.Available, q.Dim)
 	case filter.BoundRange:
 		lo, hi := "?", "?"

@@ -87,7 +87,7 @@ func measureDriven(st *stage, ap *ampParams, r *runner, ideal []float64, in Inpu
 	edges := false
 	switch {
 	case st.kind == kindComparator:
-		eLo, eHi, edges = ap.vol, ap.voh, true
+		eLo, eHi, edges = st.edgeLo, st.edgeHi, true
 	case in.Shape == Square:
 		n := opt.PointsPerPeriod
 		a, b := 0.0, 0.0
