@@ -73,6 +73,7 @@ iout = { typ = "30 mA", min = "10 mA" }             # output (short-circuit) cur
 vdiff_max = "30 V"               # largest allowed differential input voltage
 cload = "100 pF"                 # largest capacitive load it stays stable with
 cin = "3 pF"                     # input capacitance
+en_corner = "200 Hz"             # 1/f corner of en (optional)
 datasheet = "https://example.invalid/ex-gp2.pdf"
 notes = "Invented example. Replace with a real part's datasheet figures."
 

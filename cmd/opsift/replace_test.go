@@ -161,8 +161,8 @@ func TestReplaceJSONContract(t *testing.T) {
 			t.Errorf("supply_max field %+v", f)
 		}
 	}
-	if len(c.Fields) != 21 {
-		t.Errorf("%d fields, want 21", len(c.Fields))
+	if len(c.Fields) != 23 {
+		t.Errorf("%d fields, want 23", len(c.Fields))
 	}
 }
 
