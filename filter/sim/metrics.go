@@ -42,6 +42,8 @@ type Metrics struct {
 	// Notes are messages for the user: clipping, common-mode excursions,
 	// an output that has not settled, an oscillator that does not start.
 	Notes []string `json:"notes,omitempty"`
+	// PointsPerPeriod is the grid the metrics were measured on.
+	PointsPerPeriod int `json:"points_per_period"`
 }
 
 func ptr(v float64) *float64 { return &v }

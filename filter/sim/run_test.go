@@ -62,13 +62,13 @@ func TestMetricsJSON(t *testing.T) {
 		want []string
 	}{
 		{"follower sine", Follower{}, Input{Shape: Sine, Peak: 1, Freq: 100e3},
-			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "peak_error", "slewing_fraction", "thd"}},
+			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "peak_error", "points_per_period", "slewing_fraction", "thd"}},
 		{"inverting square", Inverting{Rf: 2e3, Rin: 1e3}, Input{Shape: Square, Peak: 0.5, Freq: 10e3},
-			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "peak_error", "slewing_fraction", "transition_time"}},
+			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "peak_error", "points_per_period", "slewing_fraction", "transition_time"}},
 		{"comparator", Comparator{}, Input{Shape: Sine, Peak: 1, Freq: 1e3},
-			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "slewing_fraction", "transition_time"}},
+			[]string{"ideal_pp", "input_high", "input_low", "output_pp", "points_per_period", "slewing_fraction", "transition_time"}},
 		{"relaxation", Relaxation{R: 10e3, C: 1e-9, R1: 10e3, R2: 10e3}, Input{},
-			[]string{"duty", "frequency", "ideal_frequency", "ideal_pp", "input_high", "input_low", "output_pp", "slewing_fraction"}},
+			[]string{"duty", "frequency", "ideal_frequency", "ideal_pp", "input_high", "input_low", "output_pp", "points_per_period", "slewing_fraction"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			w := run(t, tc.c, testAmp, tc.in)
