@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/circuit"
 )
 
 // Notes the figure rules attach; constant so evaluation never formats text.
@@ -144,7 +145,7 @@ func (w worst) bigger(s catalog.Spec) Figure {
 func (w worst) biggerDB(s catalog.Spec) Figure {
 	f := w.bigger(s)
 	if f.Known && f.Basis != BasisGuaranteed {
-		f.V = s.Typ.V + 20*math.Log10(w.derate)
+		f.V = s.Typ.V + circuit.DB(w.derate)
 	}
 	return f
 }

@@ -172,7 +172,7 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			return Aside{}
 		},
 		Why: fmt.Sprintf("period ≤ (1 + ε)·T on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
-			catalog.Format(a.share, catalog.Ratio), b, s(1/(2*math.Pi*gbw*beta)), catalog.Format(sp.Freq, catalog.Hertz))})
+			catalog.Format(a.share, catalog.Ratio), b, s(circuit.RegenerationTimeConstant(gbw, beta)), catalog.Format(sp.Freq, catalog.Hertz))})
 	add(Requirement{Key: KeyVdiff, Bound: BoundMin, Value: circuit.AstableVdiff(beta, a.vol, a.voh), Dim: catalog.Volt, Measure: measureVdiff,
 		Why: fmt.Sprintf("β·(VOH − VOL) = %s·(%s − %s), the step at each switching instant", b, W(a.voh), W(a.vol))})
 	i := circuit.AstableOutputCurrent(a.r, a.r1, a.r2, a.ref, a.vol, a.voh)

@@ -135,7 +135,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 	gbw := circuit.GBWForTIA(t.rf, t.cin, t.f)
 	cf := circuit.FeedbackCapForTIAFlat(t.rf, t.cin, gbw)
 	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out",
-		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(2*math.Pi*t.rf*t.cin*t.f*t.f, catalog.Hertz))
+		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(circuit.GBWForTIANoCf(t.rf, t.cin, t.f), catalog.Hertz))
 	tc := t
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
 		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, tc, gbw) },

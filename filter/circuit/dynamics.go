@@ -28,6 +28,14 @@ func FullPowerBandwidth(sr, vpeak float64) float64 {
 	return sr / (2 * math.Pi * vpeak)
 }
 
+// RegenerationTimeConstant returns the time constant 1/(2π·GBW·β) with
+// which the output of a single-pole op-amp with positive feedback β leaves
+// its level after a switch (the growth e^(t/τ) of the astable's linear
+// phase; see AstablePeriodLimited).
+func RegenerationTimeConstant(gbw, beta float64) float64 {
+	return 1 / (2 * math.Pi * gbw * beta)
+}
+
 // ClosedLoopBandwidth returns the −3 dB bandwidth of a loop around a
 // single-pole op-amp, f3 = GBW/NG.
 func ClosedLoopBandwidth(gbw, ng float64) float64 {

@@ -23,7 +23,7 @@ import "math"
 // which neglects Cf beside Cin, is its lower bound and falls short when
 // Cf is not ≪ Cin.
 func GBWForTIA(rf, cin, f float64) float64 {
-	lo := 2 * math.Pi * rf * cin * f * f // BandwidthTIA(lo) ≤ f: Cf only lowers it
+	lo := GBWForTIANoCf(rf, cin, f) // BandwidthTIA(lo) ≤ f: Cf only lowers it
 	hi := 2 * lo
 	for BandwidthTIA(rf, cin, hi) < f {
 		lo, hi = hi, 2*hi
@@ -40,6 +40,13 @@ func GBWForTIA(rf, cin, f float64) float64 {
 		}
 	}
 	return hi
+}
+
+// GBWForTIANoCf returns the shortcut 2π·Rf·Cin·f², the GBW that would
+// give the bandwidth f if the feedback capacitor added nothing to Cin: a
+// lower bound on GBWForTIA, shown beside it so the user sees what Cf costs.
+func GBWForTIANoCf(rf, cin, f float64) float64 {
+	return 2 * math.Pi * rf * cin * f * f
 }
 
 // BandwidthTIA returns the −3 dB bandwidth of a transimpedance stage on an

@@ -116,3 +116,11 @@ func TestTIA(t *testing.T) {
 		}
 	})
 }
+
+func TestGBWForTIANoCf(t *testing.T) {
+	// 2π·1 MΩ·100 pF·(100 kHz)² = 6.2832 MHz (by hand), below the need with Cf.
+	assertRel(t, "shortcut", GBWForTIANoCf(1e6, 100e-12, 100e3), 6283185.307, 1e-9)
+	if GBWForTIA(1e6, 100e-12, 100e3) <= GBWForTIANoCf(1e6, 100e-12, 100e3) {
+		t.Error("need with Cf not above the shortcut")
+	}
+}

@@ -2,10 +2,10 @@ package preview
 
 import (
 	"fmt"
-	"math"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/circuit"
 	"github.com/opsift/opsift/filter/sim"
 )
 
@@ -199,7 +199,7 @@ func (r *reader) sallenKey() (stageBuild, error) {
 		if c.C2, err = r.need("c2"); err != nil {
 			return stageBuild{}, err
 		}
-		f0 = 1 / (2 * math.Pi * math.Sqrt(c.R1*c.R2*c.C1*c.C2))
+		f0 = circuit.SallenKeyF0(c.R1, c.R2, c.C1, c.C2)
 	} else {
 		var err error
 		if f0, err = r.need("f0"); err != nil {
@@ -208,12 +208,9 @@ func (r *reader) sallenKey() (stageBuild, error) {
 		if q, err = r.need("q"); err != nil {
 			return stageBuild{}, err
 		}
-		// Equal resistors: C1 = 2Q/(ω0·R), C2 = 1/(2Q·ω0·R) give
-		// f0 = 1/(2π·R·√(C1C2)) and Q = √(C1/C2)/2 (Sallen & Key, 1955;
-		// from memory).
-		w0 := 2 * math.Pi * f0
+		// Equal resistors (circuit.SallenKeyEqualR).
 		c.R1, c.R2 = defaultR, defaultR
-		c.C1, c.C2 = 2*q/(w0*defaultR), 1/(2*q*w0*defaultR)
+		c.C1, c.C2 = circuit.SallenKeyEqualR(defaultR, f0, q)
 	}
 	b := stageBuild{circuit: c,
 		input: sim.Input{Shape: sim.Sine, Peak: r.sp.Peak, Freq: f0, Offset: r.ref()},
@@ -257,7 +254,7 @@ func (r *reader) transimpedance(part *catalog.Part, worst *filter.PartFigures) (
 	// A light step, shown over a fixed number of the design's rise times
 	// so that parts share one time axis and a slow part is seen not to
 	// settle in time.
-	rise := 0.35 / bw
+	rise := circuit.RiseBandwidth / bw
 	dur := tiaStepRises * rise
 	return stageBuild{
 		circuit:  sim.Transimpedance{Rf: rf, Cf: cf, Cin: cin, Ref: r.ref()},
