@@ -127,10 +127,10 @@ func (d *Design) designParams() []designParam {
 		{Param{Key: "policy.inflate_typ", Label: "typical inflation", Kind: Quantity, Dim: catalog.Dimensionless,
 			Default: fmt.Sprint(DefaultInflateTyp),
 			Help:    "smaller-is-better figure known only as typical is multiplied by this"}, &d.Policy.InflateTyp},
-		{Param{Key: "policy.speed_tempco", Label: "GBW/slew loss per K", Kind: Quantity, Dim: catalog.Dimensionless,
+		{Param{Key: "policy.speed_tempco", Label: "GBW/slew loss /K", Kind: Quantity, Dim: catalog.Dimensionless,
 			Default: fmt.Sprint(DefaultSpeedTempco),
 			Help:    "a 25 °C GBW or slew figure is lowered by this fraction per K away from 25 °C"}, &d.Policy.SpeedTempco},
-		{Param{Key: "policy.ib_cold_tempco", Label: "bipolar Ib rise per K cold", Kind: Quantity, Dim: catalog.Dimensionless,
+		{Param{Key: "policy.ib_cold_tempco", Label: "bipolar Ib cold/K", Kind: Quantity, Dim: catalog.Dimensionless,
 			Default: fmt.Sprint(DefaultIbColdTempco),
 			Help:    "a 25 °C bipolar Ib or Ios figure is raised by this fraction per K below 25 °C"}, &d.Policy.IbColdTempco},
 	}
