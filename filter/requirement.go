@@ -88,22 +88,65 @@ type Requirement struct {
 	Aside func(p *catalog.Part, f *PartFigures) Aside
 }
 
-// Aside is a per-part quantity reported beside a check: Key names it in
-// JSON ("cf", "predicted_freq"), V is SI in Dim; Label introduces it in
-// text ("Cf", "runs at"). The zero value (Key "") is none.
+// Aside is a per-part quantity reported beside a check, V in SI units of
+// its kind. The zero value (AsideNone) is none. It is kept small: every
+// check of every part carries one.
 type Aside struct {
-	Key   string
-	Label string
-	V     float64
-	Dim   catalog.Dim
+	Kind AsideKind
+	V    float64
 }
 
-// The Aside keys, fixed by DESIGN.md "Contract additions" (cf) or used by
-// the JSON writer (predicted_freq).
+// AsideKind names what an Aside holds.
+type AsideKind uint8
+
+// The Aside kinds.
 const (
-	AsideCf            = "cf"
-	AsidePredictedFreq = "predicted_freq"
+	AsideNone          AsideKind = iota
+	AsideCf                      // transimpedance feedback capacitor, F
+	AsidePredictedFreq           // relaxation stage's predicted frequency, Hz
 )
+
+// Key is the JSON field of the kind: "cf" (fixed by DESIGN.md "Contract
+// additions"), "predicted_freq", or "" for none.
+func (k AsideKind) Key() string {
+	switch k {
+	case AsideCf:
+		return "cf"
+	case AsidePredictedFreq:
+		return "predicted_freq"
+	}
+	return ""
+}
+
+// Label introduces the quantity in text: "Cf", "runs at".
+func (k AsideKind) Label() string {
+	switch k {
+	case AsideCf:
+		return "Cf"
+	case AsidePredictedFreq:
+		return "runs at"
+	}
+	return ""
+}
+
+// Dim is the quantity's dimension.
+func (k AsideKind) Dim() catalog.Dim {
+	switch k {
+	case AsideCf:
+		return catalog.Farad
+	case AsidePredictedFreq:
+		return catalog.Hertz
+	}
+	return catalog.Dimensionless
+}
+
+// Text formats the quantity with its label, "Cf 2.2 pF"; "" for none.
+func (a Aside) Text() string {
+	if a.Kind == AsideNone {
+		return ""
+	}
+	return a.Kind.Label() + " " + catalog.Format(a.V, a.Kind.Dim())
+}
 
 // Rails is the supply as the checks use it.
 type Rails struct {

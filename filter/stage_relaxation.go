@@ -167,7 +167,7 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
 		Aside: func(_ *catalog.Part, f *PartFigures) Aside {
 			if fr, ok := a.predicted(p, f); ok {
-				return Aside{Key: AsidePredictedFreq, Label: "runs at", V: fr, Dim: catalog.Hertz}
+				return Aside{Kind: AsidePredictedFreq, V: fr}
 			}
 			return Aside{}
 		},

@@ -238,7 +238,7 @@ func TestRelaxationGBW(t *testing.T) {
 	if c.Pass {
 		t.Errorf("1 MHz part passes the astable gbw check (margin %g); ngspice shows it 11.6 %% slow", c.Margin)
 	}
-	if c.Aside.Key != "predicted_freq" {
+	if c.Aside.Kind.Key() != "predicted_freq" {
 		t.Fatalf("aside %+v, want the predicted frequency", c.Aside)
 	}
 	tmplNear(t, "predicted frequency vs ngspice 40229.4 Hz", c.Aside.V, 40229.4, 5e-4)

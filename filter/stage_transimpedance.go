@@ -143,7 +143,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 			if !f.GBW.Known || !(f.GBW.V > 0) {
 				return Aside{}
 			}
-			return Aside{Key: AsideCf, Label: "Cf", V: circuit.FeedbackCapForTIAFlat(tc.rf, tc.cin+partCin(part), f.GBW.V), Dim: catalog.Farad}
+			return Aside{Kind: AsideCf, V: circuit.FeedbackCapForTIAFlat(tc.rf, tc.cin+partCin(part), f.GBW.V)}
 		},
 		Why: gwhy})
 	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(vo, sp.Rise), Dim: catalog.VoltPerSecond,

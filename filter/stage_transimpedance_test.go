@@ -85,7 +85,7 @@ func TestTransimpedanceBandwidth(t *testing.T) {
 		t.Errorf("peak gain %.4f × Rf, want a maximally flat response (no peaking)", peak)
 	}
 	c := tmplCheck(t, p, part, filter.KeyGBW)
-	if !c.Pass || c.Aside.Key != "cf" {
+	if !c.Pass || c.Aside.Kind.Key() != "cf" {
 		t.Errorf("part at the requirement: pass %v, aside %+v; want a pass carrying its cf", c.Pass, c.Aside)
 	}
 	tmplNear(t, "check's Cf", c.Aside.V, cf, 1e-12)

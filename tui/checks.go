@@ -132,8 +132,8 @@ func (m *Model) checksLines(r *filter.Result, w int) []string {
 			if note == "" {
 				note = st.Why.Render(c.Req.Why)
 			}
-			if a := c.Aside; a.Key != "" {
-				note = a.Label + " " + catalog.Format(a.V, a.Dim) + " · " + note
+			if a := c.Aside.Text(); a != "" {
+				note = a + " · " + note
 			}
 			margin := marginText(c.Margin)
 			if c.Status == filter.StatusFail {

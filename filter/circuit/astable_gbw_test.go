@@ -103,3 +103,19 @@ func TestGBWForAstable(t *testing.T) {
 		t.Errorf("beta 1.5: err = %v, want a DomainError", err)
 	}
 }
+
+// The demo clock (data/designs/mixed-templates.toml: R 15 kΩ, C 10 nF,
+// β = 1/3, 0…12 V around 6 V) asks 599.8 kHz for 5 %. ngspice on the
+// macromodel at that GBW (levels shifted to ±6 V, 1000 V/µs) runs at
+// 4580.1 Hz; the ideal 2RC·ln 2 period gives 4808.98 Hz by hand, and
+// 4808.98/1.05 = 4579.98 Hz.
+func TestGBWForAstableDemoClockAgainstNgspice(t *testing.T) {
+	g, err := GBWForAstable(15e3, 10e-9, 6, 1.0/3, 0, 12, 0.05)
+	if err != nil {
+		t.Fatal(err)
+	}
+	assertRel(t, "requirement (golden every-template/clock)", g, 599822, 1e-5)
+	ideal := 1 / (2 * 15e3 * 10e-9 * math.Log(2))
+	assertRel(t, "ideal by hand", ideal, 4808.98, 1e-5)
+	assertRel(t, "ngspice at the requirement", ngspiceFrequency(t, "relax-clock-gbw600k"), ideal/1.05, 2e-4)
+}

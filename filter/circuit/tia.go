@@ -18,28 +18,44 @@ import "math"
 // GBWForTIA returns the gain-bandwidth a transimpedance stage needs for a
 // maximally flat (Butterworth, Q = 1/√2) response whose −3 dB bandwidth is
 // f, with the matching feedback capacitor FeedbackCapForTIAFlat in the
-// loop: the GBW at which BandwidthTIA equals f, found by bisection (the
-// bandwidth rises monotonically with GBW). The shortcut 2π·Rf·Cin·f²,
+// loop: the GBW at which BandwidthTIA equals f, found by Newton's method
+// inside a bisection bracket (the bandwidth rises monotonically with GBW). The shortcut 2π·Rf·Cin·f²,
 // which neglects Cf beside Cin, is its lower bound and falls short when
 // Cf is not ≪ Cin.
 func GBWForTIA(rf, cin, f float64) float64 {
+	// Newton's method on ln(bandwidth) against ln(GBW), kept inside a
+	// bracket [lo, hi] that bisection falls back to; the bandwidth grows
+	// as GBW^0.5…0.75, so a few steps reach full precision.
 	lo := GBWForTIANoCf(rf, cin, f) // BandwidthTIA(lo) ≤ f: Cf only lowers it
 	hi := 2 * lo
 	for BandwidthTIA(rf, cin, hi) < f {
 		lo, hi = hi, 2*hi
 	}
-	for range 100 {
-		mid := math.Sqrt(lo * hi)
-		if BandwidthTIA(rf, cin, mid) < f {
-			lo = mid
-		} else {
-			hi = mid
-		}
-		if hi-lo <= 1e-13*hi {
+	miss := func(g float64) float64 { return math.Log(BandwidthTIA(rf, cin, g) / f) }
+	x := math.Log(hi)
+	for range 60 {
+		m := miss(math.Exp(x))
+		if math.Abs(m) < 1e-12 {
 			break
 		}
+		if m < 0 {
+			lo = math.Exp(x)
+		} else {
+			hi = math.Exp(x)
+		}
+		const d = 1e-7
+		slope := (miss(math.Exp(x+d)) - m) / d
+		next := x - m/slope
+		if !(slope > 0) || next <= math.Log(lo) || next >= math.Log(hi) {
+			next = (math.Log(lo) + math.Log(hi)) / 2
+		}
+		if math.Abs(next-x) < 1e-13 {
+			x = next
+			break
+		}
+		x = next
 	}
-	return hi
+	return math.Exp(x)
 }
 
 // GBWForTIANoCf returns the shortcut 2π·Rf·Cin·f², the GBW that would

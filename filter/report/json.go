@@ -166,7 +166,7 @@ func jsonChecks(r *filter.Result) []jsonCheck {
 				j.Have = Has(c, r.Part)
 			}
 		}
-		switch c.Aside.Key {
+		switch c.Aside.Kind {
 		case filter.AsideCf:
 			j.Cf = val(c.Aside.V)
 		case filter.AsidePredictedFreq:

@@ -194,8 +194,8 @@ func Has(c *filter.Check, p *catalog.Part) string {
 		if math.IsNaN(c.Available) {
 			return "?"
 		}
-		if a := c.Aside; a.Key != "" {
-			return catalog.Format(c.Available, q.Dim) + " (" + a.Label + " " + catalog.Format(a.V, a.Dim) + ")"
+		if c.Aside.Kind != filter.AsideNone {
+			return catalog.Format(c.Available, q.Dim) + " (" + c.Aside.Text() + ")"
 		}
 		return catalog.Format(c.Available, q.Dim)
 	case filter.BoundRange:
