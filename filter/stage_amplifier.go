@@ -77,6 +77,16 @@ func readNoiseBand(in *StageInput) (band float64, order int, err error) {
 	return band, order, nil
 }
 
+// tiaBandText describes the band of a transimpedance noise check, which
+// integrates the filter's own response rather than its brick-wall
+// equivalent.
+func tiaBandText(band float64, order int) string {
+	if band == 0 || order == 0 {
+		return noiseBandText(band, order, "the stage's own response")
+	}
+	return fmt.Sprintf("band: order-%d Butterworth response at %s", order, catalog.Format(band, catalog.Hertz))
+}
+
 // noiseBandText describes the band for a why line.
 func noiseBandText(band float64, order int, none string) string {
 	switch {

@@ -170,7 +170,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		add(Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaNoise(part, f, tc, temp, band, order) },
 			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), flat Cf per part, T = %.4g K, %s",
-				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), noiseBandText(band, order, "the stage's own response"))})
+				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), tiaBandText(band, order))})
 	}
 	return sp, nil
 }
