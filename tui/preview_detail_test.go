@@ -100,11 +100,11 @@ func TestPreviewSlewLimited(t *testing.T) {
 // 15 kΩ and 10 nF. The worst-case swing need not be quite symmetric, so
 // the check allows 10 %.
 func TestPreviewOscillator(t *testing.T) {
-	b, err := fs.ReadFile(data.Designs, "mixed-templates.toml")
+	b, err := fs.ReadFile(data.Designs, "pickup-counter-6v.toml")
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := filter.DecodeDesign("mixed-templates.toml", b)
+	d, err := filter.DecodeDesign("pickup-counter-6v.toml", b)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -8,7 +8,7 @@ import (
 	"testing"
 )
 
-const previewMixed = "../../data/designs/mixed-templates.toml"
+const previewMixed = "../../data/designs/pickup-counter-6v.toml"
 
 func TestPreviewGolden(t *testing.T) {
 	tests := []struct {

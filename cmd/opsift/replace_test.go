@@ -12,7 +12,7 @@ import (
 
 const (
 	replaceCat    = "testdata/replace_quads.toml"
-	replaceDesign = "testdata/replace_rail12.toml"
+	replaceDesign = "testdata/replace_split5.toml"
 )
 
 // TestReplaceGolden pins every output format, with and without a design.
