@@ -105,7 +105,7 @@ func (m *Model) statusView(w int) string {
 	if ansi.StringWidth(left)+1+len([]rune(note))+1 > w {
 		note = cautionStatusShort
 	}
-	right := st.Caution.Render(note) + " "
+	right := " " + st.Caution.Render(note) + " "
 	return fit(left, max(0, w-ansi.StringWidth(right))) + right
 }
 
@@ -152,9 +152,9 @@ func (m *Model) helpOverlay(w, h int) []string {
 		"margin: spare at worst case, ≥ 0 passes; fmax: highest sine frequency at",
 		"the stage's amplitude at which slew and gbw still pass",
 	}, "\n")
-	legend += "\n\n" + strings.Join(wrap("Caution: "+report.Caution, 76), "\n")
+	legend += "\n" + strings.Join(wrap("Caution: "+report.Caution, 76), "\n")
 	full := m.help.FullHelpView(m.ui.keys.FullHelp())
-	content := st.Section.Render("Keys") + st.Muted.Render("  (any key closes this)") + "\n" + full + "\n\n" +
+	content := st.Section.Render("Keys") + st.Muted.Render("  (any key closes this)") + "\n" + full + "\n" +
 		st.Section.Render("Markers") + "\n" + legend
 	inner := min(w-4, lipgloss.Width(content))
 	boxed := st.Overlay.Width(inner + 2).Render(content)
