@@ -37,8 +37,8 @@ func demoParts(t *testing.T) map[string]*catalog.Part {
 	return byID
 }
 
-// demoPlan decodes and derives one embedded design.
-func demoPlan(t *testing.T, name string) *filter.Plan {
+// demoDesign decodes one embedded design.
+func demoDesign(t *testing.T, name string) *filter.Design {
 	t.Helper()
 	b, err := fs.ReadFile(data.Designs, name)
 	if err != nil {
@@ -48,7 +48,13 @@ func demoPlan(t *testing.T, name string) *filter.Plan {
 	if err != nil {
 		t.Fatalf("decode: %v", err)
 	}
-	plan, err := filter.Derive(d)
+	return d
+}
+
+// demoPlan decodes and derives one embedded design.
+func demoPlan(t *testing.T, name string) *filter.Plan {
+	t.Helper()
+	plan, err := filter.Derive(demoDesign(t, name))
 	if err != nil {
 		t.Fatalf("derive %s: %v", name, err)
 	}
@@ -265,14 +271,7 @@ func TestDefaultDesignSlewStory(t *testing.T) {
 func TestDemoDesignScenarios(t *testing.T) {
 	for _, name := range data.DesignNames() {
 		t.Run(name, func(t *testing.T) {
-			b, err := fs.ReadFile(data.Designs, name)
-			if err != nil {
-				t.Fatal(err)
-			}
-			d, err := filter.DecodeDesign(name, b)
-			if err != nil {
-				t.Fatal(err)
-			}
+			d := demoDesign(t, name)
 			plan := demoPlan(t, name)
 			if plan.Rails.Neg == 0 && math.Abs(plan.Rails.Pos-12) < 0.5 {
 				t.Errorf("a 0–%g V supply: pick another scenario", plan.Rails.Pos)
@@ -289,15 +288,7 @@ func TestDemoDesignScenarios(t *testing.T) {
 	t.Run("every template has a demo", func(t *testing.T) {
 		have := map[string]bool{}
 		for _, name := range data.DesignNames() {
-			b, err := fs.ReadFile(data.Designs, name)
-			if err != nil {
-				t.Fatal(err)
-			}
-			d, err := filter.DecodeDesign(name, b)
-			if err != nil {
-				t.Fatal(err)
-			}
-			for _, s := range d.Stages {
+			for _, s := range demoDesign(t, name).Stages {
 				have[s.Kind] = true
 			}
 		}

@@ -128,18 +128,6 @@ func demoRanked(t *testing.T, name string) (*filter.Plan, []filter.Result) {
 	return p, rs
 }
 
-// requirementOf returns a stage's requirement of a key, or fails.
-func requirementOf(t *testing.T, p *filter.Plan, stage string, key filter.Key) filter.Requirement {
-	t.Helper()
-	for _, r := range p.Requirements() {
-		if r.Stage == stage && r.Key == key {
-			return r
-		}
-	}
-	t.Fatalf("no %s requirement in stage %q", key, stage)
-	return filter.Requirement{}
-}
-
 // TestPickupCounterDemo derives and ranks the embedded demo design that
 // puts three templates on one quad. By hand (formulas in the README,
 // Sedra & Smith for the astable, from memory): the detector's edges need
@@ -166,7 +154,7 @@ func TestPickupCounterDemo(t *testing.T) {
 		{"detect", 0.8 * 6 / 2.5e-6},
 		{"clock", 2 * 12 / (0.05 * period)},
 	} {
-		if got := requirementOf(t, p, tt.stage, filter.KeySlew).Value; math.Abs(got-tt.want) > 1e-9*tt.want {
+		if got := requirement(t, p, tt.stage, filter.KeySlew).Value; math.Abs(got-tt.want) > 1e-9*tt.want {
 			t.Errorf("%s slew requirement %g V/s, want %g V/s", tt.stage, got, tt.want)
 		}
 	}
@@ -202,7 +190,7 @@ func TestPickupCounterDemo(t *testing.T) {
 func TestTurbidityDemo(t *testing.T) {
 	p, rs := demoRanked(t, "turbidity-5v.toml")
 	want := 2 * math.Pi * 1e6 * 22e-12 * 1e4 * 1e4
-	if got := requirementOf(t, p, "photo", filter.KeyGBW).Value; math.Abs(got-want) > 1e-9*want {
+	if got := requirement(t, p, "photo", filter.KeyGBW).Value; math.Abs(got-want) > 1e-9*want {
 		t.Errorf("photo gbw requirement %g Hz, want %g Hz", got, want)
 	}
 	seen := 0
