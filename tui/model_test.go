@@ -446,21 +446,28 @@ func TestEmbeddedPartIsReadOnly(t *testing.T) {
 	}
 }
 
-// TestEditorCommand: vi-like editors get +LINE before the file.
+// TestEditorCommand: vi-like editors get +LINE, then "--", then the file
+// as an absolute path, so a hostile file name such as "+!touch X;.toml"
+// (which vi would run as an ex command) is only ever a file name.
 func TestEditorCommand(t *testing.T) {
+	const hostile = "+!touch X;.toml"
+	abs, err := filepath.Abs(hostile)
+	if err != nil {
+		t.Fatal(err)
+	}
 	tests := []struct {
 		name, visual, editor string
 		want                 []string
 	}{
-		{"vi at line", "", "vi", []string{"vi", "+12", "f.toml"}},
-		{"visual wins", "vi", "nano", []string{"vi", "+12", "f.toml"}},
-		{"flags kept", "", "vi -n", []string{"vi", "-n", "+12", "f.toml"}},
-		{"other editor gets the file only", "", "cat", []string{"cat", "f.toml"}},
+		{"vi at line", "", "vi", []string{"vi", "+12", "--", abs}},
+		{"visual wins", "vi", "nano", []string{"vi", "+12", "--", abs}},
+		{"flags kept", "", "vi -n", []string{"vi", "-n", "+12", "--", abs}},
+		{"other editor gets the file only", "", "cat", []string{"cat", abs}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			env := map[string]string{"VISUAL": tc.visual, "EDITOR": tc.editor}
-			cmd, err := editorCommand(func(k string) string { return env[k] }, "f.toml", 12)
+			cmd, err := editorCommand(func(k string) string { return env[k] }, hostile, 12)
 			if err != nil {
 				t.Skipf("editor not installed: %v", err)
 			}

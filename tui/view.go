@@ -7,6 +7,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -63,15 +64,18 @@ func (m *Model) View() string {
 	default:
 		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
 	}
-	return strings.Join(lines, "\n")
+	// Data strings are escaped where they are drawn; safe.Styled is the
+	// net under that: nothing but the program's own styling reaches the
+	// terminal.
+	return safe.Styled(strings.Join(lines, "\n"))
 }
 
 // titleView is the top line: the program, the design file and the sources.
 func (m *Model) titleView(w int) string {
 	st := &m.ui.st
-	design := m.cfg.DesignFile
+	design := safe.Text(m.cfg.DesignFile)
 	if design == "" {
-		design = m.design.Name + " (demo design)"
+		design = safe.Text(m.design.Name) + " (demo design)"
 	}
 	right := " ? keys "
 	left := st.Title.Render(" opsift") + st.Muted.Render(" · design "+design+" · catalog "+sourceName(m.cat.Sources))

@@ -25,7 +25,10 @@ const starterCatalog = `# opsift catalog: op-amp parameter sets, one [[part]] ta
 #   "0.5 V/us"  "1.2 MHz"  "250 nA"  "10 kOhm"  "100 pF"  "-40 C"
 #   "35 nV/rtHz"  "0.1 pA/rtHz"  "7 uV/K"  "100 dB"  (or "100 V/mV" for aol)
 # A bare number where a unit belongs is an error, so a figure can never be
-# read in the wrong unit.
+# read in the wrong unit. A value far outside what any op-amp has (a GBW of
+# "5 mHz", a slew of "10 MV/us") is an error naming the plausible range, and
+# text holding control characters (escape sequences) is refused: catalogs
+# are shared, so opsift never passes such text to a terminal.
 #
 # FIGURES (gbw, slew, aol, vos, vos_drift, ib, ios, en, in, iq, iout) are
 # inline tables with any of:

@@ -35,8 +35,8 @@ func TestPreviewGolden(t *testing.T) {
 }
 
 // TestPreviewJSONFields pins the contract's field names and SI values: the
-// demo gain stage is 10 Vpp at 20 kHz, so ideal_pp is 10 (V) and the
-// arrays cover whole periods of 50 µs.
+// demo gain stage is 5.58 Vpp at 24 kHz, so ideal_pp is 5.58 (V) and the
+// arrays cover whole periods of 41.7 µs.
 func TestPreviewJSONFields(t *testing.T) {
 	r := runOpsift(t, nil, "preview", "gp4-bip", "--stage", "gain", "--format", "json")
 	if r.code != 0 {
@@ -99,7 +99,9 @@ func TestPreviewErrors(t *testing.T) {
 		{"missing design", []string{"gp4-bip", "--design", filepath.Join(dir, "none.toml")}, 2, "none.toml: no such file"},
 		{"broken design", []string{"gp4-bip", "--design", broken}, 2, `broken.toml:7: stage "a": field "signal.freq": "fast"`},
 		{"bad format", []string{"gp4-bip", "--format", "xml"}, 2, "want text or json"},
-		{"bad width", []string{"gp4-bip", "--width", "3"}, 2, "want 20 columns or more"},
+		{"bad width", []string{"gp4-bip", "--width", "3"}, 2, "want 20 to 1000 columns"},
+		{"huge height", []string{"gp4-bip", "--height", "100000000"}, 2, "want 4 to 500 lines"},
+		{"huge points", []string{"gp4-bip", "--points", "1000000000"}, 2, "want 2 to 100000"},
 		{"bad flag", []string{"gp4-bip", "--nope"}, 2, "flag provided but not defined"},
 		{"bad catalog", []string{"gp4-bip", "--catalog", filepath.Join(dir, "none")}, 2, "cannot read catalog"},
 	}

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -38,6 +39,9 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 			head = append(head, name+" margin")
 		}
 	}
+	for i := range head {
+		head[i] = csvText(head[i])
+	}
 	head = append(head, CautionColumn)
 	if err := cw.Write(head); err != nil {
 		return err
@@ -55,9 +59,9 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 		for _, c := range failingOrUnknown(r, doc.Strict) {
 			failing = append(failing, CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
 		}
-		row := []string{rank, r.Part.ID, r.Part.Name, strconv.FormatBool(r.Pass), csvNum(r.WorstMargin), binding,
-			strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
-			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), strings.Join(failing, ";")}
+		row := []string{rank, csvText(r.Part.ID), csvText(r.Part.Name), strconv.FormatBool(r.Pass), csvNum(r.WorstMargin),
+			csvText(binding), strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
+			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), csvText(strings.Join(failing, ";"))}
 		for j := range r.Checks {
 			c := &r.Checks[j]
 			switch c.Req.Bound {
@@ -74,6 +78,18 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvText makes a text cell safe to open in a spreadsheet: unsafe runes
+// are escaped (safe.Text), and a cell a spreadsheet would read as a
+// formula (starting with =, +, -, @, tab or CR) gets a leading apostrophe,
+// the usual neutralisation. Only text cells pass through here: numeric
+// cells (csvNum) are numbers, so -0.5 stays -0.5.
+func csvText(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		s = "'" + s
+	}
+	return safe.Text(s)
 }
 
 // csvNum writes a number with 12 significant digits, "" for NaN.

@@ -2,7 +2,6 @@ package report_test
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"flag"
 	"os"
@@ -190,14 +189,7 @@ func TestJSONContract(t *testing.T) {
 // CSV is RFC 4180: every row has the header's field count.
 func TestCSVShape(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
-	var b bytes.Buffer
-	if err := report.WriteCSV(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := csv.NewReader(&b).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := csvRows(t, &report.Doc{Plan: p, Results: rs, All: true})
 	if len(rows) != 6 {
 		t.Errorf("%d rows, want header + 5", len(rows))
 	}
@@ -250,15 +242,8 @@ func folded(s string) string {
 // source) and every row keeps the caution however it is sorted or cut.
 func TestCSVCautionColumn(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
-	var b bytes.Buffer
-	if err := report.WriteCSV(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
-		t.Fatal(err)
-	}
-	r := csv.NewReader(&b) // FieldsPerRecord 0: every row must match the header's count
-	rows, err := r.ReadAll()
-	if err != nil {
-		t.Fatalf("the CSV does not parse cleanly: %v", err)
-	}
+	// csvRows reads with FieldsPerRecord 0: every row must match the header's count.
+	rows := csvRows(t, &report.Doc{Plan: p, Results: rs, All: true})
 	if rows[0][0] != "rank" {
 		t.Errorf("first header cell %q, want rank (no line before the header)", rows[0][0])
 	}
