@@ -20,6 +20,7 @@ func Validate(p *Part) Problems { return validate(p, 0, nil) }
 // fields in skip (they already have a decode problem).
 func validate(p *Part, index int, skip map[string]bool) Problems {
 	c := checker{p: p, index: index, skip: skip}
+	c.text()
 	c.identity()
 	c.ranges()
 	for _, f := range figures {
@@ -30,6 +31,7 @@ func validate(p *Part, index int, skip map[string]bool) Problems {
 			c.add(s.key, "%s is not positive", Format(o.V, s.dim))
 		}
 	}
+	c.plausibility()
 	return c.probs
 }
 

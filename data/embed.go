@@ -30,9 +30,9 @@ var Catalog fs.FS = sub("catalog")
 var Designs fs.FS = sub("designs")
 
 // DefaultDesign is the file name, within Designs, of the design used when
-// no --design is given: a 12 V single-supply chain in which the
+// no --design is given: a ±5 V vibration monitor in which the
 // pin-compatible slow bipolar quad fails on slew rate.
-const DefaultDesign = "signal-chain-12v.toml"
+const DefaultDesign = "vibration-monitor-5v.toml"
 
 // DesignNames returns the file names of the example designs, sorted.
 func DesignNames() []string { return names(Designs) }

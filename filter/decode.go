@@ -10,6 +10,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // DecodeDesign reads a design TOML file. name is used in error messages,
@@ -21,13 +22,21 @@ import (
 // problems the first in file order is returned. Semantic checks that need
 // the whole design (V+ above V−, a sine needs a frequency) happen in Derive.
 func DecodeDesign(name string, data []byte) (*Design, error) {
+	shown := safe.Text(name)
+	if err := catalog.Prescan(string(data)); err != nil {
+		var le *catalog.LimitError
+		if errors.As(err, &le) && le.Line > 0 {
+			return nil, fmt.Errorf("%s:%d: %w", shown, le.Line, err)
+		}
+		return nil, fmt.Errorf("%s: %w", shown, err)
+	}
 	var raw map[string]any
 	if _, err := toml.Decode(string(data), &raw); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, fmt.Errorf("%s:%d: %s", name, pe.Position.Line, pe.Message)
+			return nil, fmt.Errorf("%s:%d: %s", shown, pe.Position.Line, safe.Text(pe.Message))
 		}
-		return nil, fmt.Errorf("%s: %w", name, err)
+		return nil, fmt.Errorf("%s: %w", shown, err)
 	}
 	dec := &designDecoder{name: name, lines: indexLines(data)}
 	d := dec.design(raw)
@@ -35,9 +44,9 @@ func DecodeDesign(name string, data []byte) (*Design, error) {
 		sort.SliceStable(dec.errs, func(i, j int) bool { return dec.errs[i].line < dec.errs[j].line })
 		e := dec.errs[0]
 		if e.line > 0 {
-			return nil, fmt.Errorf("%s:%d: %w", name, e.line, e.err)
+			return nil, fmt.Errorf("%s:%d: %w", shown, e.line, e.err)
 		}
-		return nil, fmt.Errorf("%s: %w", name, e.err)
+		return nil, fmt.Errorf("%s: %w", shown, e.err)
 	}
 	return d, nil
 }

@@ -1,11 +1,13 @@
 package filter
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Derive checks the design's inputs and derives every requirement: the
@@ -20,7 +22,9 @@ func Derive(d *Design) (*Plan, error) {
 	if err := p.deriveEnvironment(d); err != nil {
 		return nil, err
 	}
-	p.deriveFilters(d)
+	if err := p.deriveFilters(d); err != nil {
+		return nil, err
+	}
 	seen := map[string]bool{}
 	for _, s := range d.Stages {
 		if seen[s.Name] {
@@ -34,6 +38,12 @@ func Derive(d *Design) (*Plan, error) {
 		sp, err := t.Derive(NewStageInput(s, t), p)
 		if err != nil {
 			return nil, d.errAt(s.Line, "stage %q: %w", s.Name, err)
+		}
+		// Templates with a narrower rule for ref (rail splitter, astable)
+		// have reported it above; this catches a ref off the supply in any.
+		if v, ok := s.Values["ref"]; ok && v.Set && (v.V < p.Rails.Neg || v.V > p.Rails.Pos) {
+			return nil, d.errAt(cmp.Or(v.Line, s.Line), "stage %q: field \"ref\": %s is outside the rails %s … %s, want a reference inside the supply",
+				s.Name, catalog.Format(v.V, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))
 		}
 		sp.Stage, sp.Name, sp.Kind = s, s.Name, s.Kind
 		for i := range sp.Requirements {
@@ -56,7 +66,7 @@ func Derive(d *Design) (*Plan, error) {
 
 // errAt formats an error prefixed with the design's file and a line.
 func (d *Design) errAt(line int, format string, a ...any) error {
-	pre := d.Name
+	pre := safe.Text(d.Name)
 	if pre == "" {
 		pre = "design"
 	}
@@ -145,8 +155,11 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 	return nil
 }
 
-func (p *Plan) deriveFilters(d *Design) {
+func (p *Plan) deriveFilters(d *Design) error {
 	c := d.Choose
+	if v := c.MaxUnitCost; v.Set && (v.V < 0 || v.V > MaxUnitCost) {
+		return d.errAt(v.Line, "field \"choose.max_unit_cost\": %q is out of range, want a budget from 0 to %g", v.Raw, float64(MaxUnitCost))
+	}
 	life := c.Lifecycle.List()
 	why := "lifecycle is one of " + strings.Join(life, ", ")
 	if len(life) == 0 {
@@ -166,7 +179,12 @@ func (p *Plan) deriveFilters(d *Design) {
 		p.Global = append(p.Global, Requirement{Key: KeyCost, Bound: BoundHard, Value: v.V,
 			Why: "unit cost ≤ " + catalog.Format(v.V, catalog.Dimensionless)})
 	}
+	return nil
 }
+
+// MaxUnitCost is the largest choose.max_unit_cost accepted, the same as
+// the largest unit_cost a catalog part may give.
+const MaxUnitCost = 1e6
 
 // RailsInward returns the rails at their tolerance extreme for headroom
 // checks: each moves by tol × its own magnitude toward the other rail, so

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -54,7 +55,7 @@ func required(c *filter.Check) string {
 	}
 	switch {
 	case len(q.Allowed) > 0:
-		return strings.Join(q.Allowed, " ")
+		return safe.Text(strings.Join(q.Allowed, " "))
 	case q.Key == filter.KeyTemperature:
 		return span(q.Low, q.High, catalog.Celsius)
 	case q.Key == filter.KeyCost:
@@ -73,7 +74,7 @@ func available(c *filter.Check, p *catalog.Part) string {
 	}
 	switch q.Key {
 	case filter.KeyPackage:
-		return strings.Join(p.Packages, " ")
+		return safe.Text(strings.Join(p.Packages, " "))
 	case filter.KeyTech:
 		return string(p.Tech)
 	case filter.KeyLifecycle:
@@ -130,7 +131,7 @@ func (m *Model) checksLines(r *filter.Result, w int) []string {
 			}
 			note := c.Note
 			if note == "" {
-				note = st.Why.Render(c.Req.Why)
+				note = st.Why.Render(safe.Text(c.Req.Why))
 			}
 			if a := c.Aside.Text(); a != "" {
 				note = a + " · " + note
@@ -206,7 +207,7 @@ func (m *Model) checksView(w, h int) []string {
 	if m.checks.partID != r.Part.ID {
 		m.checks.partID, m.checks.offset = r.Part.ID, 0
 	}
-	out := []string{m.paneTitle("CHECKS · "+r.Part.ID+" — "+r.Part.Name, focused, w), fit(m.summary(r), w)}
+	out := []string{m.paneTitle("CHECKS · "+safe.Text(r.Part.ID+" — "+r.Part.Name), focused, w), fit(m.summary(r), w)}
 	body := m.checksLines(r, w)
 	rows := max(0, h-3) // title, summary, column header
 	m.checks.offset = max(0, min(m.checks.offset, len(body)-1-rows))
@@ -239,7 +240,7 @@ func (m *Model) summary(r *filter.Result) string {
 	if !math.IsNaN(r.SupplyCurrent) {
 		fmt.Fprintf(&b, " · Iq %s", catalog.Format(r.SupplyCurrent, catalog.Ampere))
 	}
-	fmt.Fprintf(&b, " · %s · %s", strings.Join(r.Part.Packages, " "), r.Part.Lifecycle)
+	fmt.Fprintf(&b, " · %s · %s", safe.Text(strings.Join(r.Part.Packages, " ")), safe.Text(string(r.Part.Lifecycle)))
 	return b.String()
 }
 

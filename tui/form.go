@@ -6,6 +6,7 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -138,7 +139,7 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 			f.input.Width = max(1, valueW-1)
 			value = f.input.View()
 		case fl.Set:
-			value = st.Value.Render(fit(fl.Raw, valueW))
+			value = st.Value.Render(fit(safe.Text(fl.Raw), valueW))
 		case fl.Default != "":
 			value = st.Default.Render(fit("("+fl.Default+")", valueW))
 		default:
@@ -189,7 +190,7 @@ func (f *form) requirements(out *[]formLine, plan *filter.Plan, stage string, w 
 		r := &reqs[i]
 		*out = append(*out, formLine{fit("  "+requirementText(r), w), -1})
 		if r.Why != "" {
-			for _, l := range wrap(r.Why, w-6) {
+			for _, l := range wrap(safe.Text(r.Why), w-6) {
 				*out = append(*out, formLine{st.Why.Render(fit("      "+l, w)), -1})
 			}
 		}
@@ -209,7 +210,7 @@ func requirementText(r *filter.Requirement) string {
 	}
 	switch {
 	case len(r.Allowed) > 0:
-		return k + " ∈ " + strings.Join(r.Allowed, ", ")
+		return k + " ∈ " + safe.Text(strings.Join(r.Allowed, ", "))
 	case r.Key == filter.KeyTemperature:
 		return k + " covers " + span(r.Low, r.High, catalog.Celsius)
 	case r.Key == filter.KeyCost:
@@ -222,7 +223,7 @@ func requirementText(r *filter.Requirement) string {
 func (f *form) view(plan *filter.Plan, design *filter.Design, titleFn func(string) string, w, h int) []string {
 	title := "DESIGN"
 	if design.Title != "" {
-		title += " · " + design.Title
+		title += " · " + safe.Text(design.Title)
 	}
 	lines := f.lines(plan, design.Name, w)
 	body := max(0, h-1)

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -215,8 +216,8 @@ func (m *Model) listRow(r *filter.Result, i int, cols []column, widths []int, w 
 	cells := []string{
 		cur + mark,
 		fmt.Sprint(i + 1),
-		r.Part.ID,
-		r.Part.Name,
+		safe.Text(r.Part.ID),
+		safe.Text(r.Part.Name),
 		string(r.Part.Tech),
 		fmt.Sprint(r.Part.Channels),
 		marginCell,

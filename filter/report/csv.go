@@ -7,13 +7,23 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
+// CautionColumn is the header of the last column of every CSV opsift
+// writes; each data row carries Caution in it. A column rather than a
+// leading "# ..." line: CSV has no comment syntax, and spreadsheet importers
+// read such a line as the first row (taking it for the header), while a
+// column keeps the header in row 1 and the caution on every row that is
+// filtered, sorted or pasted elsewhere.
+const CautionColumn = "caution"
+
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
 // figures (SI units, plain numbers; empty when unknown), then for every
-// numeric requirement the part's worst-case figure and the margin. The
-// failing column lists "check:margin" pairs separated by ";".
+// numeric requirement the part's worst-case figure and the margin, and last
+// the caution. The failing column lists "check:margin" pairs separated by
+// ";".
 func WriteCSV(w io.Writer, doc *Doc) error {
 	cw := csv.NewWriter(w)
 	reqs := doc.Plan.Requirements()
@@ -29,6 +39,10 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 			head = append(head, name+" margin")
 		}
 	}
+	for i := range head {
+		head[i] = csvText(head[i])
+	}
+	head = append(head, CautionColumn)
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -45,9 +59,9 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 		for _, c := range failingOrUnknown(r, doc.Strict) {
 			failing = append(failing, CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
 		}
-		row := []string{rank, r.Part.ID, r.Part.Name, strconv.FormatBool(r.Pass), csvNum(r.WorstMargin), binding,
-			strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
-			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), strings.Join(failing, ";")}
+		row := []string{rank, csvText(r.Part.ID), csvText(r.Part.Name), strconv.FormatBool(r.Pass), csvNum(r.WorstMargin),
+			csvText(binding), strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
+			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), csvText(strings.Join(failing, ";"))}
 		for j := range r.Checks {
 			c := &r.Checks[j]
 			switch c.Req.Bound {
@@ -57,12 +71,25 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 				row = append(row, csvNum(c.Margin))
 			}
 		}
+		row = append(row, Caution)
 		if err := cw.Write(row); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvText makes a text cell safe to open in a spreadsheet: unsafe runes
+// are escaped (safe.Text), and a cell a spreadsheet would read as a
+// formula (starting with =, +, -, @, tab or CR) gets a leading apostrophe,
+// the usual neutralisation. Only text cells pass through here: numeric
+// cells (csvNum) are numbers, so -0.5 stays -0.5.
+func csvText(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		s = "'" + s
+	}
+	return safe.Text(s)
 }
 
 // csvNum writes a number with 12 significant digits, "" for NaN.

@@ -1,11 +1,13 @@
 package report
 
 import (
+	"bytes"
 	"encoding/json"
 	"io"
 	"math"
 	"strconv"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -201,9 +203,17 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 	return encodeJSON(w, out)
 }
 
+// encodeJSON writes v indented; the unsafe runes encoding/json leaves
+// alone are written as \u escapes (safe.JSON), so the document decodes to
+// the same strings but cannot act on a terminal it is shown in.
 func encodeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(v)
+	if err := enc.Encode(v); err != nil {
+		return err
+	}
+	_, err := w.Write(safe.JSON(buf.Bytes()))
+	return err
 }

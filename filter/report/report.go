@@ -15,6 +15,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -138,7 +139,7 @@ func sortName(k filter.SortKey) string {
 	return string(k)
 }
 
-func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+func oneLine(s string) string { return safe.Text(strings.Join(strings.Fields(s), " ")) }
 
 // Margin renders a margin as a signed percentage ("+31 %", "−4.2 %"), "—"
 // when there is none.

@@ -11,6 +11,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -102,7 +103,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	for i, r := range listed {
 		rows[i] = make([]string, len(cols))
 		for j, c := range cols {
-			rows[i][j] = c.cell(i+1, r)
+			rows[i][j] = safe.Text(c.cell(i+1, r))
 		}
 	}
 	widths := make([]int, len(cols))
@@ -126,7 +127,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		writeRow(b, cols, keep, widths, rows[i], doc.Color, colour)
 		if !r.Pass {
 			for _, c := range failingOrUnknown(r, doc.Strict) {
-				for _, line := range wrapLines("✗ "+missText(c, r.Part), width-6, "  ") {
+				for _, line := range wrapLines("✗ "+safe.Text(missText(c, r.Part)), width-6, "  ") {
 					line = "      " + line
 					if doc.Color {
 						line = ansiDim + line + ansiReset
