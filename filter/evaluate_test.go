@@ -136,16 +136,8 @@ func TestTiesAtTheLimit(t *testing.T) {
 		{"15 V", "-15 V", "5 %", "31.5 V"},
 	} {
 		t.Run(tc.pos+" "+tc.tol, func(t *testing.T) {
-			_, p := mustDesign(t, `title = "t"
-[supply]
-pos = "`+tc.pos+`"
-neg = "`+tc.neg+`"
-tolerance = "`+tc.tol+`"
-[[stage]]
-name = "s"
-kind = "follower"
-signal = { peak = "0.1 V", freq = "1 Hz" }
-`)
+			_, p := mustDesign(t, sineDesign("pos = \""+tc.pos+"\"\nneg = \""+tc.neg+"\"\ntolerance = \""+tc.tol+"\"",
+				"kind = \"follower\"\nsignal = { peak = \"0.1 V\", freq = \"1 Hz\" }"))
 			part := basePart("x")
 			part.Supply = catalog.Span{Min: opt(1), Max: opt(q(tc.max, catalog.Volt))}
 			c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply)
@@ -187,17 +179,8 @@ transition = "1 us"
 // widening the window, and passed a part whose input reaches down only to
 // V− + 0.3 V against a 2.4 V signal low (2.2 + 0.3 = 2.5 > 2.4).
 func TestRailsBothPositive(t *testing.T) {
-	_, p := mustDesign(t, `title = "t"
-[supply]
-pos = "12 V"
-neg = "2 V"
-tolerance = "10 %"
-[[stage]]
-name = "s"
-kind = "follower"
-ref = "7 V"
-signal = { peak = "4.6 V", freq = "1 Hz" }
-`)
+	_, p := mustDesign(t, sineDesign("pos = \"12 V\"\nneg = \"2 V\"\ntolerance = \"10 %\"",
+		"kind = \"follower\"\nref = \"7 V\"\nsignal = { peak = \"4.6 V\", freq = \"1 Hz\" }"))
 	near(t, "V+ worst", p.Rails.PosWorst, 10.8, 1e-12)
 	near(t, "V− worst", p.Rails.NegWorst, 2.2, 1e-12)
 	part := basePart("x")

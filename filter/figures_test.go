@@ -160,18 +160,8 @@ func TestFigureRules(t *testing.T) {
 // --strict. The OT bound includes 25 °C: now it is used and the check
 // fails. By hand: NG 45 × 9 mV = 405 mV > 50 mV.
 func TestMaxOTAtRoom(t *testing.T) {
-	_, p := mustDesign(t, `title = "t"
-[supply]
-pos = "15 V"
-neg = "-15 V"
-[[stage]]
-name = "s"
-kind = "noninverting"
-gain = 45
-ref = "0 V"
-signal = { peak = "0.1 V", freq = "1 Hz" }
-dc_error = "50 mV"
-`)
+	_, p := mustDesign(t, sineDesign("pos = \"15 V\"\nneg = \"-15 V\"",
+		"kind = \"noninverting\"\ngain = 45\nref = \"0 V\"\nsignal = { peak = \"0.1 V\", freq = \"1 Hz\" }\ndc_error = \"50 mV\""))
 	part := basePart("x")
 	part.Vos = catalog.Spec{MaxOT: opt(9e-3)}
 	c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyDCError)
