@@ -99,7 +99,7 @@ func (p *Plan) deriveSupply(d *Design) error {
 		return d.errAt(s.Tolerance.Line, "supply.tolerance", "%q is out of range, want a ratio from 0 %% to 50 %% such as \"5 %%\"", s.Tolerance.Raw)
 	}
 	r := Rails{Pos: s.Pos.V, Neg: neg, Tol: tol, Span: s.Pos.V - neg}
-	r.PosWorst, r.NegWorst = s.Pos.V*(1-tol), neg*(1-tol)
+	r.PosWorst, r.NegWorst = RailsInward(s.Pos.V, neg, tol)
 	r.SpanMin, r.SpanMax = r.Span*(1-tol), r.Span*(1+tol)
 	p.Rails = r
 	why := fmt.Sprintf("span %s × (1 ∓ %s) = %s … %s",
@@ -141,6 +141,19 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 		}
 		p.InflateTyp = v.V
 	}
+	p.SpeedTempco, p.IbColdTempco = DefaultSpeedTempco, DefaultIbColdTempco
+	if v := d.Policy.SpeedTempco; v.Set {
+		if v.V < 0 || v.V > 0.01 {
+			return d.errAt(v.Line, "policy.speed_tempco", "%q is out of range, want a fraction per kelvin from 0 to 0.01 such as \"0.002\"", v.Raw)
+		}
+		p.SpeedTempco = v.V
+	}
+	if v := d.Policy.IbColdTempco; v.Set {
+		if v.V < 0 || v.V > 0.1 {
+			return d.errAt(v.Line, "policy.ib_cold_tempco", "%q is out of range, want a fraction per kelvin from 0 to 0.1 such as \"0.0125\"", v.Raw)
+		}
+		p.IbColdTempco = v.V
+	}
 	return nil
 }
 
@@ -175,10 +188,13 @@ func (p *Plan) deriveFilters(d *Design) error {
 // the largest unit_cost a catalog part may give.
 const MaxUnitCost = 1e6
 
-// gbwFactor is 1/√(1/(1−ε)² − 1): the loop gain a single-pole amplifier
-// needs at the signal frequency, per unit of NG·f, for a gain error of ε.
-// The closed-loop magnitude is 1/√(1 + (f·NG/GBW)²) of the ideal, so an
-// error ε needs GBW ≥ NG·f/√(1/(1−ε)² − 1) (≈ 7.02 at 1 %).
-func gbwFactor(eps float64) float64 {
-	return 1 / math.Sqrt(1/((1-eps)*(1-eps))-1)
+// RailsInward returns the rails at their tolerance extreme for headroom
+// checks: each moves by tol × its own magnitude toward the other rail, so
+// the span between them shrinks. With 0 V between the rails (a bipolar or a
+// single supply) that is "toward 0 V", the wording of DESIGN.md; with both
+// rails on one side of 0 V the rail nearer 0 moves away from it (V+ 12 V,
+// V− 2 V, 10 %: 10.8 V and 2.2 V), because moving it toward 0 V would widen
+// the headroom the check is meant to take away.
+func RailsInward(pos, neg, tol float64) (posWorst, negWorst float64) {
+	return pos - tol*math.Abs(pos), neg + tol*math.Abs(neg)
 }

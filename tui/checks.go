@@ -134,6 +134,9 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			if note == "" {
 				note = st.Why.Render(safe.Text(c.Req.Why))
 			}
+			if a := c.Aside.Text(); a != "" {
+				note = a + " · " + note
+			}
 			margin := marginText(c.Margin)
 			if c.Status == filter.StatusFail {
 				margin = st.Fail.Render(margin)

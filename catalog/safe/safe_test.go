@@ -5,6 +5,8 @@ import (
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // TestText checks the escape of each class of unsafe rune. The code points

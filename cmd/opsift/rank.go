@@ -13,11 +13,12 @@ const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--for
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
 is named). With --all the failing parts follow, each with the checks it
-fails and by how much. Formats: table (terminal), csv, json (SI units), md
-(a shortlist for design review), toml (the ranked parts as a catalog file).
-Sort keys: margin (default), cost, supply_current, fmax, id. -o writes
-atomically: a symlink's target is replaced, devices and FIFOs are refused
-(except /dev/stdout), a read-only file only with --force.
+fails and by how much. Formats: table (terminal), csv (the caution in the
+last column of every row), json (SI units), md (a shortlist for design
+review), toml (the ranked parts as a catalog file). Sort keys: margin
+(default), cost, supply_current, fmax, id. -o writes atomically: a
+symlink's target is replaced, devices and FIFOs are refused (except
+/dev/stdout), a read-only file only with --force.
 
 Options:
 `

@@ -23,6 +23,7 @@ List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
 a footprint change. Each candidate is compared figure by figure with the
 original; "strict" means no figure the original gives is worse or missing.
+The csv format ends every row with the caution in a "caution" column.
 With --design, every candidate is also evaluated in the circuit at worst
 case and the passing ones are ranked by their smallest margin; regressions
 are then warnings.

@@ -11,10 +11,19 @@ import (
 	"github.com/opsift/opsift/filter"
 )
 
+// CautionColumn is the header of the last column of every CSV opsift
+// writes; each data row carries Caution in it. A column rather than a
+// leading "# ..." line: CSV has no comment syntax, and spreadsheet importers
+// read such a line as the first row (taking it for the header), while a
+// column keeps the header in row 1 and the caution on every row that is
+// filtered, sorted or pasted elsewhere.
+const CautionColumn = "caution"
+
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
 // figures (SI units, plain numbers; empty when unknown), then for every
-// numeric requirement the part's worst-case figure and the margin. The
-// failing column lists "check:margin" pairs separated by ";".
+// numeric requirement the part's worst-case figure and the margin, and last
+// the caution. The failing column lists "check:margin" pairs separated by
+// ";".
 func WriteCSV(w io.Writer, doc *Doc) error {
 	cw := csv.NewWriter(w)
 	reqs := doc.Plan.Requirements()
@@ -33,6 +42,7 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 	for i := range head {
 		head[i] = csvText(head[i])
 	}
+	head = append(head, CautionColumn)
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -61,6 +71,7 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 				row = append(row, csvNum(c.Margin))
 			}
 		}
+		row = append(row, Caution)
 		if err := cw.Write(row); err != nil {
 			return err
 		}

@@ -78,6 +78,12 @@ type jsonCheck struct {
 	Status        string  `json:"status"`
 	Basis         string  `json:"basis,omitempty"`
 	Note          string  `json:"note,omitempty"`
+	// Cf is the feedback capacitor a transimpedance gbw check needs on
+	// this part, F (DESIGN.md "Contract additions").
+	Cf *num `json:"cf,omitempty"`
+	// PredictedFreq is the frequency a relaxation stage runs at on this
+	// part (its gbw check), Hz.
+	PredictedFreq *num `json:"predicted_freq,omitempty"`
 }
 
 // num is a float64 written with at most 12 significant digits.
@@ -161,6 +167,12 @@ func jsonChecks(r *filter.Result) []jsonCheck {
 			default:
 				j.Have = Has(c, r.Part)
 			}
+		}
+		switch c.Aside.Kind {
+		case filter.AsideCf:
+			j.Cf = val(c.Aside.V)
+		case filter.AsidePredictedFreq:
+			j.PredictedFreq = val(c.Aside.V)
 		}
 		out = append(out, j)
 	}

@@ -195,6 +195,9 @@ func Has(c *filter.Check, p *catalog.Part) string {
 		if math.IsNaN(c.Available) {
 			return "?"
 		}
+		if c.Aside.Kind != filter.AsideNone {
+			return catalog.Format(c.Available, q.Dim) + " (" + c.Aside.Text() + ")"
+		}
 		return catalog.Format(c.Available, q.Dim)
 	case filter.BoundRange:
 		lo, hi := "?", "?"
