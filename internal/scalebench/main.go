@@ -1,0 +1,269 @@
+// Command scalebench measures opsift on large generated catalogs and prints
+// each scale target with its measured figure and ratio. It is run by hand
+// through .ci/bench, never by CI's test step: the figures depend on the
+// machine and on what else runs on it.
+//
+//	go run ./internal/scalebench [-sizes 10000,100000] [-dir DIR] [-cpuprofile F] [-memprofile F]
+//
+// Catalogs are generated (internal/gencat) into a temporary directory that
+// is removed afterwards, unless -dir names one to keep.
+package main
+
+import (
+	"flag"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"runtime"
+	"runtime/pprof"
+	"slices"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/BurntSushi/toml"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/gencat"
+)
+
+func main() {
+	sizes := flag.String("sizes", "10000,100000", "catalog sizes to measure, comma-separated")
+	dir := flag.String("dir", "", "directory to generate the catalogs in and keep (default: a temporary one, removed)")
+	cpu := flag.String("cpuprofile", "", "write a CPU profile of the whole run to `file`")
+	mem := flag.String("memprofile", "", "write a heap profile at the end to `file`")
+	flag.Parse()
+	if err := run(*sizes, *dir, *cpu, *mem); err != nil {
+		fmt.Fprintln(os.Stderr, "scalebench:", err)
+		os.Exit(1)
+	}
+}
+
+// report prints one target line: what, the measured figure, the limit
+// and whether it holds.
+type report struct{ failed int }
+
+func (r *report) line(what, measured string, ratio, limit float64) {
+	ok := "meets"
+	if ratio > limit {
+		ok = "MISSES"
+		r.failed++
+	}
+	fmt.Printf("%-46s %-34s %8.3f  ≤ %-6g %s\n", what, measured, ratio, limit, ok)
+}
+
+func run(sizeList, keep, cpuFile, memFile string) error {
+	var sizes []int
+	for _, s := range strings.Split(sizeList, ",") {
+		n, err := strconv.Atoi(strings.TrimSpace(s))
+		if err != nil || n <= 0 {
+			return fmt.Errorf("bad size %q", s)
+		}
+		sizes = append(sizes, n)
+	}
+	root := keep
+	if root == "" {
+		var err error
+		if root, err = os.MkdirTemp("", "opsift-scale-"); err != nil {
+			return err
+		}
+		defer os.RemoveAll(root)
+	}
+	if cpuFile != "" {
+		f, err := os.Create(cpuFile)
+		if err != nil {
+			return err
+		}
+		defer f.Close()
+		if err := pprof.StartCPUProfile(f); err != nil {
+			return err
+		}
+		defer pprof.StopCPUProfile()
+	}
+	fmt.Printf("opsift scale benchmark: %s/%s, %d CPUs (GOMAXPROCS %d), %s\n",
+		runtime.GOOS, runtime.GOARCH, runtime.NumCPU(), runtime.GOMAXPROCS(0), runtime.Version())
+	fmt.Printf("%-46s %-34s %8s  %-8s\n", "target", "measured", "ratio", "limit")
+	r := &report{}
+	for _, n := range sizes {
+		dir := filepath.Join(root, fmt.Sprintf("cat-%d", n))
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			return err
+		}
+		files, err := gencat.Write(dir, n, gencat.PerFile, 1)
+		if err != nil {
+			return err
+		}
+		if err := measure(r, n, dir, files); err != nil {
+			return err
+		}
+	}
+	if memFile != "" {
+		f, err := os.Create(memFile)
+		if err != nil {
+			return err
+		}
+		defer f.Close()
+		runtime.GC()
+		if err := pprof.WriteHeapProfile(f); err != nil {
+			return err
+		}
+	}
+	if r.failed > 0 {
+		fmt.Printf("%d targets missed\n", r.failed)
+	}
+	return nil
+}
+
+// label renders a catalog size as 10k, 100k, 1M.
+func label(n int) string {
+	switch {
+	case n >= 1_000_000 && n%1_000_000 == 0:
+		return fmt.Sprintf("%dM", n/1_000_000)
+	case n >= 1000 && n%1000 == 0:
+		return fmt.Sprintf("%dk", n/1000)
+	}
+	return strconv.Itoa(n)
+}
+
+// best runs f reps times and returns its fastest run.
+func best(reps int, f func() error) (time.Duration, error) {
+	d := time.Duration(1<<63 - 1)
+	for range reps {
+		start := time.Now()
+		if err := f(); err != nil {
+			return 0, err
+		}
+		d = min(d, time.Since(start))
+	}
+	return d, nil
+}
+
+func measure(r *report, n int, dir string, files []string) error {
+	reps := 3
+	if n >= 100_000 {
+		reps = 2
+	}
+	l := label(n)
+	bare, err := best(reps, func() error { return bareDecode(files) })
+	if err != nil {
+		return err
+	}
+	var c *catalog.Catalog
+	cold, err := best(reps, func() error {
+		c = nil
+		runtime.GC()
+		var err error
+		c, err = catalog.Load(catalog.PathLayer(dir))
+		return err
+	})
+	if err != nil {
+		return err
+	}
+	if len(c.Parts) != n {
+		return fmt.Errorf("%d parts loaded, want %d", len(c.Parts), n)
+	}
+	r.line("cold load "+l+" / bare parallel decode", fmt.Sprintf("%s / %s", secs(cold), secs(bare)),
+		cold.Seconds()/bare.Seconds(), 1.2)
+
+	heap := liveHeap(func() any {
+		c, _ := catalog.Load(catalog.PathLayer(dir))
+		return c
+	})
+	r.line("live heap per part "+l, fmt.Sprintf("%.0f B", heap/float64(n)), heap/float64(n)/1536, 1)
+
+	key, err := keystroke(c.Parts)
+	if err != nil {
+		return err
+	}
+	limit := 16 * time.Millisecond
+	if n <= 10_000 {
+		limit = 3 * time.Millisecond
+	}
+	r.line("one keystroke "+l+" (derive, evaluate, rank)", fmt.Sprintf("%s / %s", ms(key), ms(limit)),
+		key.Seconds()/limit.Seconds(), 1)
+	return nil
+}
+
+// bareDecode decodes every file into maps with the project's TOML decoder,
+// files in parallel over the CPUs: the floor a catalog load is held to.
+func bareDecode(files []string) error {
+	var wg sync.WaitGroup
+	errs := make([]error, len(files))
+	sem := make(chan struct{}, runtime.GOMAXPROCS(0))
+	for i, f := range files {
+		wg.Go(func() {
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			b, err := os.ReadFile(f)
+			if err != nil {
+				errs[i] = err
+				return
+			}
+			var doc map[string]any
+			_, errs[i] = toml.Decode(string(b), &doc)
+		})
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// liveHeap returns the bytes of heap still in use, after a collection,
+// by what load returns.
+func liveHeap(load func() any) float64 {
+	var before, after runtime.MemStats
+	runtime.GC()
+	runtime.ReadMemStats(&before)
+	v := load()
+	runtime.GC()
+	runtime.ReadMemStats(&after)
+	runtime.KeepAlive(v)
+	return float64(after.HeapAlloc) - float64(before.HeapAlloc)
+}
+
+// keystroke measures the work of one edit of a stage field: re-derive the
+// plan, evaluate every part, rank, and explain the rows a screen shows.
+// It returns the median of the runs.
+func keystroke(parts []*catalog.Part) (time.Duration, error) {
+	raw, err := fs.ReadFile(data.Designs, data.DefaultDesign)
+	if err != nil {
+		return 0, err
+	}
+	d, err := filter.DecodeDesign(data.DefaultDesign, raw)
+	if err != nil {
+		return 0, err
+	}
+	freqs := []string{"20 kHz", "21 kHz"}
+	var runs []time.Duration
+	o := filter.Options{Summary: true}
+	for i := range 21 {
+		start := time.Now()
+		if err := d.Set("stage.gain.signal.freq", freqs[i%2]); err != nil {
+			return 0, err
+		}
+		p, err := filter.Derive(d)
+		if err != nil {
+			return 0, err
+		}
+		rs := filter.Evaluate(p, parts, o)
+		filter.Rank(rs, filter.SortMargin)
+		for i := 0; i < min(len(rs), 40); i++ {
+			filter.Explain(p, &rs[i], o)
+		}
+		runs = append(runs, time.Since(start))
+	}
+	slices.Sort(runs)
+	return runs[len(runs)/2], nil
+}
+
+func secs(d time.Duration) string { return fmt.Sprintf("%.3f s", d.Seconds()) }
+
+func ms(d time.Duration) string { return fmt.Sprintf("%.2f ms", float64(d.Microseconds())/1000) }
