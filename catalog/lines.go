@@ -1,6 +1,11 @@
 package catalog
 
-import "github.com/opsift/opsift/catalog/tomlpos"
+import (
+	"cmp"
+	"slices"
+
+	"github.com/opsift/opsift/catalog/tomlpos"
+)
 
 // fileLines is where things are in one catalog file, read from the one
 // TOML position index (catalog/tomlpos). It only ever feeds error messages
@@ -34,4 +39,25 @@ func scanLines(text string) fileLines {
 		fl.parts = append(fl.parts, pl)
 	})
 	return fl
+}
+
+// keyLine returns the line of key in the part whose header is on line
+// header, or header when the key is not found.
+func (fl fileLines) keyLine(header int, key string) int {
+	i, ok := slices.BinarySearchFunc(fl.parts, header, func(pl partLines, l int) int { return cmp.Compare(pl.line, l) })
+	if ok {
+		if l, ok := fl.parts[i].keys[key]; ok && l > 0 {
+			return l
+		}
+	}
+	return header
+}
+
+// KeyLine returns the line key is written on in the part whose [[part]]
+// header is on line header of the catalog file data ("slew" for slew.typ
+// too), or header when the part does not write the key. Decoded parts keep
+// only their header's line (Part.Pos); this re-derives the rest when a
+// message or an editor needs it.
+func KeyLine(data []byte, header int, key string) int {
+	return scanLines(string(data)).keyLine(header, key)
 }
