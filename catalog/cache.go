@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"sync/atomic"
 )
 
 // Cache keeps catalog files parsed, one entry per source file, in a
@@ -26,6 +27,8 @@ import (
 // written makes loading no slower than without one.
 type Cache struct {
 	Dir string // the directory holding the entries
+
+	hits atomic.Int64 // entries used, for tests
 }
 
 // CacheDir returns the directory the parsed-catalog cache lives in:
@@ -92,6 +95,7 @@ func (c *Cache) get(path, file string, data []byte) ([]*Part, bool) {
 	if err != nil {
 		return nil, false
 	}
+	c.hits.Add(1)
 	return parts, true
 }
 

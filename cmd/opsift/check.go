@@ -27,14 +27,14 @@ Options:
 func runCheck(e *env, args []string) error {
 	var catalogs pathList
 	fset := newFlagSet(e, "check", checkUsage)
-	fset.Var(&catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &catalogs)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("check: unexpected argument %q; give catalogs with --catalog (see opsift check --help)", fset.Arg(0))
 	}
-	c, err := catalog.Load(catalogLayers(e, catalogs)...)
+	c, err := e.loader().Load(catalogLayers(e, catalogs)...)
 	var probs catalog.Problems
 	if err != nil && !errors.As(err, &probs) {
 		return inputError(err) // not a catalog problem: cannot happen with Load today

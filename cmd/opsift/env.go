@@ -17,6 +17,9 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// noCache is the --no-cache flag of the command being run: catalogs
+	// are read without the parsed-catalog cache.
+	noCache bool
 }
 
 // newEnv returns the process's real environment.

@@ -57,7 +57,7 @@ const (
 func runPreview(e *env, args []string) error {
 	var f previewFlags
 	fset := newFlagSet(e, "preview", previewUsage)
-	fset.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &f.catalogs)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.stage, "stage", "", "stage to simulate (default: the first stage that has a waveform)")
 	fset.BoolVar(&f.typical, "typical", false, "use typical figures on the nominal rails instead of the worst case")

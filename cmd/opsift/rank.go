@@ -38,7 +38,7 @@ type rankFlags struct {
 func runRank(e *env, args []string) error {
 	var f rankFlags
 	fset := newFlagSet(e, "rank", rankUsage)
-	fset.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &f.catalogs)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.format, "format", "table", "output format: table, csv, json, md or toml")
 	fset.BoolVar(&f.all, "all", false, "list failing parts too, after the passing ones")

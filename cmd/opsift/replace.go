@@ -46,7 +46,7 @@ type replaceFlags struct {
 func runReplace(e *env, args []string) error {
 	var f replaceFlags
 	fs := newFlagSet(e, "replace", replaceUsage)
-	fs.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fs, e, &f.catalogs)
 	fs.StringVar(&f.design, "design", "", "design TOML: evaluate every candidate in this circuit")
 	fs.StringVar(&f.format, "format", "table", "output format: "+strings.Join(replaceFormats, ", "))
 	fs.BoolVar(&f.all, "all", false, "with --design, list the candidates that fail the design too")

@@ -34,7 +34,7 @@ func runSelector(e *env, args []string) error {
 		strict   bool
 	)
 	fset := newFlagSet(e, "opsift", selectorUsage)
-	fset.Var(&catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &catalogs)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
@@ -78,7 +78,7 @@ func runSelector(e *env, args []string) error {
 		Design:     d,
 		DesignFile: design,
 		Catalog:    cat,
-		Load:       func() (*catalog.Catalog, error) { return catalog.Load(layers...) },
+		Load:       func() (*catalog.Catalog, error) { return e.loader().Load(layers...) },
 		OnDisk:     onDisk,
 		Watch:      true,
 		Strict:     strict,

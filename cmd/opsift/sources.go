@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"flag"
 	"fmt"
 	"strings"
 
@@ -23,6 +24,30 @@ func (l *pathList) Set(s string) error {
 	}
 	*l = append(*l, s)
 	return nil
+}
+
+// noCacheHelp is the --no-cache flag's help, the same for every command.
+const noCacheHelp = "read every catalog file afresh, neither using nor updating the parsed-catalog cache ($XDG_CACHE_HOME/opsift, else ~/.cache/opsift)"
+
+// catalogFlags registers a command's catalog flags: --catalog into paths
+// and --no-cache into e.
+func catalogFlags(fset *flag.FlagSet, e *env, paths *pathList) {
+	fset.Var(paths, "catalog", catalogHelp)
+	fset.BoolVar(&e.noCache, "no-cache", false, noCacheHelp)
+}
+
+// loader is the catalog loader of a command: with the parsed-catalog cache
+// in the user's cache directory unless --no-cache was given or there is no
+// such directory.
+func (e *env) loader() catalog.Loader {
+	if e.noCache {
+		return catalog.Loader{}
+	}
+	dir := catalog.CacheDir(e.getenv)
+	if dir == "" {
+		return catalog.Loader{}
+	}
+	return catalog.Loader{Cache: &catalog.Cache{Dir: dir}}
 }
 
 // catalogLayers turns --catalog paths into layers; with none, the user's
@@ -61,7 +86,7 @@ func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
 // openCatalog is loadCatalog without the notes, for the selector, which
 // shows the catalog itself.
 func openCatalog(e *env, paths []string) (*catalog.Catalog, error) {
-	c, err := catalog.Load(catalogLayers(e, paths)...)
+	c, err := e.loader().Load(catalogLayers(e, paths)...)
 	if err != nil {
 		return nil, inputError(newCatalogError(err, paths))
 	}

@@ -169,6 +169,26 @@ func measure(r *report, n int, dir string, files []string) error {
 	r.line("cold load "+l+" / bare parallel decode", fmt.Sprintf("%s / %s", secs(cold), secs(bare)),
 		cold.Seconds()/bare.Seconds(), 1.2)
 
+	cache := &catalog.Cache{Dir: filepath.Join(dir, "..", fmt.Sprintf("cache-%d", n))}
+	if _, err := (catalog.Loader{Cache: cache}).Load(catalog.PathLayer(dir)); err != nil {
+		return err // builds the cache
+	}
+	warm, err := best(reps+2, func() error {
+		c = nil
+		runtime.GC()
+		var err error
+		c, err = catalog.Loader{Cache: cache}.Load(catalog.PathLayer(dir))
+		return err
+	})
+	if err != nil {
+		return err
+	}
+	if len(c.Parts) != n {
+		return fmt.Errorf("%d parts loaded from the cache, want %d", len(c.Parts), n)
+	}
+	r.line("warm (cached) load "+l+" / cold load", fmt.Sprintf("%s / %s", secs(warm), secs(cold)),
+		warm.Seconds()/cold.Seconds(), 0.1)
+
 	heap := liveHeap(func() any {
 		c, _ := catalog.Load(catalog.PathLayer(dir))
 		return c
