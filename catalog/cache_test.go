@@ -208,4 +208,3 @@ func TestCacheDir(t *testing.T) {
 		}
 	}
 }
-
