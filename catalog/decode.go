@@ -82,7 +82,21 @@ func decodeFile(file string, data []byte, pieces int) ([]*Part, Problems, int) {
 		errors.As(err, &le)
 		return nil, Problems{{Pos: Pos{file, le.Line}, Err: err}}, 0
 	}
-	lines := scanLines(text)
+	// A clean file needs only the lines of its [[part]] headers; the full
+	// position index is built when there is a problem to place.
+	if lines, ok := scanHeaders(text); ok {
+		parts, probs, invalid, exact := decodeText(file, text, lines, pieces)
+		if exact && len(probs) == 0 {
+			return parts, probs, invalid
+		}
+	}
+	parts, probs, invalid, _ := decodeText(file, text, scanLines(text), pieces)
+	return parts, probs, invalid
+}
+
+// decodeText is decodeFile after the pre-scan, with the positions lines.
+// exact reports whether lines held one entry for each part table.
+func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Problems, invalid int, exact bool) {
 	doc, err := decodePieces(text, lines, pieces)
 	if err != nil {
 		var pe toml.ParseError
@@ -93,9 +107,9 @@ func decodeFile(file string, data []byte, pieces int) ([]*Part, Problems, int) {
 				// newline as the next one; the byte offset is exact.
 				line = 1 + strings.Count(text[:st], "\n")
 			}
-			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0
+			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0, true
 		}
-		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0
+		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0, true
 	}
 	var probs Problems
 	for _, k := range sortedKeys(doc) {
@@ -135,7 +149,7 @@ func decodeFile(file string, data []byte, pieces int) ([]*Part, Problems, int) {
 	if more > 0 {
 		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex, Err: &UnlistedError{N: more}})
 	}
-	return parts, probs, len(tables) - len(parts)
+	return parts, probs, len(tables) - len(parts), len(lines.parts) == len(tables)
 }
 
 // partTables returns the tables of the "part" array.
@@ -470,6 +484,15 @@ func tableKeys(t map[string]any) []string {
 // unknownKeys returns the keys of t outside known, sorted; nil (without
 // allocating) when there are none.
 func unknownKeys(t map[string]any, known []string) []string {
+	n := 0
+	for _, k := range known {
+		if _, ok := t[k]; ok {
+			n++
+		}
+	}
+	if n == len(t) {
+		return nil
+	}
 	var ks []string
 	for k := range t {
 		if !slices.Contains(known, k) {
