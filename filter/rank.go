@@ -4,8 +4,10 @@ import (
 	"cmp"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
 	"strings"
+	"sync"
 )
 
 // SortKey orders ranked results. Passing candidates always come first.
@@ -63,7 +65,7 @@ func Rank(results []Result, key SortKey) {
 		}
 		keys[i] = k
 	}
-	slices.SortFunc(keys, func(a, b rankKey) int {
+	sortParallel(keys, func(a, b rankKey) int {
 		if a.pass != b.pass {
 			if a.pass {
 				return -1
@@ -136,4 +138,54 @@ func ascNaNLast(a, b float64) int {
 		return -1
 	}
 	return cmp.Compare(a, b)
+}
+
+// sortMinParallel is the length from which sortParallel splits the work.
+const sortMinParallel = 8192
+
+// sortParallel sorts s by cmp, which must be a total order (no two
+// elements compare equal), so the result is the one slices.SortFunc gives.
+// A long slice is cut into one run per CPU, the runs sorted at once and
+// merged pairwise.
+func sortParallel[T any](s []T, cmp func(a, b T) int) {
+	procs := runtime.GOMAXPROCS(0)
+	if len(s) < sortMinParallel || procs < 2 {
+		slices.SortFunc(s, cmp)
+		return
+	}
+	runs := min(procs, len(s)/(sortMinParallel/2))
+	bounds := make([]int, runs+1)
+	for i := range bounds {
+		bounds[i] = i * len(s) / runs
+	}
+	var wg sync.WaitGroup
+	for i := range runs {
+		wg.Go(func() { slices.SortFunc(s[bounds[i]:bounds[i+1]], cmp) })
+	}
+	wg.Wait()
+	buf := make([]T, len(s))
+	for width := 1; width < runs; width *= 2 {
+		for i := 0; i+width < runs; i += 2 * width {
+			lo, mid, hi := bounds[i], bounds[i+width], bounds[min(i+2*width, runs)]
+			wg.Go(func() { merge(buf[lo:hi], s[lo:mid], s[mid:hi], cmp); copy(s[lo:hi], buf[lo:hi]) })
+		}
+		wg.Wait()
+	}
+}
+
+// merge merges the sorted a and b into out (len(a)+len(b) long).
+func merge[T any](out, a, b []T, cmp func(a, b T) int) {
+	i, j, k := 0, 0, 0
+	for i < len(a) && j < len(b) {
+		if cmp(b[j], a[i]) < 0 {
+			out[k] = b[j]
+			j++
+		} else {
+			out[k] = a[i]
+			i++
+		}
+		k++
+	}
+	k += copy(out[k:], a[i:])
+	copy(out[k:], b[j:])
 }
