@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
@@ -17,7 +18,7 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE [--force]]
+                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--no-cache] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -26,7 +27,10 @@ original; "strict" means no figure the original gives is worse or missing.
 The csv format ends every row with the caution in a "caution" column.
 With --design, every candidate is also evaluated in the circuit at worst
 case and the passing ones are ranked by their smallest margin; regressions
-are then warnings.
+are then warnings. A table written to a terminal lists a screenful of
+candidates ($LINES rows, else 24, less the header); --top N lists at most N,
+--top 0 all. The other formats and files list every candidate unless --top
+is given.
 
 Options:
 `
@@ -40,6 +44,7 @@ type replaceFlags struct {
 	obsolete bool
 	overTemp bool
 	strict   bool
+	top      int
 	output   outputFlags
 }
 
@@ -53,6 +58,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.obsolete, "obsolete", false, "list obsolete parts as candidates too")
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
+	fs.IntVar(&f.top, "top", -1, "list at most N candidates (0: all; default: a screenful for a table on a terminal, else all)")
 	f.output.register(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
@@ -63,6 +69,9 @@ func runReplace(e *env, args []string) error {
 		return usageError("replace: missing PART-ID (the id of the part to replace; see opsift replace --help)")
 	case len(pos) > 1:
 		return usageError("replace: one PART-ID expected, got %d: %s", len(pos), strings.Join(pos, " "))
+	}
+	if f.top < -1 {
+		return usageError("replace: --top %d: want 0 (all) or a positive count", f.top)
 	}
 	if !replaceOneOf(f.format, replaceFormats) {
 		return usageError("replace: --format %q: want one of %s", f.format, strings.Join(replaceFormats, ", "))
@@ -89,6 +98,7 @@ func runReplace(e *env, args []string) error {
 	}
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
+	v.limit(f.replaceTop(e))
 	if design != nil {
 		v.designTitle, v.designFile = design.Title, f.design
 	}
@@ -138,9 +148,42 @@ type replaceView struct {
 	res         replace.Result
 	list        []replace.Candidate
 	failHidden  int // candidates failing the design, not listed
+	topHidden   int // candidates past --top, not listed
 	designTitle string
 	designFile  string
 	color       bool
+}
+
+// replaceTop is the number of candidates to list, 0 for all: --top when
+// given, else a screenful for a table written to a terminal.
+func (f *replaceFlags) replaceTop(e *env) int {
+	if f.top >= 0 {
+		return f.top
+	}
+	if f.format != "table" || f.output.out != "" || !e.isTTY {
+		return 0
+	}
+	rows := 24
+	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("LINES"))); err == nil && n > 0 {
+		rows = n
+	}
+	return max(replaceTopMin, rows-replaceHeaderRows)
+}
+
+// The screenful of replace: the summary table gets the terminal's rows
+// less the header above it and the notes below, and never fewer than
+// replaceTopMin rows.
+const (
+	replaceHeaderRows = 10
+	replaceTopMin     = 5
+)
+
+// limit lists at most top candidates (0: all), counting the rest.
+func (v *replaceView) limit(top int) {
+	if top > 0 && len(v.list) > top {
+		v.topHidden = len(v.list) - top
+		v.list = v.list[:top]
+	}
 }
 
 func newReplaceView(res replace.Result, all bool) *replaceView {
