@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -98,6 +99,9 @@ type ranking struct {
 	gen     uint64          // generation of the newest rankJob
 	running bool            // a rankJob is running
 	strict  bool            // unknown checks fail
+	// cancel stops the newest rankJob; a new edit calls it before starting
+	// the next, so a typing burst does not queue evaluations.
+	cancel context.CancelFunc
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
@@ -111,6 +115,9 @@ type catalogState struct {
 	pkgs   []string // packages present, sorted
 	search map[*catalog.Part]string
 	idW    int // id column width
+	// eval evaluates the catalog's parts plan after plan, keeping what an
+	// edit leaves unchanged (filter.Incremental).
+	eval *filter.Incremental
 }
 
 // New builds the selector from cfg. It derives the design at once; the
@@ -154,6 +161,9 @@ func (m *Model) Init() tea.Cmd {
 
 // Close releases the file watcher. Call it after the program ends.
 func (m *Model) Close() error {
+	if m.rank.cancel != nil {
+		m.rank.cancel()
+	}
 	if m.watcher != nil {
 		return m.watcher.Close()
 	}
@@ -220,8 +230,12 @@ func (m *Model) rerank() tea.Cmd {
 		return nil
 	}
 	m.rank.running = true
-	j := rankJob{gen: m.rank.gen, plan: m.rank.plan, parts: m.cat.Parts,
-		opts: filter.Options{Strict: m.cfg.Strict, Summary: true}, sort: m.narrow.sortKey()}
+	if m.rank.cancel != nil {
+		m.rank.cancel() // the job it belongs to is stale now
+	}
+	var ctx context.Context
+	ctx, m.rank.cancel = context.WithCancel(context.Background())
+	j := rankJob{gen: m.rank.gen, ctx: ctx, plan: m.rank.plan, eval: m.cat.eval, sort: m.narrow.sortKey()}
 	return j.run
 }
 
@@ -247,7 +261,8 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	if c == nil {
 		c = &catalog.Catalog{}
 	}
-	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts))}
+	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts)),
+		eval: filter.NewIncremental(c.Parts, filter.Options{Strict: m.cfg.Strict})}
 	cs.techs, cs.pkgs = catalogValues(c.Parts)
 	for _, p := range c.Parts {
 		cs.search[p] = searchText(p)
