@@ -208,3 +208,27 @@ func TestCacheDir(t *testing.T) {
 		}
 	}
 }
+
+// TestLoadProgress checks the progress reports of a load over several
+// files: one before the first file, one after each, counting every part.
+func TestLoadProgress(t *testing.T) {
+	dir := t.TempDir()
+	parts := synthParts(30, 2)
+	for i := range 3 {
+		var buf bytes.Buffer
+		if err := Encode(&buf, parts[i*10:(i+1)*10]); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "f"+strconv.Itoa(i)+".toml"), buf.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	var got []Progress
+	if _, err := (Loader{Progress: func(p Progress) { got = append(got, p) }}).Load(PathLayer(dir)); err != nil {
+		t.Fatal(err)
+	}
+	want := []Progress{{0, 3, 0}, {1, 3, 10}, {2, 3, 20}, {3, 3, 30}}
+	if !reflect.DeepEqual(got, want) {
+		t.Fatalf("progress %v, want %v", got, want)
+	}
+}

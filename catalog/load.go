@@ -78,8 +78,9 @@ type Loader struct {
 	// Cache, when non-nil, keeps each clean catalog file on disk parsed
 	// (see Cache); a file with problems is always decoded afresh.
 	Cache *Cache
-	// Progress, when non-nil, is called after each file with the counts so
-	// far, from the goroutine that called Load.
+	// Progress, when non-nil, is called once before the first file and
+	// after each file with the counts so far, from the goroutine that
+	// called Load; the last call has Files == TotalFiles.
 	Progress func(Progress)
 }
 
@@ -119,6 +120,9 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 		}
 	}
 	progress := Progress{TotalFiles: total}
+	if ld.Progress != nil {
+		ld.Progress(progress)
+	}
 	seen := map[string]*Part{}
 	ld.decodeAll(srcs, jobs, func(k int, r fileResult) {
 		j := jobs[k]
@@ -128,6 +132,11 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 		if j.err.Err != nil {
 			probs = append(probs, j.err)
 			return
+		}
+		progress.Files++
+		progress.Parts += len(r.parts)
+		if ld.Progress != nil {
+			ld.Progress(progress)
 		}
 		if r.readErr != nil {
 			probs = append(probs, Problem{Pos: Pos{File: srcs[j.src].display(j.name)}, Err: r.readErr})
@@ -152,11 +161,6 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 			c.byID[p.ID] = p
 			where[p.ID] = at
 			c.Parts = append(c.Parts, p)
-		}
-		progress.Files++
-		progress.Parts += len(r.parts)
-		if ld.Progress != nil {
-			ld.Progress(progress)
 		}
 	})
 	c.count()

@@ -30,6 +30,12 @@ type Config struct {
 	// Load reads the same catalog sources again (the reload key, a catalog
 	// file changed on disk, after editing a part). Nil disables reloading.
 	Load func() (*catalog.Catalog, error)
+	// LoadFirst leaves Catalog out: Init reads it with Load while the first
+	// frame is already up, showing LoadProgress (when set) as it goes; the
+	// ranking fills in when it arrives. A read that fails ends the
+	// selector with the error in Fatal.
+	LoadFirst    bool
+	LoadProgress func() catalog.Progress
 	// OnDisk lists the catalog files and directories that are on disk:
 	// they are watched for changes, and only their parts can be opened in
 	// an editor (the embedded demo catalog is read-only).
@@ -86,6 +92,8 @@ type Model struct {
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
 	quitting           bool
+	// fatal is the error of a first catalog read that failed (see Fatal).
+	fatal error
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -102,6 +110,9 @@ type ranking struct {
 	// cancel stops the newest rankJob; a new edit calls it before starting
 	// the next, so a typing burst does not queue evaluations.
 	cancel context.CancelFunc
+	// loading is the progress line of the first catalog read, shown in
+	// place of the candidates; "" once the catalog is in.
+	loading string
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
@@ -153,6 +164,9 @@ func New(cfg Config) *Model {
 // Init starts the first ranking and, when watching, the file watcher.
 func (m *Model) Init() tea.Cmd {
 	cmds := []tea.Cmd{m.rerank()}
+	if m.cfg.LoadFirst && m.cfg.Load != nil {
+		cmds[0] = m.firstLoad()
+	}
 	if m.watcher != nil {
 		cmds = append(cmds, waitForChange(m.watcher))
 	}

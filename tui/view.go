@@ -89,7 +89,9 @@ func (m *Model) statusView(w int) string {
 	if m.marks.len() > 0 {
 		fmt.Fprintf(&b, " · %d marked", m.marks.len())
 	}
-	if m.rank.running {
+	if m.rank.loading != "" {
+		b.WriteString(" · reading the catalog…")
+	} else if m.rank.running {
 		b.WriteString(" · ranking…")
 	}
 	left := st.Status.Render(b.String())

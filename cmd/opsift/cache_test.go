@@ -2,7 +2,11 @@ package main
 
 import (
 	"path/filepath"
+	"strings"
 	"testing"
+	"time"
+
+	"github.com/opsift/opsift/catalog"
 )
 
 // TestCatalogCacheFlag checks that commands build the parsed-catalog cache
@@ -46,5 +50,23 @@ func TestCatalogCacheFlag(t *testing.T) {
 				t.Fatalf("output differs with the cache:\n%+v\n%+v\n%+v\n%+v", plain, first, second, third)
 			}
 		})
+	}
+}
+
+// TestStderrProgress checks that a catalog read shows progress only once
+// it has run progressDelay, and clears its line when done.
+func TestStderrProgress(t *testing.T) {
+	var quick, slow strings.Builder
+	q := &stderrProgress{w: &quick, start: time.Now()}
+	q.report(catalog.Progress{Files: 1, TotalFiles: 2, Parts: 10})
+	q.done()
+	if quick.Len() != 0 {
+		t.Fatalf("a quick read printed %q", quick.String())
+	}
+	s := &stderrProgress{w: &slow, start: time.Now().Add(-time.Second)}
+	s.report(catalog.Progress{Files: 1, TotalFiles: 2, Parts: 10})
+	s.done()
+	if want := "\r\x1b[Kopsift: reading the catalog: 1 of 2 files, 10 parts\r\x1b[K"; slow.String() != want {
+		t.Fatalf("slow read printed %q, want %q", slow.String(), want)
 	}
 }

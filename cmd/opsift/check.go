@@ -34,7 +34,7 @@ func runCheck(e *env, args []string) error {
 	if fset.NArg() > 0 {
 		return usageError("check: unexpected argument %q; give catalogs with --catalog (see opsift check --help)", fset.Arg(0))
 	}
-	c, err := e.loader().Load(catalogLayers(e, catalogs)...)
+	c, err := e.readCatalog(catalogLayers(e, catalogs))
 	var probs catalog.Problems
 	if err != nil && !errors.As(err, &probs) {
 		return inputError(err) // not a catalog problem: cannot happen with Load today

@@ -17,6 +17,8 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// errTTY reports whether stderr is a terminal (progress of slow reads).
+	errTTY bool
 	// noCache is the --no-cache flag of the command being run: catalogs
 	// are read without the parsed-catalog cache.
 	noCache bool
@@ -30,6 +32,7 @@ func newEnv() *env {
 		stderr: os.Stderr,
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
+		errTTY: isTerminal(os.Stderr),
 	}
 }
 

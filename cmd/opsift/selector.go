@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"log"
+	"sync/atomic"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
@@ -48,11 +49,10 @@ func runSelector(e *env, args []string) error {
 		return inputError(err)
 	}
 	layers := catalogLayers(e, catalogs)
-	cat, err := openCatalog(e, catalogs)
-	if err != nil {
-		return err
-	}
 	if !e.isTTY {
+		if _, err := openCatalog(e, catalogs); err != nil {
+			return err // a bad catalog is named first, as with a terminal
+		}
 		return usageError("the interactive selector needs a terminal; for scripts use opsift rank")
 	}
 	if path := e.getenv("OPSIFT_LOG"); path != "" {
@@ -74,11 +74,23 @@ func runSelector(e *env, args []string) error {
 	if e.getenv("NO_COLOR") != "" {
 		r.SetColorProfile(termenv.Ascii)
 	}
+	// The catalog is read after the first frame; the selector shows how far
+	// the read has got, and a catalog that cannot be read ends it with the
+	// error (exit status 2) as before it started.
+	var progress atomic.Pointer[catalog.Progress]
+	loader := e.loader()
+	loader.Progress = func(p catalog.Progress) { progress.Store(&p) }
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
-		Catalog:    cat,
-		Load:       func() (*catalog.Catalog, error) { return e.loader().Load(layers...) },
+		LoadFirst:  true,
+		LoadProgress: func() catalog.Progress {
+			if p := progress.Load(); p != nil {
+				return *p
+			}
+			return catalog.Progress{}
+		},
+		Load: func() (*catalog.Catalog, error) { return loader.Load(layers...) },
 		OnDisk:     onDisk,
 		Watch:      true,
 		Strict:     strict,
@@ -90,6 +102,9 @@ func runSelector(e *env, args []string) error {
 		tea.WithInput(e.stdin), tea.WithOutput(e.stdout))
 	if _, err := p.Run(); err != nil {
 		return fmt.Errorf("selector: %w", err)
+	}
+	if err := m.Fatal(); err != nil {
+		return inputError(newCatalogError(err, catalogs))
 	}
 	return nil
 }

@@ -4,7 +4,9 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"io"
 	"strings"
+	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
@@ -50,6 +52,48 @@ func (e *env) loader() catalog.Loader {
 	return catalog.Loader{Cache: &catalog.Cache{Dir: dir}}
 }
 
+// readCatalog loads layers with e's loader; when stderr is a terminal and
+// the read takes longer than progressDelay, it shows how far it has got
+// there on one line, cleared when done.
+func (e *env) readCatalog(layers []catalog.Layer) (*catalog.Catalog, error) {
+	ld := e.loader()
+	var pr *stderrProgress
+	if e.errTTY {
+		pr = &stderrProgress{w: e.stderr, start: time.Now()}
+		ld.Progress = pr.report
+	}
+	c, err := ld.Load(layers...)
+	if pr != nil {
+		pr.done()
+	}
+	return c, err
+}
+
+// progressDelay is how long a catalog read runs before its progress is shown.
+const progressDelay = 500 * time.Millisecond
+
+// stderrProgress draws the progress of a catalog read on a terminal.
+type stderrProgress struct {
+	w     io.Writer
+	start time.Time
+	shown bool
+}
+
+func (s *stderrProgress) report(p catalog.Progress) {
+	if time.Since(s.start) < progressDelay || p.TotalFiles == 0 {
+		return
+	}
+	s.shown = true
+	fmt.Fprintf(s.w, "\r\x1b[Kopsift: reading the catalog: %d of %d files, %d parts", p.Files, p.TotalFiles, p.Parts)
+}
+
+// done clears the progress line, if one was drawn.
+func (s *stderrProgress) done() {
+	if s.shown {
+		fmt.Fprint(s.w, "\r\x1b[K")
+	}
+}
+
 // catalogLayers turns --catalog paths into layers; with none, the user's
 // catalog directory if it exists, else the embedded demo catalog.
 func catalogLayers(e *env, paths []string) []catalog.Layer {
@@ -86,7 +130,7 @@ func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
 // openCatalog is loadCatalog without the notes, for the selector, which
 // shows the catalog itself.
 func openCatalog(e *env, paths []string) (*catalog.Catalog, error) {
-	c, err := e.loader().Load(catalogLayers(e, paths)...)
+	c, err := e.readCatalog(catalogLayers(e, paths))
 	if err != nil {
 		return nil, inputError(newCatalogError(err, paths))
 	}
