@@ -30,8 +30,9 @@ type Config struct {
 	// Load reads the same catalog sources again (the reload key, a catalog
 	// file changed on disk, after editing a part). Nil disables reloading.
 	Load func() (*catalog.Catalog, error)
-	// LoadFirst leaves Catalog out: Init reads it with Load while the first
-	// frame is already up, showing LoadProgress (when set) as it goes; the
+	// LoadFirst has Init read the catalog with Load while the first frame
+	// is already up (Catalog, when given, stands in until then: an empty
+	// one naming the sources), showing LoadProgress (when set) as it goes; the
 	// ranking fills in when it arrives. A read that fails ends the
 	// selector with the error in Fatal.
 	LoadFirst    bool

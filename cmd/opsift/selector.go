@@ -11,6 +11,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/tui"
 )
 
@@ -80,9 +81,14 @@ func runSelector(e *env, args []string) error {
 	var progress atomic.Pointer[catalog.Progress]
 	loader := e.loader()
 	loader.Progress = func(p catalog.Progress) { progress.Store(&p) }
+	empty := &catalog.Catalog{} // stands in until the read ends, naming the sources
+	for _, l := range layers {
+		empty.Sources = append(empty.Sources, safe.Text(l.Name))
+	}
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
+		Catalog:    empty,
 		LoadFirst:  true,
 		LoadProgress: func() catalog.Progress {
 			if p := progress.Load(); p != nil {
@@ -90,12 +96,12 @@ func runSelector(e *env, args []string) error {
 			}
 			return catalog.Progress{}
 		},
-		Load: func() (*catalog.Catalog, error) { return loader.Load(layers...) },
-		OnDisk:     onDisk,
-		Watch:      true,
-		Strict:     strict,
-		Renderer:   r,
-		Getenv:     e.getenv,
+		Load:     func() (*catalog.Catalog, error) { return loader.Load(layers...) },
+		OnDisk:   onDisk,
+		Watch:    true,
+		Strict:   strict,
+		Renderer: r,
+		Getenv:   e.getenv,
 	})
 	defer m.Close()
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),

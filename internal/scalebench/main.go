@@ -4,6 +4,7 @@
 // machine and on what else runs on it.
 //
 //	go run ./internal/scalebench [-sizes 10000,100000] [-dir DIR] [-cpuprofile F] [-memprofile F]
+//	go run ./internal/scalebench -generate -sizes 100000 -dir DIR   # catalogs only
 //
 // Catalogs are generated (internal/gencat) into a temporary directory that
 // is removed afterwards, unless -dir names one to keep.
@@ -37,8 +38,13 @@ func main() {
 	dir := flag.String("dir", "", "directory to generate the catalogs in and keep (default: a temporary one, removed)")
 	cpu := flag.String("cpuprofile", "", "write a CPU profile of the whole run to `file`")
 	mem := flag.String("memprofile", "", "write a heap profile at the end to `file`")
+	genOnly := flag.Bool("generate", false, "only generate the catalogs into -dir (for trying the program by hand)")
 	flag.Parse()
-	if err := run(*sizes, *dir, *cpu, *mem); err != nil {
+	if *genOnly && *dir == "" {
+		fmt.Fprintln(os.Stderr, "scalebench: -generate needs -dir")
+		os.Exit(2)
+	}
+	if err := run(*sizes, *dir, *cpu, *mem, *genOnly); err != nil {
 		fmt.Fprintln(os.Stderr, "scalebench:", err)
 		os.Exit(1)
 	}
@@ -57,7 +63,7 @@ func (r *report) line(what, measured string, ratio, limit float64) {
 	fmt.Printf("%-46s %-34s %8.3f  ≤ %-6g %s\n", what, measured, ratio, limit, ok)
 }
 
-func run(sizeList, keep, cpuFile, memFile string) error {
+func run(sizeList, keep, cpuFile, memFile string, genOnly bool) error {
 	var sizes []int
 	for _, s := range strings.Split(sizeList, ",") {
 		n, err := strconv.Atoi(strings.TrimSpace(s))
@@ -97,6 +103,10 @@ func run(sizeList, keep, cpuFile, memFile string) error {
 		files, err := gencat.Write(dir, n, gencat.PerFile, 1)
 		if err != nil {
 			return err
+		}
+		if genOnly {
+			fmt.Printf("%s: %d parts in %d files\n", dir, n, len(files))
+			continue
 		}
 		if err := measure(r, n, dir, files); err != nil {
 			return err
