@@ -14,6 +14,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -26,11 +27,14 @@ import (
 	"time"
 
 	"github.com/BurntSushi/toml"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/internal/gencat"
+	"github.com/opsift/opsift/tui"
 )
 
 func main() {
@@ -216,7 +220,152 @@ func measure(r *report, n int, dir string, files []string) error {
 	}
 	r.line("one keystroke "+l+" (derive, evaluate, rank)", fmt.Sprintf("%s / %s", ms(key), ms(limit)),
 		key.Seconds()/limit.Seconds(), 1)
+
+	first, err := firstFrame(func() (*catalog.Catalog, error) { return catalog.Load(catalog.PathLayer(dir)) })
+	if err != nil {
+		return err
+	}
+	r.line("selector first frame "+l+" (New + View)", fmt.Sprintf("%s / 300 ms", ms(first)), first.Seconds()/0.3, 1)
+
+	if n >= 100_000 {
+		small, err := viewTime(c.Parts[:1000])
+		if err != nil {
+			return err
+		}
+		big, err := viewTime(c.Parts)
+		if err != nil {
+			return err
+		}
+		r.line("View "+l+" / View 1k", fmt.Sprintf("%s / %s", ms(big), ms(small)), big.Seconds()/small.Seconds(), 1.5)
+		b, err := burst(c.Parts, 8)
+		if err != nil {
+			return err
+		}
+		r.line("burst of 8 keys "+l+": last key → ranking", fmt.Sprintf("%s / 50 ms", ms(b)), b.Seconds()/0.05, 1)
+	}
 	return nil
+}
+
+// demoDesign decodes the embedded default design.
+func demoDesign() (*filter.Design, error) {
+	raw, err := fs.ReadFile(data.Designs, data.DefaultDesign)
+	if err != nil {
+		return nil, err
+	}
+	return filter.DecodeDesign(data.DefaultDesign, raw)
+}
+
+// firstFrame measures the selector's start to its first frame when the
+// catalog is read after it (Config.LoadFirst): building the model and
+// drawing once. Terminal output is not included.
+func firstFrame(load func() (*catalog.Catalog, error)) (time.Duration, error) {
+	d, err := demoDesign()
+	if err != nil {
+		return 0, err
+	}
+	start := time.Now()
+	m := tui.New(tui.Config{Design: d, LoadFirst: true, Load: load, Renderer: lipgloss.NewRenderer(io.Discard)})
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	_ = m.View()
+	return time.Since(start), nil
+}
+
+// settle runs a command and every command its messages lead to,
+// skipping ticks (none are started without LoadFirst or a watcher).
+func settle(m tea.Model, cmd tea.Cmd) {
+	if cmd == nil {
+		return
+	}
+	switch msg := cmd().(type) {
+	case nil:
+	case tea.BatchMsg:
+		for _, c := range msg {
+			settle(m, c)
+		}
+	default:
+		_, next := m.Update(msg)
+		settle(m, next)
+	}
+}
+
+// viewTime is the median time of drawing the selector over parts, once
+// the ranking is in, moving the cursor between frames.
+func viewTime(parts []*catalog.Part) (time.Duration, error) {
+	d, err := demoDesign()
+	if err != nil {
+		return 0, err
+	}
+	m := tui.New(tui.Config{Design: d, Catalog: &catalog.Catalog{Parts: parts, Sources: []string{"generated"}},
+		Renderer: lipgloss.NewRenderer(io.Discard)})
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	settle(m, m.Init())
+	m.Update(tea.KeyMsg{Type: tea.KeyTab})
+	keys := []tea.KeyMsg{{Type: tea.KeyDown}, {Type: tea.KeyUp}}
+	var runs []time.Duration
+	for i := range 41 {
+		m.Update(keys[i%2])
+		start := time.Now()
+		_ = m.View()
+		runs = append(runs, time.Since(start))
+	}
+	slices.Sort(runs)
+	return runs[len(runs)/2], nil
+}
+
+// burst sends keys edits in quick succession, as a typing burst does: each
+// starts an evaluation and cancels the one before, as the selector's
+// ranking jobs do. It returns the time from the last edit to its ranking.
+func burst(parts []*catalog.Part, keys int) (time.Duration, error) {
+	d, err := demoDesign()
+	if err != nil {
+		return 0, err
+	}
+	in := filter.NewIncremental(parts, filter.Options{})
+	p, err := filter.Derive(d)
+	if err != nil {
+		return 0, err
+	}
+	if _, err := in.Evaluate(context.Background(), p); err != nil {
+		return 0, err
+	}
+	var runs []time.Duration
+	for round := range 5 {
+		var wg sync.WaitGroup
+		cancel := func() {}
+		var last time.Time
+		var lastDone time.Duration
+		for k := range keys {
+			cancel()
+			if err := d.Set("stage.gain.signal.freq", fmt.Sprintf("%d kHz", 20+round*keys+k)); err != nil {
+				return 0, err
+			}
+			p, err := filter.Derive(d)
+			if err != nil {
+				return 0, err
+			}
+			var ctx context.Context
+			ctx, cancel = context.WithCancel(context.Background())
+			last = time.Now()
+			isLast := k == keys-1
+			start := last
+			wg.Go(func() {
+				rs, err := in.Evaluate(ctx, p)
+				if err != nil {
+					return // cancelled by the next key
+				}
+				filter.Rank(rs, filter.SortMargin)
+				if isLast {
+					lastDone = time.Since(start)
+				}
+			})
+			time.Sleep(2 * time.Millisecond) // keys a few milliseconds apart
+		}
+		wg.Wait()
+		cancel()
+		runs = append(runs, lastDone)
+	}
+	slices.Sort(runs)
+	return runs[len(runs)/2], nil
 }
 
 // bareDecode decodes every file into maps with the project's TOML decoder,
