@@ -51,49 +51,9 @@ func ParseSortKey(s string) (SortKey, error) {
 func Rank(results []Result, key SortKey) {
 	keys := make([]rankKey, len(results))
 	for i := range results {
-		r := &results[i]
-		k := rankKey{pass: r.Pass, failed: r.Failed, worst: -r.WorstMargin, cost: r.Cost, id: r.Part.ID, idx: i}
-		if r.Pass {
-			switch key {
-			case SortCost:
-				k.primary = r.Cost
-			case SortSupplyCurrent:
-				k.primary = r.SupplyCurrent
-			case SortFMax:
-				k.primary = -r.MinFMax()
-			}
-		}
-		keys[i] = k
+		keys[i] = newRankKey(&results[i], i, key)
 	}
-	sortParallel(keys, func(a, b rankKey) int {
-		if a.pass != b.pass {
-			if a.pass {
-				return -1
-			}
-			return 1
-		}
-		if c := cmp.Compare(a.failed, b.failed); c != 0 {
-			return c
-		}
-		if key == SortID && a.pass {
-			if c := strings.Compare(a.id, b.id); c != 0 {
-				return c
-			}
-		}
-		if c := ascNaNLast(a.primary, b.primary); c != 0 {
-			return c
-		}
-		if c := ascNaNLast(a.worst, b.worst); c != 0 {
-			return c
-		}
-		if c := ascNaNLast(a.cost, b.cost); c != 0 {
-			return c
-		}
-		if c := strings.Compare(a.id, b.id); c != 0 {
-			return c
-		}
-		return cmp.Compare(a.idx, b.idx)
-	})
+	sortParallel(keys, rankOrder(key))
 	// Apply the permutation in place, cycle by cycle: each Result moves
 	// once and no second array is allocated.
 	for i := range keys {
@@ -115,29 +75,78 @@ func Rank(results []Result, key SortKey) {
 	}
 }
 
-// rankKey is what Rank compares, computed once per result.
+// rankKey is what Rank compares, computed once per result. The figures
+// are held as ascending uint64 codes (see ascCode), so most comparisons
+// are of integers.
 type rankKey struct {
-	pass    bool
-	failed  int     // failing checks (0 for passing results)
-	primary float64 // the sort key's figure, ascending (negated for largest-first)
-	worst   float64 // −worst margin
-	cost    float64
+	group   uint64 // 0 passing, else 1<<32 + failing checks
+	primary uint64 // the sort key's figure (negated for largest-first)
+	worst   uint64 // −worst margin
+	cost    uint64
 	id      string
 	idx     int
 }
 
-// ascNaNLast compares ascending with NaN after every number.
-func ascNaNLast(a, b float64) int {
-	an, bn := math.IsNaN(a), math.IsNaN(b)
-	switch {
-	case an && bn:
-		return 0
-	case an:
-		return 1
-	case bn:
-		return -1
+// newRankKey is the key of result r at index i for sort key key.
+func newRankKey(r *Result, i int, key SortKey) rankKey {
+	k := rankKey{group: 1<<32 + uint64(r.Failed), worst: ascCode(-r.WorstMargin), cost: ascCode(r.Cost),
+		primary: ascCode(0), id: r.Part.ID, idx: i}
+	if r.Pass {
+		k.group = 0
+		switch key {
+		case SortCost:
+			k.primary = ascCode(r.Cost)
+		case SortSupplyCurrent:
+			k.primary = ascCode(r.SupplyCurrent)
+		case SortFMax:
+			k.primary = ascCode(-r.MinFMax())
+		}
 	}
-	return cmp.Compare(a, b)
+	return k
+}
+
+// rankOrder is the comparison of rank keys for sort key key: a total
+// order (the input index settles every tie).
+func rankOrder(key SortKey) func(a, b rankKey) int {
+	return func(a, b rankKey) int {
+		if c := cmp.Compare(a.group, b.group); c != 0 {
+			return c
+		}
+		if key == SortID && a.group == 0 {
+			if c := strings.Compare(a.id, b.id); c != 0 {
+				return c
+			}
+		}
+		if c := cmp.Compare(a.primary, b.primary); c != 0 {
+			return c
+		}
+		if c := cmp.Compare(a.worst, b.worst); c != 0 {
+			return c
+		}
+		if c := cmp.Compare(a.cost, b.cost); c != 0 {
+			return c
+		}
+		if c := strings.Compare(a.id, b.id); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.idx, b.idx)
+	}
+}
+
+// ascCode maps a float64 to a uint64 whose order is the numbers' order
+// with NaN after every number: −0 and +0 map alike, and every NaN after +Inf.
+func ascCode(f float64) uint64 {
+	switch {
+	case math.IsNaN(f):
+		return math.MaxUint64
+	case f == 0:
+		f = 0 // −0 counts as +0
+	}
+	b := math.Float64bits(f)
+	if b>>63 == 1 {
+		return ^b
+	}
+	return b | 1<<63
 }
 
 // sortMinParallel is the length from which sortParallel splits the work.
