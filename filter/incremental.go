@@ -111,6 +111,12 @@ const checkEvery = 512
 func (in *Incremental) Evaluate(ctx context.Context, plan *Plan) ([]Result, error) {
 	in.mu.Lock()
 	defer in.mu.Unlock()
+	return in.evaluate(ctx, plan, true)
+}
+
+// evaluate brings the kept groups up to plan and, when results is true,
+// assembles the results in parts order. The caller holds in.mu.
+func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) ([]Result, error) {
 	n := len(in.parts)
 	fk := figureKeyOf(plan)
 	newFigs := in.figs == nil || fk != in.figKey
@@ -177,21 +183,60 @@ func (in *Incremental) Evaluate(ctx context.Context, plan *Plan) ([]Result, erro
 		return nil, err // nothing of this call is kept
 	}
 	in.figKey, in.figs, in.global, in.stages = fk, figs, global, stages
-	results := make([]Result, n)
+	if !results {
+		return nil, nil
+	}
+	out := make([]Result, n)
 	fmax := make([]float64, n*len(stages))
 	_ = inParallel(context.Background(), n, func(lo, hi int) {
 		for k := lo; k < hi; k++ {
-			r := &results[k]
-			t := global.totals[k]
-			*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
-				Packages: t.packages, Cost: t.cost, SupplyCurrent: t.current}
-			r.add(&global.sums[k])
-			r.FMax = fmax[k*len(stages) : (k+1)*len(stages) : (k+1)*len(stages)]
-			for i := range stages {
-				g := &stages[i].sums[k]
-				r.add(g)
-				r.FMax[i] = g.fmax
-			}
+			in.result(&out[k], k, fmax[k*len(stages):(k+1)*len(stages):(k+1)*len(stages)])
+		}
+	})
+	return out, nil
+}
+
+// result assembles the summary result of part k from the kept groups,
+// with fmax (one per stage) as its FMax.
+func (in *Incremental) result(r *Result, k int, fmax []float64) {
+	t := in.global.totals[k]
+	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
+		Packages: t.packages, Cost: t.cost, SupplyCurrent: t.current, FMax: fmax}
+	r.add(&in.global.sums[k])
+	for i := range in.stages {
+		g := &in.stages[i].sums[k]
+		r.add(g)
+		r.FMax[i] = g.fmax
+	}
+}
+
+// Ranked is Evaluate followed by Rank(results, key), the same results in
+// the same order, without moving results: the rank keys are made from the
+// kept groups and the results assembled in rank order.
+func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]Result, error) {
+	in.mu.Lock()
+	defer in.mu.Unlock()
+	if _, err := in.evaluate(ctx, plan, false); err != nil {
+		return nil, err
+	}
+	n, ns := len(in.parts), len(in.stages)
+	keys := make([]rankKey, n)
+	if err := inParallel(ctx, n, func(lo, hi int) {
+		var r Result
+		fmax := make([]float64, ns)
+		for k := lo; k < hi; k++ {
+			in.result(&r, k, fmax)
+			keys[k] = newRankKey(&r, k, key)
+		}
+	}); err != nil {
+		return nil, err
+	}
+	sortParallel(keys, rankOrder(key))
+	results := make([]Result, n)
+	fmax := make([]float64, n*ns)
+	_ = inParallel(context.Background(), n, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			in.result(&results[i], keys[i].idx, fmax[i*ns:(i+1)*ns:(i+1)*ns])
 		}
 	})
 	return results, nil

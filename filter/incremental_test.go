@@ -113,7 +113,15 @@ func TestIncrementalMatchesFull(t *testing.T) {
 						t.Fatal(err)
 					}
 					t.Log(what)
-					sameResults(t, step, got, filter.Evaluate(plan, parts, o))
+					full := filter.Evaluate(plan, parts, o)
+					sameResults(t, step, got, full)
+					key := filter.SortKeys()[r.IntN(len(filter.SortKeys()))]
+					ranked, err := in.Ranked(context.Background(), plan, key)
+					if err != nil {
+						t.Fatal(err)
+					}
+					filter.Rank(full, key)
+					sameResults(t, step, ranked, full)
 					steps++
 				}
 				if steps < 10 {

@@ -44,10 +44,9 @@ func explain(plan *filter.Plan, r *filter.Result, strict bool) {
 // one stops inside the evaluation and reports nothing.
 func (j rankJob) run() tea.Msg {
 	start := time.Now()
-	res, err := j.eval.Evaluate(j.ctx, j.plan)
+	res, err := j.eval.Ranked(j.ctx, j.plan, j.sort)
 	if err != nil {
 		return nil
 	}
-	filter.Rank(res, j.sort)
 	return rankedMsg{gen: j.gen, plan: j.plan, results: res, took: time.Since(start)}
 }

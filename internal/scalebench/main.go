@@ -349,11 +349,9 @@ func burst(parts []*catalog.Part, keys int) (time.Duration, error) {
 			isLast := k == keys-1
 			start := last
 			wg.Go(func() {
-				rs, err := in.Evaluate(ctx, p)
-				if err != nil {
+				if _, err := in.Ranked(ctx, p, filter.SortMargin); err != nil {
 					return // cancelled by the next key
 				}
-				filter.Rank(rs, filter.SortMargin)
 				if isLast {
 					lastDone = time.Since(start)
 				}
@@ -435,11 +433,10 @@ func keystroke(parts []*catalog.Part) (time.Duration, error) {
 		if err != nil {
 			return 0, err
 		}
-		rs, err := in.Evaluate(context.Background(), p)
+		rs, err := in.Ranked(context.Background(), p, filter.SortMargin)
 		if err != nil {
 			return 0, err
 		}
-		filter.Rank(rs, filter.SortMargin)
 		for i := 0; i < min(len(rs), 40); i++ {
 			filter.Explain(p, &rs[i], o)
 		}
