@@ -24,7 +24,11 @@
 // # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
 // frequency, ε allowed gain error, default 1 %)
 //
-//   - Supply: span min/max = nominal span × (1 ∓ tolerance). A part passes
+//   - Supply: each rail moves by tolerance × its own magnitude; span_min =
+//     both rails inward (V+w − V−w, below), span_max = both outward,
+//     (pos + tol·|pos|) − (neg − tol·|neg|) (RailsOutward). With 0 V between
+//     the rails that is nominal span × (1 ∓ tolerance); V+ 12 V, V− 2 V at
+//     10 % gives 8.6 … 11.4 V, not 9 … 11 V. A part passes
 //     when its rated supply.min ≤ span_min and span_max ≤ supply.max;
 //     margin = the smaller spare in volts / span_min.
 //   - Rails for headroom: each rail moved toward the other by the

@@ -2,6 +2,7 @@ package filter_test
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/opsift/opsift/catalog"
@@ -69,8 +70,10 @@ dc_error = "10 mV"
 	}
 }
 
-// Tolerance: span min/max = span × (1 ∓ tol); each rail moves toward 0 V
-// by tol for headroom. ±15 V at 5 %: span 28.5 … 31.5 V, rails ±14.25 V.
+// Tolerance: each rail moves by tol × its own magnitude; the span runs from
+// both rails inward to both outward. With 0 V between the rails that is
+// span × (1 ∓ tol): ±15 V at 5 %: span 28.5 … 31.5 V, rails ±14.25 V (by
+// hand).
 func TestToleranceHandling(t *testing.T) {
 	_, p := mustDesign(t, `title = "t"
 [supply]
@@ -405,6 +408,62 @@ func TestSummaryMatchesFull(t *testing.T) {
 			if x.Req.Key != y.Req.Key || x.Status != y.Status || !(x.Margin == y.Margin || math.IsNaN(x.Margin) && math.IsNaN(y.Margin)) {
 				t.Fatalf("%s check %d: %+v vs %+v", a.Part.ID, j, x, y)
 			}
+		}
+	}
+}
+
+// With both rails on one side of 0 V the span is not span × (1 ∓ tol): V+
+// 12 V, V− 2 V at 10 % gives inward 10.8 − 2.2 = 8.6 V and outward
+// 13.2 − 1.8 = 11.4 V (by hand, each rail ± 10 % of itself), where
+// 10 V × (1 ∓ 10 %) would say 9 … 11 V. The cases sit at and just past
+// both edges.
+func TestSupplySpanSameSignRails(t *testing.T) {
+	_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "12 V"
+neg = "2 V"
+tolerance = "10 %"
+[[stage]]
+name = "s"
+kind = "follower"
+ref = "6 V"
+signal = { peak = "1 V", freq = "1 kHz" }
+`)
+	r := p.Rails
+	near(t, "span min", r.SpanMin, 8.6, 1e-12)
+	near(t, "span max", r.SpanMax, 11.4, 1e-12)
+	near(t, "V+ worst", r.PosWorst, 10.8, 1e-12)
+	near(t, "V− worst", r.NegWorst, 2.2, 1e-12)
+	tests := []struct {
+		name   string
+		supply catalog.Span
+		pass   bool
+	}{
+		{"11 V part is overstressed at 11.4 V", catalog.Span{Min: opt(3), Max: opt(11)}, false},
+		{"11.4 V part is exactly at the outward rails", catalog.Span{Min: opt(3), Max: opt(11.4)}, true},
+		{"11.39 V part is just short", catalog.Span{Min: opt(3), Max: opt(11.39)}, false},
+		{"9 V minimum is not met at 8.6 V", catalog.Span{Min: opt(9), Max: opt(36)}, false},
+		{"8.6 V minimum is exactly at the inward rails", catalog.Span{Min: opt(8.6), Max: opt(36)}, true},
+		{"8.61 V minimum is just short", catalog.Span{Min: opt(8.61), Max: opt(36)}, false},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			part.Supply = tc.supply
+			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
+				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
+			}
+		})
+	}
+	var why string
+	for _, q := range p.Global {
+		if q.Key == filter.KeySupply {
+			why = q.Why
+		}
+	}
+	for _, w := range []string{"10.8 V − 2.2 V = 8.6 V", "13.2 V − 1.8 V = 11.4 V"} {
+		if !strings.Contains(why, w) {
+			t.Errorf("supply why %q lacks %q", why, w)
 		}
 	}
 }

@@ -154,7 +154,7 @@ type Rails struct {
 	PosWorst, NegWorst float64 // each rail moved toward the other by tolerance × its magnitude (RailsInward)
 	Tol                float64 // tolerance, fraction
 	Span               float64 // nominal span Pos − Neg
-	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)
+	SpanMin, SpanMax   float64 // PosWorst − NegWorst (rails inward) … the span with both rails outward (RailsOutward)
 }
 
 // StagePlan is what a template derived for one stage: the circuit
