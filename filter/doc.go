@@ -44,10 +44,13 @@
 //     output-resistance approximation; the check's note says so).
 //   - Range margin = the smallest spare volts / span_min.
 //   - slew: sine 2π·f·Vo; square 0.8·2Vo/rise (10–90 % of the step).
-//   - gbw: sine NG·f/√(1/(1−ε)² − 1) (single-pole loop, ≈ 7.02·NG·f at
+//   - gain error ε is split (circuit.GainErrorBudget): the aol floor takes
+//     ε/4 at DC, gbw the rest at f, so a single-pole part at both floors
+//     errs by exactly ε: (1 + NG/Aol)² + (NG·f/GBW)² = 1/(1−ε)².
+//   - gbw: sine NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) (single-pole loop, ≈ 8.09·NG·f at
 //     1 %); square NG·0.35/rise.
-//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε)/ε
-//     (circuit.AolForGainError).
+//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε/4)/(ε/4)
+//     (circuit.AolForGainError at ε/4).
 //
 // Every formula lives in filter/circuit with one test against its named
 // source; the templates call it and write the why line.
@@ -111,7 +114,7 @@
 // packages × unit cost, supply current = packages × channels × Iq.
 //
 // fmax per stage is the highest sine frequency at the stage's amplitude at
-// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG),
+// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG),
 // the inverses of the two requirement formulas (circuit.FullPowerBandwidth,
 // circuit.MaxFreqForGainError).
 //

@@ -347,7 +347,8 @@ func TestMultiStage(t *testing.T) {
 	}
 }
 
-// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG); at fmax both checks pass
+// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG), the inverses of
+// the slew and gbw requirements (by hand); at fmax both checks pass
 // with margin ≥ 0 and one binds at 0.
 func TestFMaxIsTheEdge(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
@@ -357,7 +358,7 @@ func TestFMaxIsTheEdge(t *testing.T) {
 	part.GBW = catalog.Spec{Min: opt(5e6)}
 	r := evalOne(t, p, part, filter.Options{})
 	fs := 2e6 / (2 * math.Pi * 5)
-	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1))
+	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1/(0.9975*0.9975)))
 	near(t, "fmax", r.FMax[0], math.Min(fs, fg), 1e-12)
 	// Re-derive at fmax: the binding check sits at margin 0.
 	d, _ := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
