@@ -148,7 +148,7 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 // formulas, circuit.FullPowerBandwidth (of SlewForSine) and
 // circuit.MaxFreqForGainError (of GainErrorBudget's gbw).
 func stageFMax(sp *StagePlan, f *PartFigures) float64 {
-	if sp.Shape != "sine" || sp.Vo <= 0 || sp.NoiseGain <= 0 || !f.Slew.Known || !f.GBW.Known {
+	if !sp.HasFMax() || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
 	fg, err := circuit.MaxFreqForGainError(f.GBW.V, sp.NoiseGain, sp.GainError)

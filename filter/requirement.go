@@ -178,6 +178,24 @@ type StagePlan struct {
 	Requirements []Requirement
 }
 
+// HasFMax reports whether fmax applies to the stage: an amplifier with a
+// sine signal, a noise gain and a gain error. Other stages (square signals,
+// filters, oscillators, comparators) have no fmax whatever the part.
+func (s *StagePlan) HasFMax() bool {
+	return s.Shape == "sine" && s.Vo > 0 && s.NoiseGain > 0 && s.GainError > 0 && s.GainError < 1
+}
+
+// HasFMax reports whether fmax applies to any stage of the plan; when not,
+// a part's fmax is "not applicable" rather than unknown.
+func (p *Plan) HasFMax() bool {
+	for i := range p.Stages {
+		if p.Stages[i].HasFMax() {
+			return true
+		}
+	}
+	return false
+}
+
 // Plan is a design with its requirements derived: the input to Evaluate.
 type Plan struct {
 	Design *Design

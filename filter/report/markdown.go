@@ -67,7 +67,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 		}
 		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
 			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
-			quantity(r.MinFMax(), catalog.Hertz), r.Unknown)
+			fmaxText(doc.Plan, r), r.Unknown)
 	}
 	b.WriteString("\n## Candidates\n")
 	for _, r := range listed {

@@ -35,7 +35,7 @@ type column struct {
 	cell  func(rank int, r *filter.Result) string
 }
 
-func tableColumns(strict bool) []column {
+func tableColumns(strict bool, p *filter.Plan) []column {
 	return []column{
 		{head: "#", right: true, cell: func(rank int, r *filter.Result) string {
 			if !r.Pass {
@@ -63,9 +63,7 @@ func tableColumns(strict bool) []column {
 		{head: "SUPPLY I", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
 			return quantity(r.SupplyCurrent, catalog.Ampere)
 		}},
-		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string {
-			return quantity(r.MinFMax(), catalog.Hertz)
-		}},
+		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string { return fmaxText(p, r) }},
 		{head: "?", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
 			if r.Unknown == 0 {
 				return ""
@@ -98,7 +96,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		wrap(b, "Caution: "+Caution, width)
 		return b.Flush()
 	}
-	cols := tableColumns(doc.Strict)
+	cols := tableColumns(doc.Strict, p)
 	rows := make([][]string, len(listed))
 	for i, r := range listed {
 		rows[i] = make([]string, len(cols))
