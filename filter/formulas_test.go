@@ -167,6 +167,21 @@ func TestSquareRequirements(t *testing.T) {
 		`kind = "noninverting"`+"\ngain = 2\n"+`ref = "0 V"`+"\n"+`signal = { shape = "square", peak = "1 V", rise = "1 us" }`))
 	near(t, "slew", requirement(t, p, "s", filter.KeySlew).Value, 0.8*2*2/1e-6, 1e-12)
 	near(t, "gbw", requirement(t, p, "s", filter.KeyGBW).Value, 2*math.Log(9)/(2*math.Pi)/1e-6, 6e-3)
+	// The settled level of a square is a DC gain and the rise rule does not
+	// draw on ε, so the aol floor has all of it: A_cl = NG/(1 + NG/Aol)
+	// (Sedra & Smith, from memory) gives Aol ≥ NG·(1 − ε)/ε = 2·0.99/0.01 =
+	// 198 V/V = 45.9333 dB (by hand: 20·log10 198).
+	near(t, "aol", requirement(t, p, "s", filter.KeyAol).Value, 45.93330, 1e-5)
+	for _, tc := range []struct {
+		db   float64
+		pass bool
+	}{{45.94, true}, {20 * math.Log10(198), true}, {45.93, false}} {
+		part := basePart("x")
+		part.Aol = catalog.Spec{Min: opt(tc.db)}
+		if c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyAol); c.Pass != tc.pass {
+			t.Errorf("square stage, Aol %.4f dB: pass %v (margin %g), want %v", tc.db, c.Pass, c.Margin, tc.pass)
+		}
+	}
 }
 
 // Open-loop gain from the loop-gain relation A_cl = NG/(1 + NG/Aol)
