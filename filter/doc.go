@@ -50,7 +50,8 @@
 //   - gbw: sine NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) (single-pole loop, ≈ 8.09·NG·f at
 //     1 %); square NG·0.35/rise.
 //   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε/4)/(ε/4)
-//     (circuit.AolForGainError at ε/4).
+//     (circuit.AolForGainError at ε/4); a square stage's gbw follows the
+//     rise time and does not draw on ε, so there Aol ≥ NG·(1 − ε)/ε.
 //
 // Every formula lives in filter/circuit with one test against its named
 // source; the templates call it and write the why line.
