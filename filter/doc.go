@@ -67,7 +67,9 @@
 //     not derated) since more bandwidth is more noise. The transimpedance
 //     stage integrates its own response (circuit.TIANoise).
 //   - relaxation gbw: the GBW at which the single-pole period model
-//     (circuit.AstablePeriodLimited, slew unlimited) is freq_error slow;
+//     (circuit.AstablePeriodLimited, slew unlimited) runs at
+//     (1 − freq_error)·f0, a period of T0/(1 − freq_error); relaxation
+//     slew: both transitions within that growth, T0·ε/(1 − ε);
 //     transimpedance gbw: the maximally flat response with Cf in the loop
 //     reaches the bandwidth (circuit.GBWForTIA).
 //   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
