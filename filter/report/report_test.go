@@ -339,3 +339,31 @@ func TestFMaxColumn(t *testing.T) {
 		}
 	})
 }
+
+// A failing cost check says "per unit": the COST column beside it is
+// packages × unit cost, so a part in 2 packages at 0.92 shows 1.84 there
+// while its check compares 0.92 with the limit.
+func TestCostMissPerUnit(t *testing.T) {
+	p, rs := fixture(t, "probe-3v3.toml", false)
+	var limit float64
+	for _, q := range p.Global {
+		if q.Key == filter.KeyCost {
+			limit = q.Value
+		}
+	}
+	if limit == 0 {
+		t.Fatal("probe-3v3.toml sets no max_unit_cost")
+	}
+	part := *rs[0].Part
+	part.UnitCost = catalog.Some(2 * limit)
+	r := filter.Evaluate(p, []*catalog.Part{&part}, filter.Options{})
+	var b bytes.Buffer
+	if err := report.WriteTable(&b, &report.Doc{Plan: p, Results: r, All: true}); err != nil {
+		t.Fatal(err)
+	}
+	want := "cost needs ≤ " + catalog.Format(limit, catalog.Dimensionless) + " per unit, has " +
+		catalog.Format(2*limit, catalog.Dimensionless) + " per unit"
+	if !strings.Contains(b.String(), want) {
+		t.Errorf("table lacks %q:\n%s", want, b.String())
+	}
+}
