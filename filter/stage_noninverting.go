@@ -40,7 +40,7 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		if !ok {
 			fb = rf + rg
 		}
-		sp, err := deriveAmplifier(in, p, amplifier{gain: g, noiseGain: g, feedbackR: fb,
+		sp, err := deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb,
 			invR: circuit.Parallel(rf, rg), invName: "Rf∥Rg"})
 		sp.Values = map[string]float64{"rf": rf, "rg": rg}
 		return sp, err
@@ -53,7 +53,7 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return StagePlan{}, fieldErrorf("gain", "%q is below 1, want a non-inverting gain ≥ 1 V/V", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
-	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: g, feedbackR: fb})
+	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb})
 }
 
 // circuit is the stage's divider (Rf, Rg as given, else Rg = previewR and
