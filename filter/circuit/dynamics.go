@@ -45,15 +45,6 @@ func ClosedLoopBandwidth(gbw, ng float64) float64 {
 	return gbw / ng
 }
 
-// GainErrorAt returns the magnitude error of the closed-loop gain at
-// frequency f for a single-pole op-amp of gain-bandwidth gbw in a loop of
-// noise gain ng: ε = 1 − 1/√(1 + (NG·f/GBW)²), from A_cl = A_ideal/(1 + j·NG·f/GBW)
-// (single-pole loop; Sedra & Smith, from memory).
-func GainErrorAt(gbw, ng, f float64) float64 {
-	x := ng * f / gbw
-	return 1 - 1/math.Sqrt(1+x*x)
-}
-
 // AolShare is the part of a stage's allowed gain error ε that the finite DC
 // open-loop gain may take; the loop gain at the signal frequency (GBW) takes
 // the rest (GainErrorBudget). Each rule spending the whole ε on its own
@@ -64,23 +55,14 @@ func GainErrorAt(gbw, ng, f float64) float64 {
 // derive's why lines and the README.
 const AolShare = 0.25
 
-// GainErrorSinglePole returns the magnitude error of the closed-loop gain
-// at frequency f for a single-pole op-amp A(jf) = Aol/(1 + j·f·Aol/GBW) in a
-// loop of noise gain ng: |A_cl| = NG/|1 + NG/A|, with
-// |1 + NG/A|² = (1 + NG/Aol)² + (NG·f/GBW)² (loop-gain relation A_cl =
-// A/(1 + A/NG), Sedra & Smith, from memory), so
-// ε = 1 − 1/√((1 + NG/Aol)² + (NG·f/GBW)²). aol = +Inf gives GainErrorAt.
-func GainErrorSinglePole(gbw, aol, ng, f float64) float64 {
-	d, x := 1+ng/aol, ng*f/gbw
-	return 1 - 1/math.Sqrt(d*d+x*x)
-}
-
 // GBWForGainError returns the gain-bandwidth that keeps the closed-loop gain
 // magnitude error at frequency f within eps (0 < ε < 1) in a loop of noise
 // gain ng around a single-pole op-amp of DC open-loop gain aol (V/V; +Inf
 // for an ideal DC gain): GBW = NG·f/√(1/(1−ε)² − (1 + NG/Aol)²), the inverse
-// in GBW of GainErrorSinglePole. With aol = +Inf it is NG·f/√(1/(1−ε)² − 1)
-// (≈ 7.02·NG·f at 1 %; DESIGN.md). An aol that alone spends ε is an error.
+// in GBW of the single-pole error ε = 1 − 1/√((1 + NG/Aol)² + (NG·f/GBW)²)
+// (loop-gain relation A_cl = A/(1 + A/NG), Sedra & Smith, from memory).
+// With aol = +Inf it is NG·f/√(1/(1−ε)² − 1) (≈ 7.02·NG·f at 1 %;
+// DESIGN.md). An aol that alone spends ε is an error.
 func GBWForGainError(ng, f, eps, aol float64) (float64, error) {
 	if !(eps > 0 && eps < 1) {
 		return 0, domainErr("gbw for gain error", "eps", eps, "0 < eps < 1")

@@ -73,7 +73,7 @@ func TestGBWForGainError(t *testing.T) {
 			mustOK(t, err)
 			assertRel(t, "gbw", gbw, tt.want, 1e-5)
 			// The inverse must give the error back.
-			assertRel(t, "round trip", GainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
+			assertRel(t, "round trip", gainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
 		})
 	}
 	for _, eps := range []float64{0, 1, -0.01, 1.5, math.NaN()} {
@@ -92,7 +92,7 @@ func TestGainErrorAtMatchesComplexGain(t *testing.T) {
 	a := complex(0, -gbw/f) // GBW/(j·f)
 	acl := a / (1 + a/complex(ng, 0))
 	want := 1 - cmplxAbs(acl)/ng
-	assertRel(t, "gain error", GainErrorAt(gbw, ng, f), want, 1e-9)
+	assertRel(t, "gain error", gainErrorAt(gbw, ng, f), want, 1e-9)
 }
 
 func TestAolForGainError(t *testing.T) {
@@ -108,7 +108,7 @@ func TestAolForGainError(t *testing.T) {
 	}
 }
 
-// GainErrorSinglePole against the complex closed loop A/(1 + A/NG) with
+// gainErrorSinglePole against the complex closed loop A/(1 + A/NG) with
 // A = Aol/(1 + j·f·Aol/GBW) (single pole at GBW/Aol), and GBWForGainError
 // as its inverse. The 4 % case is the demo gain stage (NG 6.2, 24 kHz):
 // 510.2 kHz and 148.8 V/V, the floors when each rule took the whole ε,
@@ -123,13 +123,13 @@ func TestGainErrorSinglePole(t *testing.T) {
 		a := complex(tc.aol, 0) / complex(1, tc.f*tc.aol/tc.gbw)
 		acl := a / (1 + a/complex(tc.ng, 0))
 		want := 1 - cmplxAbs(acl)/tc.ng
-		assertRel(t, "gain error", GainErrorSinglePole(tc.gbw, tc.aol, tc.ng, tc.f), want, 1e-12)
+		assertRel(t, "gain error", gainErrorSinglePole(tc.gbw, tc.aol, tc.ng, tc.f), want, 1e-12)
 	}
-	assertAbs(t, "both whole-ε floors", GainErrorSinglePole(510.2e3, 148.8, 6.2, 24e3), 0.0755, 5e-4)
-	assertRel(t, "ideal Aol is GainErrorAt", GainErrorSinglePole(1e6, math.Inf(1), 10, 30e3), GainErrorAt(1e6, 10, 30e3), 1e-15)
+	assertAbs(t, "both whole-ε floors", gainErrorSinglePole(510.2e3, 148.8, 6.2, 24e3), 0.0755, 5e-4)
+	assertRel(t, "ideal Aol is gainErrorAt", gainErrorSinglePole(1e6, math.Inf(1), 10, 30e3), gainErrorAt(1e6, 10, 30e3), 1e-15)
 	g, err := GBWForGainError(6.2, 24e3, 0.04, 613.8)
 	mustOK(t, err)
-	assertRel(t, "inverse", GainErrorSinglePole(g, 613.8, 6.2, 24e3), 0.04, 1e-12)
+	assertRel(t, "inverse", gainErrorSinglePole(g, 613.8, 6.2, 24e3), 0.04, 1e-12)
 	// Aol alone spends the whole budget: no GBW is enough.
 	var de *DomainError
 	if _, err := GBWForGainError(6.2, 24e3, 0.04, 148.8); !errors.As(err, &de) || de.Param != "aol" {
@@ -160,11 +160,11 @@ func TestGainErrorBudget(t *testing.T) {
 			assertRel(t, "gbw", gbw, tc.gbw, 1e-7)
 			assertRel(t, "aol", aol, tc.aol, 1e-12)
 			assertAbs(t, "aol dB", db, tc.aoDB, 1e-6)
-			assertRel(t, "error at both floors", GainErrorSinglePole(gbw, aol, tc.ng, tc.f), tc.eps, 1e-12)
-			if e := GainErrorSinglePole(0.999*gbw, aol, tc.ng, tc.f); !(e > tc.eps) {
+			assertRel(t, "error at both floors", gainErrorSinglePole(gbw, aol, tc.ng, tc.f), tc.eps, 1e-12)
+			if e := gainErrorSinglePole(0.999*gbw, aol, tc.ng, tc.f); !(e > tc.eps) {
 				t.Errorf("GBW 0.1 %% below its floor: error %g, want > %g", e, tc.eps)
 			}
-			if e := GainErrorSinglePole(gbw, 0.999*aol, tc.ng, tc.f); !(e > tc.eps) {
+			if e := gainErrorSinglePole(gbw, 0.999*aol, tc.ng, tc.f); !(e > tc.eps) {
 				t.Errorf("Aol 0.1 %% below its floor: error %g, want > %g", e, tc.eps)
 			}
 		})

@@ -70,7 +70,7 @@ func TestGainErrorBudgetAgainstNgspice(t *testing.T) {
 				assertRel(t, "live ngspice vs recorded", ratio, tc.ratio, 1e-9)
 			}
 			got := 1 - ratio
-			assertRel(t, "closed form vs ngspice", GainErrorSinglePole(gbw, aol, tc.ng, tc.f), got, 1e-8)
+			assertRel(t, "closed form vs ngspice", gainErrorSinglePole(gbw, aol, tc.ng, tc.f), got, 1e-8)
 			atFloors := tc.kGBW == 1 && tc.kAol == 1
 			switch {
 			case atFloors && got > tc.eps*(1+1e-9):
