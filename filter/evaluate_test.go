@@ -87,30 +87,15 @@ ref = "0 V"
 signal = { peak = "13 V", freq = "1 Hz" }
 `)
 	r := p.Rails
-	near(t, "span min", r.SpanMin, 28.5, 1e-12)
-	near(t, "span max", r.SpanMax, 31.5, 1e-12)
-	near(t, "V+ worst", r.PosWorst, 14.25, 1e-12)
-	near(t, "V− worst", r.NegWorst, -14.25, 1e-12)
-	tests := []struct {
-		name   string
-		supply catalog.Span
-		pass   bool
-	}{
+	wantRails(t, r, 28.5, 31.5, 14.25, -14.25)
+	tests := []supplyCase{
 		{"36 V part fits 31.5 V", catalog.Span{Min: opt(4), Max: opt(36)}, true},
 		{"30 V part fails 31.5 V at +5 %", catalog.Span{Min: opt(4), Max: opt(30)}, false},
 		{"part needing 29 V fails 28.5 V at −5 %", catalog.Span{Min: opt(29), Max: opt(40)}, false},
 		{"31.5 V part is exactly at +5 %", catalog.Span{Min: opt(4), Max: opt(31.5)}, true},
 		{"28.5 V minimum is exactly at −5 %", catalog.Span{Min: opt(28.5), Max: opt(40)}, true},
 	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			part := basePart("x")
-			part.Supply = tc.supply
-			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
-				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
-			}
-		})
-	}
+	supplyCases(t, p, tests)
 	// Output 13 V peak: the swing must reach 13 V from a 14.25 V rail, 1.25 V headroom.
 	// A part exactly at the headroom (1.25 V) ties and passes.
 	for _, tc := range []struct {
@@ -431,15 +416,8 @@ ref = "6 V"
 signal = { peak = "1 V", freq = "1 kHz" }
 `)
 	r := p.Rails
-	near(t, "span min", r.SpanMin, 8.6, 1e-12)
-	near(t, "span max", r.SpanMax, 11.4, 1e-12)
-	near(t, "V+ worst", r.PosWorst, 10.8, 1e-12)
-	near(t, "V− worst", r.NegWorst, 2.2, 1e-12)
-	tests := []struct {
-		name   string
-		supply catalog.Span
-		pass   bool
-	}{
+	wantRails(t, r, 8.6, 11.4, 10.8, 2.2)
+	tests := []supplyCase{
 		{"11 V part is overstressed at 11.4 V", catalog.Span{Min: opt(3), Max: opt(11)}, false},
 		{"11.4 V part is exactly at the outward rails", catalog.Span{Min: opt(3), Max: opt(11.4)}, true},
 		{"11.39 V part is just short", catalog.Span{Min: opt(3), Max: opt(11.39)}, false},
@@ -447,15 +425,7 @@ signal = { peak = "1 V", freq = "1 kHz" }
 		{"8.6 V minimum is exactly at the inward rails", catalog.Span{Min: opt(8.6), Max: opt(36)}, true},
 		{"8.61 V minimum is just short", catalog.Span{Min: opt(8.61), Max: opt(36)}, false},
 	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			part := basePart("x")
-			part.Supply = tc.supply
-			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
-				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
-			}
-		})
-	}
+	supplyCases(t, p, tests)
 	var why string
 	for _, q := range p.Global {
 		if q.Key == filter.KeySupply {
@@ -467,4 +437,35 @@ signal = { peak = "1 V", freq = "1 kHz" }
 			t.Errorf("supply why %q lacks %q", why, w)
 		}
 	}
+}
+
+// supplyCase is a part's rated supply and whether it must pass the plan's
+// supply check.
+type supplyCase struct {
+	name   string
+	supply catalog.Span
+	pass   bool
+}
+
+// supplyCases evaluates a part of each rated supply against p.
+func supplyCases(t *testing.T, p *filter.Plan, tests []supplyCase) {
+	t.Helper()
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			part.Supply = tc.supply
+			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
+				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
+			}
+		})
+	}
+}
+
+// wantRails checks the spans and the inward rails.
+func wantRails(t *testing.T, r filter.Rails, spanMin, spanMax, posWorst, negWorst float64) {
+	t.Helper()
+	near(t, "span min", r.SpanMin, spanMin, 1e-12)
+	near(t, "span max", r.SpanMax, spanMax, 1e-12)
+	near(t, "V+ worst", r.PosWorst, posWorst, 1e-12)
+	near(t, "V− worst", r.NegWorst, negWorst, 1e-12)
 }
