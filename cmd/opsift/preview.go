@@ -18,7 +18,7 @@ import (
 )
 
 const previewUsage = `Usage: opsift preview PART-ID [--design FILE] [--stage NAME] [--catalog PATH]...
-                      [--typical] [--format text|json] [--width N] [--height N] [--points N]
+                      [--typical] [--format text|json] [--width N] [--height N] [--points N] [--no-cache]
 
 Simulate PART-ID in one stage of the design and show the settled waveform
 beside the ideal op-amp's: output and ideal peak-to-peak, peak error, THD,

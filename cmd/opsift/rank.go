@@ -8,7 +8,7 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [-o FILE [--force]]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-cache] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement

@@ -15,7 +15,7 @@ import (
 	"github.com/opsift/opsift/tui"
 )
 
-const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict]
+const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--no-cache]
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
