@@ -16,14 +16,7 @@ import (
 // Load reads from the file.
 func cacheFixture(t *testing.T, n int) (string, *Cache, []*Part) {
 	t.Helper()
-	var buf bytes.Buffer
-	if err := Encode(&buf, synthParts(n, 11)); err != nil {
-		t.Fatal(err)
-	}
-	file := filepath.Join(t.TempDir(), "parts.toml")
-	if err := os.WriteFile(file, buf.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	file := writeSynth(t, n)
 	c, err := Load(PathLayer(file))
 	if err != nil {
 		t.Fatal(err)

@@ -82,37 +82,36 @@ func round3(v float64) float64 {
 }
 
 // bigger is a bigger-is-better figure around typ: typical only with
-// probability typOnly, else with a guaranteed minimum, sometimes also over
-// temperature; a share is read from a graph.
+// probability typOnly (a third of those read from a graph), else with a
+// guaranteed minimum below it, a third of those also over temperature.
 func (g gen) bigger(typ, typOnly float64) catalog.Spec {
-	s := catalog.Spec{Typ: catalog.Some(typ)}
-	switch {
-	case g.r.Float64() < typOnly:
-		if g.r.IntN(3) == 0 {
-			s.Source = catalog.SourceGraph
-		}
-	default:
-		s.Min = catalog.Some(round3(typ * g.between(0.55, 0.85)))
-		if g.r.IntN(3) == 0 {
-			s.MinOT = catalog.Some(round3(s.Min.V * g.between(0.8, 0.95)))
-		}
-	}
-	return s
+	return g.spec(typ, typOnly, 3, [2]float64{0.55, 0.85}, [2]float64{0.8, 0.95}, true)
 }
 
-// smaller is a smaller-is-better figure around typ, like bigger.
+// smaller is a smaller-is-better figure around typ, like bigger with a
+// guaranteed maximum above it.
 func (g gen) smaller(typ, typOnly float64) catalog.Spec {
+	return g.spec(typ, typOnly, 4, [2]float64{1.5, 4}, [2]float64{1.1, 1.6}, false)
+}
+
+// spec draws a figure: typical only with probability typOnly (one in
+// graphEvery of those from a graph), else with a limit at typ × lim and,
+// one time in three, an over-temperature limit at that × ot.
+func (g gen) spec(typ, typOnly float64, graphEvery int, lim, ot [2]float64, bigger bool) catalog.Spec {
 	s := catalog.Spec{Typ: catalog.Some(typ)}
-	switch {
-	case g.r.Float64() < typOnly:
-		if g.r.IntN(4) == 0 {
+	if g.r.Float64() < typOnly {
+		if g.r.IntN(graphEvery) == 0 {
 			s.Source = catalog.SourceGraph
 		}
-	default:
-		s.Max = catalog.Some(round3(typ * g.between(1.5, 4)))
-		if g.r.IntN(3) == 0 {
-			s.MaxOT = catalog.Some(round3(s.Max.V * g.between(1.1, 1.6)))
-		}
+		return s
+	}
+	limit, overTemp := &s.Max, &s.MaxOT
+	if bigger {
+		limit, overTemp = &s.Min, &s.MinOT
+	}
+	*limit = catalog.Some(round3(typ * g.between(lim[0], lim[1])))
+	if g.r.IntN(3) == 0 {
+		*overTemp = catalog.Some(round3(limit.V * g.between(ot[0], ot[1])))
 	}
 	return s
 }
