@@ -65,6 +65,8 @@
 //   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
 //     between the stage's levels, as the preview measures it.
 //   - supply_current (when [choose] sets it): packages × channels × Iq.
+//   - limit.<figure> (one per side of each [choose.limit] entry): the
+//     part's worst-case figure (FigureFor) against the stated min or max.
 //   - vdiff, cload: a stage states the differential input or load
 //     capacitance; the part's vdiff_max / cload must reach it.
 //   - Hard filters (pass/fail, margin null): temperature (the part's rated

@@ -41,14 +41,7 @@ const (
 // Basis is guaranteed for limits, typical or graph (Source "graph") for
 // typical figures.
 func Figures(p *catalog.Part, plan *Plan) PartFigures {
-	w := worst{leaves: plan.TempLow < RoomTemp || plan.TempHigh > RoomTemp,
-		derate: plan.DerateTyp, inflate: plan.InflateTyp}
-	if w.derate == 0 {
-		w.derate = DefaultDerateTyp
-	}
-	if w.inflate == 0 {
-		w.inflate = DefaultInflateTyp
-	}
+	w := newWorst(plan)
 	dtAbs := math.Max(math.Abs(plan.TempLow-RoomTemp), math.Abs(plan.TempHigh-RoomTemp))
 	dtHot := math.Max(0, plan.TempHigh-RoomTemp)
 	f := PartFigures{
@@ -124,6 +117,78 @@ func typBasis(s catalog.Source) Basis {
 type worst struct {
 	leaves          bool // the design's range leaves 25 °C
 	derate, inflate float64
+}
+
+// newWorst returns the rules of plan (the default factors where the plan
+// leaves them zero).
+func newWorst(plan *Plan) worst {
+	w := worst{leaves: plan.TempLow < RoomTemp || plan.TempHigh > RoomTemp,
+		derate: plan.DerateTyp, inflate: plan.InflateTyp}
+	if w.derate == 0 {
+		w.derate = DefaultDerateTyp
+	}
+	if w.inflate == 0 {
+		w.inflate = DefaultInflateTyp
+	}
+	return w
+}
+
+// FigureFor returns the worst-case figure of part p under a catalog figure
+// key ("vos", "gbw", "cload", …) for a bound: BoundMin asks for the lowest
+// value the part may have over the plan's range, BoundMax the highest. f
+// holds p's Figures at plan.
+//
+// In a figure's own direction (the lower side of a bigger-is-better figure
+// — gbw, slew, aol, iout — and the upper side of a smaller-is-better one —
+// vos, ib, ios, en, in, iq) this is the figure every other check uses, with
+// all its temperature rules. vos_drift's upper side is its max, else
+// typical × inflate_typ. Against the direction (a ceiling on GBW, a floor
+// on offset) the mirror rule applies without temperature moves: the upper
+// side is max_ot / max / typical × inflate_typ, the lower side min_ot / min
+// / typical × derate_typ (a dB figure moves by 20·log10 of the factor). A
+// single-quantity key (vdiff_max, cload, cin, en_corner, in_corner) is
+// its stated value, guaranteed, on both sides. ok is false for a key that
+// is no figure.
+func FigureFor(p *catalog.Part, f *PartFigures, plan *Plan, key string, b Bound) (fig Figure, ok bool) {
+	if v, ok := p.Scalar(key); ok {
+		return Figure{V: v.V, Known: v.Set, Basis: BasisGuaranteed}, true
+	}
+	s, ok := p.Spec(key)
+	if !ok {
+		return Figure{}, false
+	}
+	low := b == BoundMin
+	switch {
+	case key == "gbw" && low:
+		return f.GBW, true
+	case key == "slew" && low:
+		return f.Slew, true
+	case key == "aol" && low:
+		return f.Aol, true
+	case key == "iout" && low:
+		return f.Iout, true
+	case key == "vos" && !low:
+		return f.Vos, true
+	case key == "ib" && !low:
+		return f.Ib, true
+	case key == "ios" && !low:
+		return f.Ios, true
+	case key == "en" && !low:
+		return f.En, true
+	case key == "in" && !low:
+		return f.In, true
+	case key == "iq" && !low:
+		return f.Iq, true
+	}
+	w := newWorst(plan)
+	if low {
+		return w.bigger(s), true
+	}
+	fig = w.smaller(s)
+	if key == "aol" && fig.Known && fig.Basis != BasisGuaranteed {
+		fig.V = s.Typ.V + circuit.DB(w.inflate)
+	}
+	return fig, true
 }
 
 func (w worst) bigger(s catalog.Spec) Figure {
