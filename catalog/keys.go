@@ -189,3 +189,13 @@ func (p *Part) Scalar(key string) (v Opt, ok bool) {
 	}
 	return Opt{}, false
 }
+
+// Suggest returns the known word the user most likely meant by got ("" when
+// nothing is close or got is itself known), by the rule catalog messages
+// use for did-you-mean.
+func Suggest(got string, known []string) string {
+	if s := suggest(got, known); s != got {
+		return s
+	}
+	return ""
+}
