@@ -93,7 +93,7 @@ func (l Limit) Label() string {
 const (
 	// RelTol is the bisection tolerance relative to the limit's magnitude
 	// (for rails and temperatures: to the supply span and to 1 K).
-	RelTol = 1e-6
+	RelTol = 1e-5
 	// confirmTol is how far inside and outside a closed-form limit the
 	// part is evaluated to confirm it.
 	confirmTol = 1e-5
@@ -118,6 +118,17 @@ type input struct {
 	// min, max bound the value the design accepts (NaN: none).
 	min, max float64
 	set      func(d *filter.Design, v float64)
+	// only, when not 0, is the one direction searched (a temperature end
+	// moved inward only narrows the range).
+	only Direction
+}
+
+// dirs lists the directions searched for in.
+func (in *input) dirs() []Direction {
+	if in.only != 0 {
+		return []Direction{in.only}
+	}
+	return []Direction{Up, Down}
 }
 
 // Find returns the headroom of part against the design d (already derived
@@ -134,7 +145,7 @@ func Find(d *filter.Design, plan *filter.Plan, part *catalog.Part, o filter.Opti
 	s := &searcher{design: d, part: part, opts: o}
 	var out []Limit
 	for _, in := range inputs(d, plan) {
-		for _, dir := range []Direction{Up, Down} {
+		for _, dir := range in.dirs() {
 			if l, ok := s.limit(in, dir, plan, &base); ok {
 				out = append(out, l)
 			}
@@ -313,7 +324,7 @@ func (s *searcher) bracket(in *input, dir Direction) (pass, fail float64, ok boo
 		}
 		// Past the design's own domain: look between the last pass and here.
 		bad := v
-		for range 40 {
+		for range edgeSteps {
 			mid := (pass + bad) / 2
 			o := s.at(in, mid)
 			switch {
@@ -328,6 +339,10 @@ func (s *searcher) bracket(in *input, dir Direction) (pass, fail float64, ok boo
 		return 0, 0, false
 	}
 }
+
+// edgeSteps caps the halvings toward the edge of the design's domain
+// (1/65536 of the last step).
+const edgeSteps = 16
 
 // searchSpan bounds an additive input's search: this many units either side.
 const searchSpan = 40

@@ -65,10 +65,10 @@ func inputs(d *filter.Design, plan *filter.Plan) []input {
 			min: math.NaN(), max: math.NaN(),
 			set: func(d *filter.Design, v float64) { d.Supply.Neg = quantity(v, catalog.Volt) }},
 		input{name: "environment.temp_low", dim: catalog.Celsius, value: plan.TempLow, additive: true, unit: tempUnit,
-			min: -273.15, max: plan.TempHigh,
+			min: -273.15, max: plan.TempHigh, only: Down,
 			set: func(d *filter.Design, v float64) { d.Temp[0] = quantity(v, catalog.Celsius) }},
 		input{name: "environment.temp_high", dim: catalog.Celsius, value: plan.TempHigh, additive: true, unit: tempUnit,
-			min: plan.TempLow, max: math.NaN(),
+			min: plan.TempLow, max: math.NaN(), only: Up,
 			set: func(d *filter.Design, v float64) { d.Temp[1] = quantity(v, catalog.Celsius) }},
 	)
 	return out
