@@ -18,8 +18,11 @@
 // (stage_direct.go, stage_follower.go, stage_noninverting.go,
 // stage_inverting.go, stage_comparator.go, stage_relaxation.go,
 // stage_sallen_key.go, stage_rail_splitter.go, stage_transimpedance.go)
-// plus one line in templates(). An unknown kind is an error listing the
-// known kinds, with a did-you-mean.
+// that registers itself from init. Derive resolves the stage's circuit
+// into its StagePlan (Ref, Values, Texts); a kind with a waveform preview
+// also builds the filter/sim circuit from that (StagePlan.Circuit, see
+// waveform.go). An unknown kind is an error listing the known kinds, with a
+// did-you-mean, never another kind's circuit.
 //
 // # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
 // frequency, ε allowed gain error, default 1 %)
