@@ -215,18 +215,13 @@ type entryReader struct {
 	intern map[string]string
 }
 
-func (r *entryReader) uvarint() uint64 {
-	v, n := binary.Uvarint(r.b)
-	if n <= 0 {
-		r.fail()
-		return 0
-	}
-	r.b = r.b[n:]
-	return v
-}
+func (r *entryReader) uvarint() uint64 { return readVarint(r, binary.Uvarint) }
 
-func (r *entryReader) varint() int64 {
-	v, n := binary.Varint(r.b)
+func (r *entryReader) varint() int64 { return readVarint(r, binary.Varint) }
+
+// readVarint reads one number with read (binary.Uvarint or Varint).
+func readVarint[T uint64 | int64](r *entryReader, read func([]byte) (T, int)) T {
+	v, n := read(r.b)
 	if n <= 0 {
 		r.fail()
 		return 0

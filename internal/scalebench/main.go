@@ -168,19 +168,9 @@ func measure(r *report, n int, dir string, files []string) error {
 	if err != nil {
 		return err
 	}
-	var c *catalog.Catalog
-	cold, err := best(reps, func() error {
-		c = nil
-		runtime.GC()
-		var err error
-		c, err = catalog.Load(catalog.PathLayer(dir))
-		return err
-	})
+	cold, c, err := timedLoad(catalog.Loader{}, reps, dir, n)
 	if err != nil {
 		return err
-	}
-	if len(c.Parts) != n {
-		return fmt.Errorf("%d parts loaded, want %d", len(c.Parts), n)
 	}
 	r.line("cold load "+l+" / bare parallel decode", fmt.Sprintf("%s / %s", secs(cold), secs(bare)),
 		cold.Seconds()/bare.Seconds(), 1.2)
@@ -189,18 +179,9 @@ func measure(r *report, n int, dir string, files []string) error {
 	if _, err := (catalog.Loader{Cache: cache}).Load(catalog.PathLayer(dir)); err != nil {
 		return err // builds the cache
 	}
-	warm, err := best(reps+2, func() error {
-		c = nil
-		runtime.GC()
-		var err error
-		c, err = catalog.Loader{Cache: cache}.Load(catalog.PathLayer(dir))
-		return err
-	})
+	warm, _, err := timedLoad(catalog.Loader{Cache: cache}, reps+2, dir, n)
 	if err != nil {
 		return err
-	}
-	if len(c.Parts) != n {
-		return fmt.Errorf("%d parts loaded from the cache, want %d", len(c.Parts), n)
 	}
 	r.line("warm (cached) load "+l+" / cold load", fmt.Sprintf("%s / %s", secs(warm), secs(cold)),
 		warm.Seconds()/cold.Seconds(), 0.1)
@@ -367,6 +348,23 @@ func burst(parts []*catalog.Part, keys int) (time.Duration, error) {
 	}
 	slices.Sort(runs)
 	return runs[len(runs)/2], nil
+}
+
+// timedLoad loads dir with ld reps times, each after a collection, and
+// returns the fastest time and the catalog, which must hold n parts.
+func timedLoad(ld catalog.Loader, reps int, dir string, n int) (time.Duration, *catalog.Catalog, error) {
+	var c *catalog.Catalog
+	d, err := best(reps, func() error {
+		c = nil
+		runtime.GC()
+		var err error
+		c, err = ld.Load(catalog.PathLayer(dir))
+		return err
+	})
+	if err == nil && len(c.Parts) != n {
+		err = fmt.Errorf("%d parts loaded, want %d", len(c.Parts), n)
+	}
+	return d, c, err
 }
 
 // bareDecode decodes every file into maps with the project's TOML decoder,
