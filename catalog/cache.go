@@ -132,10 +132,10 @@ func writeEntry(path string, b []byte) error {
 	return err
 }
 
-// optSlots lists every optional number of a part in the entry's order.
-func optSlots(p *Part) []*Opt {
-	s := make([]*Opt, 0, 10+5*len(figures)+len(scalars))
-	s = append(s, &p.UnitCost, &p.Temp[0], &p.Temp[1], &p.Supply.Min, &p.Supply.Max,
+// optSlots lists every optional number of a part in the entry's order,
+// in buf (reused from part to part).
+func optSlots(p *Part, buf []*Opt) []*Opt {
+	s := append(buf[:0], &p.UnitCost, &p.Temp[0], &p.Temp[1], &p.Supply.Min, &p.Supply.Max,
 		&p.InputCM.Low, &p.InputCM.High, &p.Output.Low, &p.Output.High, &p.Output.Load)
 	for _, f := range figures {
 		sp := f.spec(p)
@@ -147,9 +147,9 @@ func optSlots(p *Part) []*Opt {
 	return s
 }
 
-// sourceSlots lists every Source of a part in the entry's order.
-func sourceSlots(p *Part) []*Source {
-	s := []*Source{&p.InputCM.Source, &p.Output.Source}
+// sourceSlots lists every Source of a part in the entry's order, in buf.
+func sourceSlots(p *Part, buf []*Source) []*Source {
+	s := append(buf[:0], &p.InputCM.Source, &p.Output.Source)
 	for _, f := range figures {
 		s = append(s, &f.spec(p).Source)
 	}
@@ -169,6 +169,8 @@ func encodeEntry(k cacheKey, parts []*Part) []byte {
 	b = binary.AppendVarint(b, k.mtime)
 	b = append(b, k.sum[:]...)
 	b = binary.AppendUvarint(b, uint64(len(parts)))
+	var opts []*Opt
+	var srcs []*Source
 	for _, p := range parts {
 		for _, s := range []string{p.ID, p.Name, string(p.Tech), p.Pinout, string(p.Lifecycle), p.Datasheet, p.Notes} {
 			b = appendString(b, s)
@@ -179,7 +181,8 @@ func encodeEntry(k cacheKey, parts []*Part) []byte {
 		for _, s := range p.Packages {
 			b = appendString(b, s)
 		}
-		slots := optSlots(p)
+		opts = optSlots(p, opts)
+		slots := opts
 		mask := make([]byte, (len(slots)+7)/8)
 		for i, o := range slots {
 			if o.Set {
@@ -192,7 +195,8 @@ func encodeEntry(k cacheKey, parts []*Part) []byte {
 				b = binary.LittleEndian.AppendUint64(b, math.Float64bits(o.V))
 			}
 		}
-		for _, s := range sourceSlots(p) {
+		srcs = sourceSlots(p, srcs)
+		for _, s := range srcs {
 			b = appendString(b, string(*s))
 		}
 	}
@@ -281,6 +285,8 @@ func decodeEntry(raw []byte, k cacheKey, file string) ([]*Part, error) {
 	}
 	parts := make([]*Part, 0, n)
 	block := make([]Part, n) // one allocation for all the parts of the file
+	var opts []*Opt
+	var srcs []*Source
 	for i := range block {
 		p := &block[i]
 		p.ID, p.Name = r.str(), r.str()
@@ -294,7 +300,8 @@ func decodeEntry(raw []byte, k cacheKey, file string) ([]*Part, error) {
 				p.Packages[j] = r.shared()
 			}
 		}
-		slots := optSlots(p)
+		opts = optSlots(p, opts)
+		slots := opts
 		mask := r.bytes(uint64(len(slots)+7) / 8)
 		for j, o := range slots {
 			if r.err == nil && mask[j/8]&(1<<(j%8)) != 0 {
@@ -303,7 +310,8 @@ func decodeEntry(raw []byte, k cacheKey, file string) ([]*Part, error) {
 				}
 			}
 		}
-		for _, s := range sourceSlots(p) {
+		srcs = sourceSlots(p, srcs)
+		for _, s := range srcs {
 			*s = Source(r.shared())
 		}
 		if r.err != nil {
