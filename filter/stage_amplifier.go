@@ -188,8 +188,8 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		}
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: floor, Dim: catalog.Hertz,
 			Need: func(_ *catalog.Part, pf *PartFigures) (float64, string) { return gainErrorGBW(ng, f, eps, pf.Aol) },
-			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with each part's own Aol, ≥ %s·%s·%.4g = %s as Aol → ∞ (ε = %s); %s for a part with no Aol (ε/4 left to it)",
-				catalog.Format(ng, catalog.Dimensionless), Hz, floor/(ng*f), catalog.Format(floor, catalog.Hertz),
+			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with each part's own Aol; as Aol → ∞ %s·%s·%.4g (ε = %s); %s for a part with no Aol (ε/4 left to it)",
+				catalog.Format(ng, catalog.Dimensionless), Hz, floor/(ng*f),
 				catalog.Format(eps, catalog.Ratio), catalog.Format(split, catalog.Hertz))})
 	case "square":
 		rise, err := in.Need("signal.rise")
