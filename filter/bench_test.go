@@ -1,6 +1,7 @@
 package filter_test
 
 import (
+	"context"
 	"fmt"
 	"io/fs"
 	"math"
@@ -10,6 +11,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/gencat"
 )
 
 // synthetic returns n parts with figures spread over the usual ranges,
@@ -114,6 +116,38 @@ func BenchmarkEvaluate(b *testing.B) {
 		b.Run(fmt.Sprintf("synthetic-%d", n), func(b *testing.B) { benchEdit(b, parts, filter.Options{}) })
 		b.Run(fmt.Sprintf("synthetic-%d-summary", n), func(b *testing.B) {
 			benchEdit(b, parts, filter.Options{Summary: true})
+		})
+	}
+}
+
+// BenchmarkIncremental measures one stage edit on the incremental path
+// (derive, Incremental.Ranked, explain the rows a screen shows) on
+// generated catalogs; compare with BenchmarkEvaluate.
+func BenchmarkIncremental(b *testing.B) {
+	for _, n := range []int{10_000, 100_000} {
+		parts := gencat.Parts(n, 1)
+		b.Run(fmt.Sprintf("parts=%d", n), func(b *testing.B) {
+			d := benchDesign(b)
+			o := filter.Options{Summary: true}
+			in := filter.NewIncremental(parts, o)
+			freqs := []string{"20 kHz", "21 kHz"}
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				if err := d.Set("stage.gain.signal.freq", freqs[i%2]); err != nil {
+					b.Fatal(err)
+				}
+				p, err := filter.Derive(d)
+				if err != nil {
+					b.Fatal(err)
+				}
+				rs, err := in.Ranked(context.Background(), p, filter.SortMargin)
+				if err != nil {
+					b.Fatal(err)
+				}
+				for i := 0; i < min(len(rs), 30); i++ {
+					filter.Explain(p, &rs[i], o)
+				}
+			}
 		})
 	}
 }
