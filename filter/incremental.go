@@ -37,6 +37,9 @@ type Incremental struct {
 	figs   []PartFigures // nil until computed
 	global cachedGroup
 	stages []cachedGroup
+	// keys and keyBuf are Ranked's rank keys and merge buffer, kept from
+	// call to call (only Ranked, under mu, touches them).
+	keys, keyBuf []rankKey
 }
 
 // NewIncremental returns an Incremental for parts; o.Strict applies to
@@ -220,7 +223,10 @@ func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]R
 		return nil, err
 	}
 	n, ns := len(in.parts), len(in.stages)
-	keys := make([]rankKey, n)
+	if len(in.keys) != n {
+		in.keys, in.keyBuf = make([]rankKey, n), make([]rankKey, n)
+	}
+	keys := in.keys
 	if err := inParallel(ctx, n, func(lo, hi int) {
 		var r Result
 		fmax := make([]float64, ns)
@@ -231,7 +237,7 @@ func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]R
 	}); err != nil {
 		return nil, err
 	}
-	sortParallel(keys, rankOrder(key))
+	sortParallelIn(keys, in.keyBuf, rankOrder(key))
 	results := make([]Result, n)
 	fmax := make([]float64, n*ns)
 	_ = inParallel(context.Background(), n, func(lo, hi int) {

@@ -156,7 +156,11 @@ const sortMinParallel = 8192
 // elements compare equal), so the result is the one slices.SortFunc gives.
 // A long slice is cut into one run per CPU, the runs sorted at once and
 // merged pairwise.
-func sortParallel[T any](s []T, cmp func(a, b T) int) {
+func sortParallel[T any](s []T, cmp func(a, b T) int) { sortParallelIn(s, nil, cmp) }
+
+// sortParallelIn is sortParallel merging through buf when it is long
+// enough (else through a slice of its own).
+func sortParallelIn[T any](s, buf []T, cmp func(a, b T) int) {
 	procs := runtime.GOMAXPROCS(0)
 	if len(s) < sortMinParallel || procs < 2 {
 		slices.SortFunc(s, cmp)
@@ -172,7 +176,9 @@ func sortParallel[T any](s []T, cmp func(a, b T) int) {
 		wg.Go(func() { slices.SortFunc(s[bounds[i]:bounds[i+1]], cmp) })
 	}
 	wg.Wait()
-	buf := make([]T, len(s))
+	if len(buf) < len(s) {
+		buf = make([]T, len(s))
+	}
 	for width := 1; width < runs; width *= 2 {
 		for i := 0; i+width < runs; i += 2 * width {
 			lo, mid, hi := bounds[i], bounds[i+width], bounds[min(i+2*width, runs)]
