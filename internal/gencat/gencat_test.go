@@ -40,7 +40,7 @@ func TestWriteLoadsClean(t *testing.T) {
 		size += st.Size()
 	}
 	if per := size / n; per < 700 || per > 1200 {
-		t.Errorf("%d bytes of TOML per part, want about 930", per)
+		t.Errorf("%d bytes of TOML per part, want about 950", per)
 	}
 }
 
