@@ -114,7 +114,7 @@ func runReplace(e *env, args []string) error {
 func replaceParseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var pos []string
 	for {
-		if err := fs.Parse(args); err != nil {
+		if err := parseQuiet(fs, args); err != nil {
 			return nil, err
 		}
 		rest := fs.Args()
