@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
@@ -17,11 +18,11 @@ import (
 func WriteCSV(w io.Writer, doc *Doc) error {
 	cw := csv.NewWriter(w)
 	reqs := doc.Plan.Requirements()
-	head := []string{"rank", "id", "name", "pass", "worst_margin", "binding", "packages", "cost",
+	head := []string{"rank", "id", "name", "pass", "worst_margin", "margin_shown", "binding", "fail_reason", "packages", "cost",
 		"supply_current_a", "fmax_hz", "failed", "unknown", "failing"}
 	for i := range reqs {
 		q := &reqs[i]
-		name := CheckName(q.Stage, q.Key)
+		name := present.CheckName(q.Stage, q.Key)
 		switch q.Bound {
 		case filter.BoundMin, filter.BoundMax:
 			head = append(head, name+" available_"+unitSlug(q.Unit), name+" margin")
@@ -38,14 +39,19 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 			rank = strconv.Itoa(i + 1)
 		}
 		binding := ""
-		if !math.IsNaN(r.WorstMargin) {
-			binding = CheckName(r.Binding.Stage, r.Binding.Key)
+		if r.Pass && !math.IsNaN(r.WorstMargin) {
+			binding = present.CheckName(r.Binding.Stage, r.Binding.Key)
 		}
 		var failing []string
 		for _, c := range failingOrUnknown(r, doc.Strict) {
-			failing = append(failing, CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
+			failing = append(failing, present.CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
 		}
-		row := []string{rank, r.Part.ID, r.Part.Name, strconv.FormatBool(r.Pass), csvNum(r.WorstMargin), binding,
+		reason := ""
+		if w := present.Worst(r); w != nil {
+			reason = present.Reason(w)
+		}
+		row := []string{rank, r.Part.ID, r.Part.Name, strconv.FormatBool(r.Pass), csvNum(present.ShownMargin(r)),
+			present.RowMargin(r), binding, reason,
 			strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
 			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), strings.Join(failing, ";")}
 		for j := range r.Checks {

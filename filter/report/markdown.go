@@ -4,11 +4,11 @@ import (
 	"bufio"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // WriteMarkdown writes a shortlist document for design review: the design
@@ -42,15 +42,13 @@ func WriteMarkdown(w io.Writer, doc *Doc) error {
 	b.WriteString("| # | Part | Pass | Worst margin | Binding | Packages | Cost | Supply current | fmax | Unknown |\n")
 	b.WriteString("|---:|---|---|---:|---|---:|---:|---:|---:|---:|\n")
 	for i, r := range listed {
-		rank, pass, binding := fmt.Sprint(i+1), "yes", "—"
+		rank, pass := fmt.Sprint(i+1), "yes"
 		if !r.Pass {
 			rank, pass = "–", "**no**"
 		}
-		if !math.IsNaN(r.WorstMargin) {
-			binding = CheckName(r.Binding.Stage, r.Binding.Key)
-		}
+		binding := mdText(present.RowBinding(r, doc.Strict))
 		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
-			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
+			present.RowMargin(r), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
 			quantity(r.MinFMax(), catalog.Hertz), r.Unknown)
 	}
 	b.WriteString("\n## Candidates\n")
@@ -69,10 +67,9 @@ func WriteMarkdown(w io.Writer, doc *Doc) error {
 			b.WriteByte('\n')
 		}
 		b.WriteString("| Stage | Check | Need | Has | Margin | Status | Basis | Note |\n|---|---|---|---|---:|---|---|---|\n")
-		for j := range r.Checks {
-			c := &r.Checks[j]
+		for _, c := range present.FailingFirst(r) {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
-				mdText(Need(c.Req)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
+				mdText(Need(c.Req)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
 	}
 	return b.Flush()

@@ -16,6 +16,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // Caution is carried by every export: opsift's results are advisory.
@@ -121,7 +122,7 @@ func WriteTOML(w io.Writer, doc *Doc) error {
 	}
 	var head strings.Builder
 	fmt.Fprintf(&head, "# opsift rank: %s\n# %d candidate(s), sorted by %s.\n", oneLine(doc.Plan.Title), len(parts), sortName(doc.Sort))
-	for _, l := range wrapLines(Caution, 76, "") {
+	for _, l := range present.Wrap(Caution, 76, "") {
 		head.WriteString("# " + l + "\n")
 	}
 	head.WriteString("\n")
@@ -139,29 +140,6 @@ func sortName(k filter.SortKey) string {
 }
 
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
-
-// Margin renders a margin as a signed percentage ("+31 %", "−4.2 %"), "—"
-// when there is none.
-func Margin(m float64) string {
-	if math.IsNaN(m) {
-		return "—"
-	}
-	if math.IsInf(m, 1) {
-		return "+∞"
-	}
-	p := m * 100
-	f := "%.1f"
-	if math.Abs(p) >= 10 {
-		f = "%.0f"
-	}
-	s := fmt.Sprintf(f, math.Abs(p))
-	// The sign follows the margin, not the rounding: a miss of 0.01 % still
-	// reads as negative, so the sign always agrees with pass/fail.
-	if p < 0 {
-		return "−" + s + " %"
-	}
-	return "+" + s + " %"
-}
 
 // Need renders what a requirement asks: "≥ 0.628 V/µs", "≤ 250 mV",
 // "1 V … 11 V", or the hard filter's wording.
@@ -231,14 +209,6 @@ func orUnknown(s string) string {
 		return "?"
 	}
 	return s
-}
-
-// CheckName is "stage/key", or just the key for design-level checks.
-func CheckName(stage string, key filter.Key) string {
-	if stage == "" {
-		return string(key)
-	}
-	return stage + "/" + string(key)
 }
 
 // cost renders a cost, "?" when unknown.

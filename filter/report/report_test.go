@@ -234,14 +234,3 @@ func TestTOMLRoundTrip(t *testing.T) {
 		t.Errorf("order after round trip %v, want %v", got, want)
 	}
 }
-
-func TestMargin(t *testing.T) {
-	for _, tc := range []struct {
-		m    float64
-		want string
-	}{{0.31, "+31 %"}, {-0.042, "−4.2 %"}, {0, "+0.0 %"}, {-0.0001, "−0.0 %"}, {2.5, "+250 %"}} {
-		if got := report.Margin(tc.m); got != tc.want {
-			t.Errorf("Margin(%g) = %q, want %q", tc.m, got, tc.want)
-		}
-	}
-}
