@@ -33,11 +33,11 @@ func runDerive(e *env, args []string) error {
 	if format != "text" && format != "json" {
 		return usageError("derive: --format %q: want text or json", format)
 	}
-	_, plan, err := deriveDesign(design)
+	d, plan, err := deriveDesign(design)
 	if err != nil {
 		return inputError(err)
 	}
-	return report.WriteDerive(e.stdout, format, plan)
+	return report.WriteDerive(e.stdout, format, plan, meta(e, design, d, nil, false))
 }
 
 // deriveDesign reads, decodes and derives the design at path, or the

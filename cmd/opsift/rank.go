@@ -60,7 +60,7 @@ func runRank(e *env, args []string) error {
 	if f.top < 0 {
 		return usageError("rank: --top %d: want 0 (all) or a positive count", f.top)
 	}
-	_, plan, err := deriveDesign(f.design)
+	d, plan, err := deriveDesign(f.design)
 	if err != nil {
 		return inputError(err)
 	}
@@ -71,7 +71,7 @@ func runRank(e *env, args []string) error {
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
-		Sources: cat.Sources, Width: e.columns(report.DefaultWidth)}
+		Sources: cat.Sources, Width: e.columns(report.DefaultWidth), Meta: meta(e, f.design, d, cat, f.strict)}
 	doc.Color = f.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {

@@ -79,8 +79,8 @@ func runReplace(e *env, args []string) error {
 	}
 	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
 	var design *filter.Design
+	var plan *filter.Plan
 	if f.design != "" {
-		var plan *filter.Plan
 		design, plan, err = replaceLoadDesign(f.design)
 		if err != nil {
 			return inputError(err)
@@ -89,6 +89,7 @@ func runReplace(e *env, args []string) error {
 	}
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
+	v.plan, v.meta = plan, meta(e, f.design, design, cat, f.strict)
 	if design != nil {
 		v.designTitle, v.designFile = design.Title, f.design
 	}
@@ -164,6 +165,8 @@ type replaceView struct {
 	failHidden  int // candidates failing the design, not listed
 	designTitle string
 	designFile  string
+	plan        *filter.Plan // the design evaluated; nil without --design
+	meta        *report.Meta
 	color       bool
 }
 

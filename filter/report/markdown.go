@@ -19,6 +19,7 @@ func WriteMarkdown(w io.Writer, doc *Doc) error {
 	p := doc.Plan
 	fmt.Fprintf(b, "# Op-amp shortlist: %s\n\n", mdText(oneLine(p.Title)))
 	fmt.Fprintf(b, "> **Caution.** %s\n\n", Caution)
+	writeMarkdownMeta(b, doc.Meta, p)
 	b.WriteString("## Design\n\n")
 	for _, line := range summaryLines(p) {
 		fmt.Fprintf(b, "- %s\n", mdText(line))

@@ -65,8 +65,11 @@ type Doc struct {
 	Strict  bool // unknown checks counted as failures
 	// Sources names the catalog sources, for the document's header.
 	Sources []string
-	Width   int  // table: terminal width in columns (0 = 100)
-	Color   bool // table: ANSI colour
+	// Meta says what the document was made from (version, date, design
+	// file, catalog hashes); the JSON and Markdown writers carry it.
+	Meta  *Meta
+	Width int  // table: terminal width in columns (0 = 100)
+	Color bool // table: ANSI colour
 }
 
 // Listed returns the candidates the document lists: passing ones (all of

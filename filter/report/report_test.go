@@ -10,6 +10,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
@@ -93,7 +94,7 @@ func TestGolden(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			p, rs := fixture(t, tc.design, tc.strict)
 			doc := &report.Doc{Plan: p, Results: rs, Sort: filter.SortMargin, All: tc.all, Strict: tc.strict,
-				Width: tc.width, Color: tc.color, Top: tc.top, Sources: []string{"parts.toml"}}
+				Width: tc.width, Color: tc.color, Top: tc.top, Sources: []string{"parts.toml"}, Meta: testMeta(tc.design)}
 			var b bytes.Buffer
 			if err := report.Write(&b, tc.format, doc); err != nil {
 				t.Fatal(err)
@@ -107,7 +108,7 @@ func TestGolden(t *testing.T) {
 			t.Run(name, func(t *testing.T) {
 				p, _ := fixture(t, design, false)
 				var b bytes.Buffer
-				if err := report.WriteDerive(&b, f, p); err != nil {
+				if err := report.WriteDerive(&b, f, p, testMeta(design)); err != nil {
 					t.Fatal(err)
 				}
 				golden(t, name, b.Bytes())
@@ -233,4 +234,10 @@ func TestTOMLRoundTrip(t *testing.T) {
 	if !slices.Equal(got, want) {
 		t.Errorf("order after round trip %v, want %v", got, want)
 	}
+}
+
+// testMeta is a fixed Meta, so the JSON and Markdown goldens stay put.
+func testMeta(design string) *report.Meta {
+	return &report.Meta{Version: "test", Generated: time.Date(2026, 3, 4, 5, 6, 7, 0, time.UTC), File: design,
+		Sources: []catalog.FileSum{{Path: "parts.toml", SHA256: strings.Repeat("0", 64), Parts: 5}}}
 }
