@@ -72,6 +72,7 @@ func runRank(e *env, args []string) error {
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
 		Sources: cat.Sources, Width: e.columns(report.DefaultWidth), Meta: meta(e, f.design, d, cat, f.strict)}
+	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	doc.Color = f.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {

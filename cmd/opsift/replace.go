@@ -90,6 +90,9 @@ func runReplace(e *env, args []string) error {
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
 	v.plan, v.meta = plan, meta(e, f.design, design, cat, f.strict)
+	if plan != nil {
+		v.meta.Warnings = filter.FilterWarnings(plan, parts)
+	}
 	if design != nil {
 		v.designTitle, v.designFile = design.Title, f.design
 	}

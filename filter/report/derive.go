@@ -6,6 +6,7 @@ import (
 	"io"
 
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // WriteDerive writes the plan's requirements: "text" shows every
@@ -21,11 +22,21 @@ func WriteDerive(w io.Writer, format string, p *filter.Plan, m *Meta) error {
 	return fmt.Errorf("unknown format %q, want text or json", format)
 }
 
+// writeDeriveText writes the summary, the design's warnings and every
+// requirement grouped by stage.
 func writeDeriveText(w io.Writer, p *filter.Plan) error {
 	b := bufio.NewWriter(w)
 	fmt.Fprintln(b, oneLine(p.Title))
 	for _, l := range summaryLines(p) {
 		fmt.Fprintln(b, "  "+l)
+	}
+	if len(p.Warnings) > 0 {
+		b.WriteByte('\n')
+		for _, w := range p.Warnings {
+			for _, l := range present.Wrap("⚠ "+w.String(), DefaultWidth, "  ") {
+				fmt.Fprintln(b, l)
+			}
+		}
 	}
 	reqs := p.Requirements()
 	stage := "\x00"

@@ -21,6 +21,22 @@ type Meta struct {
 	Modified  bool   // the design was edited since it was read (the selector)
 	Sources   []catalog.FileSum
 	Strict    bool
+	// Warnings found against the catalog (filter.FilterWarnings); the
+	// plan's own warnings are added to them by every writer.
+	Warnings []filter.Warning
+}
+
+// Warnings lists what a document warns about: the plan's warnings, then
+// those of m (either may be nil).
+func Warnings(m *Meta, plan *filter.Plan) []filter.Warning {
+	var out []filter.Warning
+	if plan != nil {
+		out = append(out, plan.Warnings...)
+	}
+	if m != nil {
+		out = append(out, m.Warnings...)
+	}
+	return out
 }
 
 // JSONMeta is the block every JSON output opens with (DESIGN.md "Contract
@@ -33,6 +49,14 @@ type JSONMeta struct {
 	Design    *JSONDesign     `json:"design"`
 	Catalog   JSONCatalogInfo `json:"catalog"`
 	Policy    *JSONPolicy     `json:"policy"`
+	Warnings  []JSONWarning   `json:"warnings"`
+}
+
+// JSONWarning is one filter.Warning.
+type JSONWarning struct {
+	Stage *string `json:"stage"`
+	Field string  `json:"field,omitempty"`
+	Text  string  `json:"text"`
 }
 
 // JSONDesign is the evaluated design: its file, whether it was modified
@@ -79,7 +103,10 @@ type JSONPolicy struct {
 // NewJSONMeta builds the block for an output made from plan (nil: no
 // design was evaluated) under m.
 func NewJSONMeta(m *Meta, plan *filter.Plan) JSONMeta {
-	out := JSONMeta{Catalog: JSONCatalogInfo{Sources: []JSONSource{}}}
+	out := JSONMeta{Catalog: JSONCatalogInfo{Sources: []JSONSource{}}, Warnings: []JSONWarning{}}
+	for _, w := range Warnings(m, plan) {
+		out.Warnings = append(out.Warnings, JSONWarning{Stage: stagePtr(w.Stage), Field: w.Field, Text: w.Text})
+	}
 	if m == nil {
 		m = &Meta{}
 	}
@@ -143,6 +170,12 @@ func writeMarkdownMeta(b io.Writer, m *Meta, plan *filter.Plan) {
 	}
 	for _, s := range j.Catalog.Sources {
 		fmt.Fprintf(b, "- Catalog `%s`: %d part(s), sha256 `%s`\n", mdCode(s.Path), s.Parts, s.SHA256)
+	}
+	if ws := Warnings(m, plan); len(ws) > 0 {
+		b.Write([]byte("\n**Warnings**\n\n"))
+		for _, w := range ws {
+			fmt.Fprintf(b, "- ⚠ %s\n", mdText(w.String()))
+		}
 	}
 	if j.Design != nil && len(j.Design.Inputs) > 0 {
 		b.Write([]byte("\n| Input | Value | Given |\n|---|---|---|\n"))

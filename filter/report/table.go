@@ -76,6 +76,18 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	fmt.Fprintln(b, present.Clip(oneLine(p.Title), width))
 	fmt.Fprintln(b, present.Clip(fmt.Sprintf("%d of %d parts pass · sorted by %s%s", doc.Passing(), len(doc.Results),
 		sortName(doc.Sort), strictText(doc.Strict)), width))
+	if ws := Warnings(doc.Meta, p); len(ws) > 0 {
+		b.WriteByte('\n')
+		for _, w := range ws {
+			line := present.Wrap("⚠ "+w.String(), width, "  ")
+			for _, l := range line {
+				if doc.Color {
+					l = ansiRed + l + ansiReset
+				}
+				fmt.Fprintln(b, l)
+			}
+		}
+	}
 	if len(listed) == 0 {
 		b.WriteByte('\n')
 		wrap(b, "no candidate passes; --all lists the failing parts with what they miss", width)
