@@ -28,9 +28,13 @@ type Pos struct {
 	Offset int // byte offset of the key; of the opening '[' for a table header
 }
 
+// Span is a byte range [Start, End) of the document text.
+type Span struct{ Start, End int }
+
 // Index maps key paths to the place they are first written.
 type Index struct {
 	pos    map[string]Pos
+	vals   map[string]Span     // where the value of each key path (and array element) is written
 	arrays map[string]int      // element count of each array of tables, by path
 	kids   map[string][]string // direct child keys of each table path, in file order
 }
@@ -39,6 +43,7 @@ type Index struct {
 func Scan(text string) *Index {
 	s := &scanner{text: text, line: 1, ix: &Index{
 		pos:    map[string]Pos{},
+		vals:   map[string]Span{},
 		arrays: map[string]int{},
 		kids:   map[string][]string{},
 	}}
@@ -50,6 +55,15 @@ func Scan(text string) *Index {
 func (ix *Index) Pos(path string) (Pos, bool) {
 	p, ok := ix.pos[path]
 	return p, ok
+}
+
+// Value returns the byte range of the value written for path (a key, an
+// inline table, an array or an element of one), and whether it was
+// written as a value; a [table] header has none. An editor replaces that
+// range to change a value and leaves the rest of the text as it was.
+func (ix *Index) Value(path string) (Span, bool) {
+	v, ok := ix.vals[path]
+	return v, ok
 }
 
 // Line returns the line of path, else of its nearest written parent, else 0.
@@ -282,8 +296,18 @@ func (s *scanner) key() []string {
 	}
 }
 
-// value reads one value of the key at path.
+// value reads one value of the key at path and records where it is.
 func (s *scanner) value(path string) {
+	start := s.i
+	s.valueBody(path)
+	if _, ok := s.ix.vals[path]; !ok && s.i > start {
+		s.ix.vals[path] = Span{start, s.i}
+	}
+}
+
+// valueBody reads the value itself: a string, an array, an inline table
+// or a bare word (number, boolean, date).
+func (s *scanner) valueBody(path string) {
 	switch c := s.peek(); c {
 	case '"':
 		if strings.HasPrefix(s.text[s.i:], `"""`) {
@@ -328,7 +352,7 @@ func (s *scanner) array(path string) {
 		start := s.i
 		if s.peek() == '{' {
 			el := s.ix.record(path, strconv.Itoa(n), s.here())
-			s.inline(el)
+			s.value(el)
 		} else {
 			s.value(Element(path, n))
 		}
