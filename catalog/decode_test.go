@@ -2,14 +2,12 @@ package catalog
 
 import (
 	"errors"
-	"flag"
+	"github.com/opsift/opsift/internal/golden"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files")
 
 // TestDecodeBad decodes every faulty catalog in testdata/bad and compares
 // the problems with NAME.golden.
@@ -41,7 +39,7 @@ func TestDecodeBad(t *testing.T) {
 					t.Errorf("problem without a line: %v", p)
 				}
 			}
-			golden(t, strings.TrimSuffix(f, ".toml")+".golden", err.Error()+"\n")
+			checkGolden(t, strings.TrimSuffix(f, ".toml")+".golden", err.Error()+"\n")
 		})
 	}
 }
@@ -56,22 +54,10 @@ func TestGoldenHaveInput(t *testing.T) {
 	}
 }
 
-// golden compares got with the file, or rewrites it under -update.
-func golden(t *testing.T, file, got string) {
+// checkGolden compares got with the golden file (go test -update rewrites it).
+func checkGolden(t *testing.T, file, got string) {
 	t.Helper()
-	if *update {
-		if err := os.WriteFile(file, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(file)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if string(want) != got {
-		t.Errorf("output differs from %s\n--- got\n%s--- want\n%s", file, got, want)
-	}
+	golden.Check(t, file, []byte(got))
 }
 
 // TestDecodeContract reads the catalog format's own example part and checks
@@ -300,7 +286,7 @@ func FuzzDecode(f *testing.F) {
 			}
 		}
 		for _, p := range parts {
-			if ps := Validate(p); len(ps) > 0 {
+			if ps := validate(p, 0, nil); len(ps) > 0 {
 				t.Fatalf("accepted part fails Validate: %v", ps)
 			}
 		}

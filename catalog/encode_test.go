@@ -203,7 +203,7 @@ func synthParts(n int, seed uint64) []*Part {
 
 func TestSynthPartsValid(t *testing.T) {
 	for _, p := range synthParts(100, 3) {
-		if ps := Validate(p); len(ps) > 0 {
+		if ps := validate(p, 0, nil); len(ps) > 0 {
 			t.Fatalf("synthetic part invalid: %v", ps)
 		}
 	}

@@ -26,17 +26,12 @@ func scanLines(text string) fileLines {
 	for _, k := range ix.Keys("") {
 		fl.top[k] = ix.Line(k)
 	}
-	for i := 0; ; i++ {
-		el := tomlpos.Element("part", i)
-		p, ok := ix.Pos(el)
-		if !ok {
-			break
-		}
-		pl := partLines{line: p.Line, off: p.Offset, keys: map[string]int{}}
-		for _, k := range ix.Keys(el) {
-			pl.keys[k] = ix.Line(tomlpos.Join(el, k))
+	ix.Elements("part", func(_ int, at tomlpos.Pos, keys []tomlpos.Entry) {
+		pl := partLines{line: at.Line, off: at.Offset, keys: make(map[string]int, len(keys))}
+		for _, k := range keys {
+			pl.keys[k.Key] = k.Pos.Line
 		}
 		fl.parts = append(fl.parts, pl)
-	}
+	})
 	return fl
 }

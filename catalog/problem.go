@@ -23,25 +23,39 @@ type Problem struct {
 
 // Error renders the problem on one line.
 func (p Problem) Error() string {
+	subject := ""
+	switch {
+	case p.Part != "":
+		subject = fmt.Sprintf("part %q", p.Part)
+	case p.Index > 0:
+		subject = fmt.Sprintf("part #%d", p.Index)
+	}
+	return Located(p.Pos, subject, p.Field, p.Err)
+}
+
+// Located renders an error at a place as opsift writes every input error:
+//
+//	FILE:LINE: SUBJECT: field "FIELD": what is wrong
+//
+// leaving out what is empty (a nil err reads "invalid"). Catalog problems
+// and design errors (subject `stage "gain"`) both render through it.
+func Located(pos Pos, subject, field string, err error) string {
 	var b strings.Builder
-	if p.Pos.File != "" {
-		b.WriteString(p.Pos.File)
-		if p.Pos.Line > 0 {
-			fmt.Fprintf(&b, ":%d", p.Pos.Line)
+	if pos.File != "" {
+		b.WriteString(pos.File)
+		if pos.Line > 0 {
+			fmt.Fprintf(&b, ":%d", pos.Line)
 		}
 		b.WriteString(": ")
 	}
-	switch {
-	case p.Part != "":
-		fmt.Fprintf(&b, "part %q: ", p.Part)
-	case p.Index > 0:
-		fmt.Fprintf(&b, "part #%d: ", p.Index)
+	if subject != "" {
+		b.WriteString(subject + ": ")
 	}
-	if p.Field != "" {
-		fmt.Fprintf(&b, "field %q: ", p.Field)
+	if field != "" {
+		fmt.Fprintf(&b, "field %q: ", field)
 	}
-	if p.Err != nil {
-		b.WriteString(p.Err.Error())
+	if err != nil {
+		b.WriteString(err.Error())
 	} else {
 		b.WriteString("invalid")
 	}

@@ -172,15 +172,6 @@ func Parse(text string, want Dim) (float64, error) {
 	return r, nil
 }
 
-// MustParse is Parse for constants in code and tests; it panics on error.
-func MustParse(text string, want Dim) float64 {
-	v, err := Parse(text, want)
-	if err != nil {
-		panic(err)
-	}
-	return v
-}
-
 // splitNumber splits "1.2MHz" into "1.2" and "MHz". It returns num == ""
 // when the text does not start with a decimal number.
 func splitNumber(s string) (num, unit string) {

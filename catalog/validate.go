@@ -14,7 +14,6 @@ const absoluteZero = -273.15
 // of limits. It returns every problem found, or nil for a valid part.
 // Decode and Load validate every part they read; Validate is for parts
 // built in code.
-func Validate(p *Part) Problems { return validate(p, 0, nil) }
 
 // validate is Validate for the index-th part of its file, skipping the
 // fields in skip (they already have a decode problem).

@@ -14,7 +14,6 @@ import (
 	"embed"
 	"fmt"
 	"io/fs"
-	"sort"
 )
 
 //go:embed catalog/*.toml designs/*.toml
@@ -33,23 +32,6 @@ var Designs fs.FS = sub("designs")
 // no --design is given: a 12 V single-supply chain in which the
 // pin-compatible slow bipolar quad fails on slew rate.
 const DefaultDesign = "signal-chain-12v.toml"
-
-// DesignNames returns the file names of the example designs, sorted.
-func DesignNames() []string { return names(Designs) }
-
-// CatalogNames returns the file names of the demo catalog files, sorted.
-func CatalogNames() []string { return names(Catalog) }
-
-// names lists the *.toml files at the root of fsys, sorted. The embedded
-// file systems cannot fail to list, so an error here is a build defect.
-func names(fsys fs.FS) []string {
-	m, err := fs.Glob(fsys, "*.toml")
-	if err != nil {
-		panic(fmt.Sprintf("data: listing embedded files: %v", err))
-	}
-	sort.Strings(m)
-	return m
-}
 
 // sub roots the embedded files at dir. dir is a constant known to exist in
 // the embed pattern, so an error is a build defect, not bad input.

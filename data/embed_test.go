@@ -11,6 +11,8 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // demoParts decodes every embedded catalog file with the real decoder and
@@ -18,7 +20,7 @@ import (
 func demoParts(t *testing.T) map[string]*catalog.Part {
 	t.Helper()
 	byID := map[string]*catalog.Part{}
-	for _, name := range data.CatalogNames() {
+	for _, name := range tomlNames(t, data.Catalog) {
 		b, err := fs.ReadFile(data.Catalog, name)
 		if err != nil {
 			t.Fatalf("read %s: %v", name, err)
@@ -83,10 +85,10 @@ func TestFileLists(t *testing.T) {
 		got  []string
 		want []string
 	}{
-		{"catalog", data.CatalogNames(), []string{
+		{"catalog", tomlNames(t, data.Catalog), []string{
 			"cmos.toml", "general.toml", "jfet.toml", "micropower.toml",
 			"power.toml", "precision.toml", "speed.toml"}},
-		{"designs", data.DesignNames(), []string{
+		{"designs", tomlNames(t, data.Designs), []string{
 			"battery-sensor-3v3.toml", "instrumentation-15v.toml", "mixed-templates.toml", "signal-chain-12v.toml"}},
 	}
 	for _, tt := range tests {
@@ -97,14 +99,14 @@ func TestFileLists(t *testing.T) {
 		})
 	}
 	t.Run("default design is embedded", func(t *testing.T) {
-		if !slices.Contains(data.DesignNames(), data.DefaultDesign) {
-			t.Errorf("DefaultDesign %q is not among %q", data.DefaultDesign, data.DesignNames())
+		if !slices.Contains(tomlNames(t, data.Designs), data.DefaultDesign) {
+			t.Errorf("DefaultDesign %q is not among %q", data.DefaultDesign, tomlNames(t, data.Designs))
 		}
 	})
 }
 
 func TestDesignsDerive(t *testing.T) {
-	for _, name := range data.DesignNames() {
+	for _, name := range tomlNames(t, data.Designs) {
 		t.Run(name, func(t *testing.T) {
 			plan := demoPlan(t, name)
 			if plan.Title == "" {
@@ -279,11 +281,22 @@ func TestOriginality(t *testing.T) {
 			})
 		}
 	}
-	check(data.Catalog, data.CatalogNames())
-	check(data.Designs, data.DesignNames())
+	check(data.Catalog, tomlNames(t, data.Catalog))
+	check(data.Designs, tomlNames(t, data.Designs))
 	for _, p := range demoParts(t) {
 		if !id.MatchString(p.ID) {
 			t.Errorf("part id %q, want [a-z0-9._-]", p.ID)
 		}
 	}
+}
+
+// tomlNames lists the *.toml files at the root of fsys, sorted.
+func tomlNames(t *testing.T, fsys fs.FS) []string {
+	t.Helper()
+	m, err := fs.Glob(fsys, "*.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	slices.Sort(m)
+	return m
 }

@@ -3,7 +3,6 @@ package filter_test
 import (
 	"bytes"
 	"errors"
-	"flag"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -12,30 +11,13 @@ import (
 	"testing"
 
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/golden"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
-// golden compares got with testdata/name, rewriting it under -update.
-func golden(t *testing.T, name string, got []byte) {
+// checkGolden compares got with testdata/name; go test -update rewrites it.
+func checkGolden(t *testing.T, name string, got []byte) {
 	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs from the golden file:\n--- got\n%s\n--- want\n%s", name, got, want)
-	}
+	golden.Check(t, filepath.Join("testdata", name), got)
 }
 
 const goodStage = `
@@ -86,7 +68,7 @@ func TestDesignErrors(t *testing.T) {
 			fmt.Fprintf(&out, "%s\n\t%v\n", tc.name, err)
 		})
 	}
-	golden(t, "design_errors.golden", out.Bytes())
+	checkGolden(t, "design_errors.golden", out.Bytes())
 }
 
 // Every test design and demo design decodes, derives, and survives an

@@ -3,7 +3,8 @@ package filter
 import (
 	"errors"
 	"fmt"
-	"strings"
+
+	"github.com/opsift/opsift/catalog"
 )
 
 // Error is one thing wrong with a design: where it is, which stage and
@@ -23,31 +24,16 @@ type Error struct {
 	Err   error  // what is wrong, without the position
 }
 
-// Error renders the error on one line.
+// Error renders the error on one line, as catalog problems are.
 func (e *Error) Error() string {
-	var b strings.Builder
-	if e.File != "" {
-		b.WriteString(e.File)
-		if e.Line > 0 {
-			fmt.Fprintf(&b, ":%d", e.Line)
-		}
-		b.WriteString(": ")
-	}
+	subject := ""
 	switch {
 	case e.Stage != "":
-		fmt.Fprintf(&b, "stage %q: ", e.Stage)
+		subject = fmt.Sprintf("stage %q", e.Stage)
 	case e.Index > 0:
-		fmt.Fprintf(&b, "stage %d: ", e.Index)
+		subject = fmt.Sprintf("stage %d", e.Index)
 	}
-	if e.Field != "" {
-		fmt.Fprintf(&b, "field %q: ", e.Field)
-	}
-	if e.Err != nil {
-		b.WriteString(e.Err.Error())
-	} else {
-		b.WriteString("invalid")
-	}
-	return b.String()
+	return catalog.Located(catalog.Pos{File: e.File, Line: e.Line}, subject, e.Field, e.Err)
 }
 
 // Unwrap returns what is wrong, so errors.As finds a *catalog.UnitError.

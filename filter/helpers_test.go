@@ -9,7 +9,13 @@ import (
 )
 
 // q parses a quantity for test tables; a typo in a test is a test bug.
-func q(text string, d catalog.Dim) float64 { return catalog.MustParse(text, d) }
+func q(text string, d catalog.Dim) float64 {
+	v, err := catalog.Parse(text, d)
+	if err != nil {
+		panic(err)
+	}
+	return v
+}
 
 // opt is a set catalog figure.
 func opt(v float64) catalog.Opt { return catalog.Some(v) }

@@ -1,7 +1,6 @@
 package filter_test
 
 import (
-	"flag"
 	"math"
 	"strings"
 	"testing"
@@ -9,21 +8,6 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
 )
-
-// The -update flag rewrites golden files. Another test file of this package
-// may declare it first (package-level variables initialise before init
-// functions), so it is registered here only when missing and read by name.
-func init() {
-	if flag.Lookup("update") == nil {
-		flag.Bool("update", false, "rewrite golden files")
-	}
-}
-
-// tmplUpdate reports whether -update was given.
-func tmplUpdate() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
 
 // tmplPart is a generous rail-to-rail part with guaranteed figures, so each
 // template test changes only the figure it is about.

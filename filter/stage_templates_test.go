@@ -12,26 +12,14 @@ import (
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/report"
+	"github.com/opsift/opsift/internal/golden"
 )
 
-// tmplGolden compares got with testdata/templates/name, rewriting it with
-// -update.
+// tmplGolden compares got with testdata/templates/name; go test -update
+// rewrites it.
 func tmplGolden(t *testing.T, name string, got []byte) {
 	t.Helper()
-	path := filepath.Join("testdata", "templates", name)
-	if tmplUpdate() {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs from the golden file (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
+	golden.Check(t, filepath.Join("testdata", "templates", name), got)
 }
 
 // tmplDeriveFile decodes and derives a design file under testdata/templates.

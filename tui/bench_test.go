@@ -37,8 +37,8 @@ func BenchmarkKeystroke(b *testing.B) {
 				_ = m.View()
 			}
 			b.StopTimer()
-			if len(m.results) != n {
-				b.Fatalf("%d results, want %d", len(m.results), n)
+			if len(m.rank.results) != n {
+				b.Fatalf("%d results, want %d", len(m.rank.results), n)
 			}
 		})
 	}

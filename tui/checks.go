@@ -13,6 +13,7 @@ import (
 // (design-level first), each with what was required, what the part offers
 // at worst case, the margin, the basis and the outcome in words.
 type checksPane struct {
+	u      *ui
 	offset int    // first body line on screen
 	partID string // the part the offset belongs to; another part starts at the top
 }
@@ -90,9 +91,9 @@ func available(c *filter.Check, p *catalog.Part) string {
 	return "?"
 }
 
-// checksLines lays out the body of the pane for result r at width w.
-func (m *Model) checksLines(r *filter.Result, w int) []string {
-	st := &m.ui.st
+// lines lays out the body of the pane for result r at width w.
+func (p *checksPane) lines(r *filter.Result, w int) []string {
+	st := &p.u.st
 	cols := checkColumns()
 	widths := fitColumns(cols, w)
 	out := []string{st.Header.Render(fit(header(cols, widths), w))}
@@ -106,7 +107,7 @@ func (m *Model) checksLines(r *filter.Result, w int) []string {
 		}
 	}
 	for _, g := range groups {
-		out = append(out, m.groupLine(r, g, w))
+		out = append(out, p.groupLine(r, g, w))
 		for i := range r.Checks {
 			c := &r.Checks[i]
 			if c.Req.Stage != g {
@@ -144,8 +145,8 @@ func (m *Model) checksLines(r *filter.Result, w int) []string {
 }
 
 // groupLine heads one stage's checks with its own pass/fail verdict.
-func (m *Model) groupLine(r *filter.Result, stage string, w int) string {
-	st := &m.ui.st
+func (p *checksPane) groupLine(r *filter.Result, stage string, w int) string {
+	st := &p.u.st
 	name := "design"
 	if stage != "" {
 		name = "stage " + stage
@@ -178,45 +179,60 @@ func (m *Model) groupLine(r *filter.Result, stage string, w int) string {
 	return fit(st.Section.Render(name)+" "+verdict, w)
 }
 
-// detailView draws the right-hand detail area. Only the checks pane
-// exists so far; later panes add a case here.
+// detailView draws the right-hand detail area.
 func (m *Model) detailView(w, h int) []string {
+	focused := m.focus == paneDetail
 	switch m.detail {
 	case detailChecks:
-		return m.checksView(w, h)
+		return m.checks.draw(m.list.selected(m.rank.results), focused, w, h)
 	case detailPreview:
-		return m.previewView(w, h)
+		return m.prev.draw(&m.rank, m.previewParts(), focused, w, h)
 	}
 	return blank(w, h)
 }
 
-// checksView draws the checks pane into h lines of w cells.
-func (m *Model) checksView(w, h int) []string {
-	st := &m.ui.st
-	focused := m.focus == paneDetail
-	r := m.list.selected(m.results)
+// checksBodyRows is how many body lines a checks pane of h lines shows
+// under its title, summary and column header.
+func checksBodyRows(h int) int { return max(0, h-3) }
+
+// follow keeps the offset on the selected result r: another part starts
+// at the top, and the offset stays inside its lines for a pane of w×h.
+// r's checks must be explained.
+func (p *checksPane) follow(r *filter.Result, w, h int) {
 	if r == nil {
-		out := []string{m.paneTitle("CHECKS", focused, w), st.Muted.Render(fit("no candidate selected", w))}
+		return
+	}
+	if p.partID != r.Part.ID {
+		p.partID, p.offset = r.Part.ID, 0
+	}
+	body := p.lines(r, w)
+	p.offset = max(0, min(p.offset, len(body)-1-checksBodyRows(h)))
+}
+
+// scroll moves the view by n lines; follow applies the lower end.
+func (p *checksPane) scroll(n int) { p.offset = max(0, p.offset+max(-1<<20, min(1<<20, n))) }
+
+// draw draws the checks pane for the selected result r (nil: none) into
+// h lines of w cells. r's checks are explained and the offset settled in
+// Update (follow).
+func (p *checksPane) draw(r *filter.Result, focused bool, w, h int) []string {
+	st := &p.u.st
+	if r == nil {
+		out := []string{paneHeading(st, "CHECKS", focused, w), st.Muted.Render(fit("no candidate selected", w))}
 		return append(out, blank(w, h-2)...)
 	}
-	explain(m.resPlan, r, m.cfg.Strict)
-	if m.checks.partID != r.Part.ID {
-		m.checks.partID, m.checks.offset = r.Part.ID, 0
-	}
-	out := []string{m.paneTitle("CHECKS · "+r.Part.ID+" — "+r.Part.Name, focused, w), fit(m.summary(r), w)}
-	body := m.checksLines(r, w)
-	rows := max(0, h-3) // title, summary, column header
-	m.checks.offset = max(0, min(m.checks.offset, len(body)-1-rows))
+	out := []string{paneHeading(st, "CHECKS · "+r.Part.ID+" — "+r.Part.Name, focused, w), fit(p.summary(r), w)}
+	body := p.lines(r, w)
 	out = append(out, body[0])
-	for i := 1 + m.checks.offset; i < len(body) && len(out) < h; i++ {
+	for i := 1 + p.offset; i < len(body) && len(out) < h; i++ {
 		out = append(out, body[i])
 	}
 	return append(out, blank(w, h-len(out))...)
 }
 
 // summary is one line about the selected part: verdict, cost, current.
-func (m *Model) summary(r *filter.Result) string {
-	st := &m.ui.st
+func (p *checksPane) summary(r *filter.Result) string {
+	st := &p.u.st
 	var b strings.Builder
 	if r.Pass {
 		b.WriteString(st.Pass.Render("✓ passes"))

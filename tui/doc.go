@@ -18,10 +18,20 @@
 //	      ─► dropped unless gen is the newest ─► previewPane ─► tui/plot
 //	R ─► replace.Find with the plan in force ─► replacer (its own mode)
 //
-// The root Model holds the panes' sub-models (form, list, checksPane,
-// previewPane, replacer, prompt) and one read-only ui context (size,
-// styles, keys) they draw with. Each mode (browse, edit, find, prompt,
-// help, replace) has its own update function; the right-hand detail area
-// switches on a detail kind: the checks pane or the waveform preview. Styles come from a Theme of ANSI colours 0–15 and a
-// lipgloss renderer chosen by the caller (no colour for NO_COLOR and tests).
+// The root Model holds routing (the mode with the keyboard, the focused
+// pane, the detail shown), the state the panes share — the design in
+// force, the catalog (catalogState), the ranking (ranking: plan, results,
+// generation) and the status line — and the panes' sub-models: form
+// (design), list (candidates), checksPane, previewPane, replacer, prompt,
+// shortlist, narrowing. Each pane draws itself from the shared state it is
+// lent read-only, with one read-only ui context (size, styles, keys).
+// Update routes each message to what it concerns, then settles the panes
+// (settle.go: the checks of the rows on screen are filled in, scroll
+// offsets kept in range, inputs sized), so View is a pure function of the
+// model. File writes (export, save) run as tea.Cmds whose result comes
+// back as a writtenMsg. Each mode (browse, edit, find, prompt, help,
+// replace) has its own update function; the right-hand detail area
+// switches on a detail kind: the checks pane or the waveform preview.
+// Styles come from a Theme of ANSI colours 0–15 and a lipgloss renderer
+// chosen by the caller (no colour for NO_COLOR and tests).
 package tui

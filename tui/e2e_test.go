@@ -74,7 +74,7 @@ func TestEndToEnd(t *testing.T) {
 			tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
 			fm := tm.FinalModel(t).(*Model)
 
-			after := fm.results[fm.list.view[0]].Part.ID
+			after := fm.rank.results[fm.list.view[0]].Part.ID
 			if after == before {
 				t.Errorf("top candidate is still %s after raising the frequency", before)
 			}
@@ -85,7 +85,7 @@ func TestEndToEnd(t *testing.T) {
 				t.Fatal(err)
 			}
 			md := string(b)
-			marked := fm.marks.results(fm.results)
+			marked := fm.marks.results(fm.rank.results)
 			if len(marked) != 2 {
 				t.Fatalf("%d marked results, want 2", len(marked))
 			}

@@ -24,7 +24,7 @@ func takesLine(editor string) bool {
 // at the part's line, and reloads when the editor exits. Parts of the
 // embedded demo catalog have no file to edit.
 func (m *Model) openEditor() tea.Cmd {
-	r := m.list.selected(m.results)
+	r := m.list.selected(m.rank.results)
 	if r == nil {
 		m.setMessage("no candidate selected")
 		return nil

@@ -1,9 +1,11 @@
 package tui
 
 import (
+	"fmt"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/textinput"
+	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
@@ -68,6 +70,43 @@ func (f *form) move(n int) {
 	f.follow = true
 }
 
+// begin gives the field under the cursor the text input. It returns the
+// field's help for the status line and the input's focus command; ok is
+// false when there is no field.
+func (f *form) begin() (help string, focus tea.Cmd, ok bool) {
+	fl, ok := f.current()
+	if !ok {
+		return "", nil, false
+	}
+	f.editing, f.before, f.editErr, f.follow = true, fl.Raw, "", true
+	f.input.SetValue(fl.Raw)
+	f.input.CursorEnd()
+	help = fl.Label + ": " + fl.Help
+	if fl.Default != "" {
+		help += " (empty: " + fl.Default + ")"
+	}
+	if len(fl.Choices) > 0 {
+		help += "; one of: " + strings.Join(fl.Choices, ", ")
+	}
+	return help, f.input.Focus(), true
+}
+
+// end leaves the field. When the text typed was not in force it returns
+// what was kept instead, for the status line.
+func (f *form) end() (kept string) {
+	if f.editErr != "" {
+		fl, _ := f.current()
+		shown := fl.Raw
+		if shown == "" {
+			shown = "(" + fl.Default + ")"
+		}
+		kept = fmt.Sprintf("%s: kept %s; %q was not accepted", fl.Label, shown, f.input.Value())
+	}
+	f.editing, f.editErr = false, ""
+	f.input.Blur()
+	return kept
+}
+
 // scroll moves the view by n lines without moving the cursor.
 func (f *form) scroll(n int) {
 	f.offset = max(0, f.offset+n)
@@ -87,6 +126,12 @@ func section(path string) (heading, stage string) {
 	return h, ""
 }
 
+// formWidths are the label and value widths of a design pane w cells wide.
+func formWidths(w int) (labelW, valueW int) {
+	labelW = max(8, min(22, (w-2)*52/100))
+	return labelW, w - 2 - labelW - 1
+}
+
 // formLine is one drawn line of the design pane.
 type formLine struct {
 	text  string
@@ -99,8 +144,7 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 	st := &f.u.st
 	var out []formLine
 	add := func(s string, field int) { out = append(out, formLine{s, field}) }
-	labelW := max(8, min(22, (w-2)*52/100))
-	valueW := w - 2 - labelW - 1
+	labelW, valueW := formWidths(w)
 	prev := ""
 	globalDone := false
 	for i, fl := range f.fields {
@@ -135,8 +179,7 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 		var value string
 		switch {
 		case f.editing && i == f.cursor:
-			f.input.Width = max(1, valueW-1)
-			value = f.input.View()
+			value = f.input.View() // its width is set by settle
 		case fl.Set:
 			value = st.Value.Render(fit(fl.Raw, valueW))
 		case fl.Default != "":
@@ -218,12 +261,21 @@ func requirementText(r *filter.Requirement) string {
 	return k
 }
 
-// view draws the pane into h lines of w cells, the first being the title.
-func (f *form) view(plan *filter.Plan, design *filter.Design, titleFn func(string) string, w, h int) []string {
+// title is the pane's heading for design.
+func formTitle(design *filter.Design) string {
 	title := "DESIGN"
 	if design.Title != "" {
 		title += " · " + design.Title
 	}
+	return title
+}
+
+// settle sizes the text input and scrolls so the cursor's field shows
+// (while follow is on), keeping the offset inside the lines of a pane of
+// w×h.
+func (f *form) settle(plan *filter.Plan, design *filter.Design, w, h int) {
+	_, valueW := formWidths(w)
+	f.input.Width = max(1, valueW-1)
 	lines := f.lines(plan, design.Name, w)
 	body := max(0, h-1)
 	if f.follow {
@@ -250,8 +302,14 @@ func (f *form) view(plan *filter.Plan, design *filter.Design, titleFn func(strin
 		}
 	}
 	f.offset = max(0, min(f.offset, len(lines)-body))
+}
+
+// draw draws the pane into h lines of w cells, the first being the title;
+// the offset is settled in Update.
+func (f *form) draw(plan *filter.Plan, design *filter.Design, focused bool, w, h int) []string {
+	lines := f.lines(plan, design.Name, w)
 	out := make([]string, 0, h)
-	out = append(out, titleFn(title))
+	out = append(out, paneHeading(&f.u.st, formTitle(design), focused, w))
 	for i := f.offset; i < len(lines) && len(out) < h; i++ {
 		out = append(out, lines[i].text)
 	}

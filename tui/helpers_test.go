@@ -1,13 +1,11 @@
 package tui
 
 import (
-	"flag"
 	"fmt"
 	"io"
 	"io/fs"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -19,16 +17,8 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/golden"
 )
-
-// updateGolden reports whether golden files are to be rewritten. The flag
-// is "-update" as everywhere in opsift; teatest's golden package already
-// defines it in this test binary, so it is looked up rather than defined
-// again (a second flag.Bool("update") would panic).
-func updateGolden() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
 
 // asciiRenderer draws without colour or attributes: golden screens and
 // NO_COLOR.
@@ -163,7 +153,7 @@ func editField(t testing.TB, m *Model, path, text string) {
 func topIDs(m *Model, n int) []string {
 	var out []string
 	for i := 0; i < n && i < len(m.list.view); i++ {
-		out = append(out, m.results[m.list.view[i]].Part.ID)
+		out = append(out, m.rank.results[m.list.view[i]].Part.ID)
 	}
 	return out
 }
@@ -172,8 +162,8 @@ func topIDs(m *Model, n int) []string {
 func selectID(t testing.TB, m *Model, id string) {
 	t.Helper()
 	for i, ri := range m.list.view {
-		if m.results[ri].Part.ID == id {
-			m.list.move(i-m.list.cursor, m.results, m.listRows())
+		if m.rank.results[ri].Part.ID == id {
+			m.list.move(i-m.list.cursor, m.rank.results, m.listRows())
 			return
 		}
 	}
@@ -183,22 +173,7 @@ func selectID(t testing.TB, m *Model, id string) {
 // checkGolden compares got with DIR/NAME.golden (rewritten with -update).
 func checkGolden(t *testing.T, dir, name, got string) {
 	t.Helper()
-	path := filepath.Join(dir, name+".golden")
-	if updateGolden() {
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test ./tui -update to create it)", err)
-	}
-	if string(want) != got {
-		t.Errorf("screen differs from %s (go test ./tui -update rewrites it)\n--- want\n%s\n--- got\n%s", path, want, got)
-	}
+	golden.Check(t, filepath.Join(dir, name+".golden"), []byte(got))
 }
 
 // syntheticParts makes n valid, varied parts for benchmarks: figures drawn

@@ -89,11 +89,5 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 	}
 }
 
-// editHelp is the bottom line while a field or prompt has the keyboard.
-type editHelp struct{ k *KeyMap }
-
-// ShortHelp lists the keys of a text input.
-func (h editHelp) ShortHelp() []key.Binding { return []key.Binding{h.k.Accept, h.k.Cancel} }
-
-// FullHelp is the same as ShortHelp.
-func (h editHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+// editKeys are the bottom line while a field or prompt has the keyboard.
+func (k *KeyMap) editKeys() []key.Binding { return []key.Binding{k.Accept, k.Cancel} }

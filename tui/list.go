@@ -12,7 +12,8 @@ import (
 // list is the candidate pane: the rows the narrowing lets through, in
 // rank order, with a cursor. Only the rows on screen are ever drawn.
 type list struct {
-	view   []int // indices into Model.results
+	u      *ui
+	view   []int // indices into ranking.results
 	cursor int   // index into view
 	offset int   // first row on screen
 	// selID is the part the user chose (by moving or clicking). It
@@ -28,6 +29,13 @@ func (l *list) selected(results []filter.Result) *filter.Result {
 		return nil
 	}
 	return &results[l.view[l.cursor]]
+}
+
+// setRows shows rows (indices into results) and puts the cursor back on
+// the chosen part; rows is how many fit on screen.
+func (l *list) setRows(view []int, results []filter.Result, rows int) {
+	l.view = view
+	l.reselect(results, rows)
 }
 
 // reselect puts the cursor back on the chosen part (by id) after the
@@ -97,28 +105,46 @@ func idWidth(parts []*catalog.Part) int {
 	return min(w, 16)
 }
 
-// listView draws the candidate pane into h lines of w cells.
-func (m *Model) listView(w, h int) []string {
-	st := &m.ui.st
+// visible is the range of view indices on screen for rows candidate rows.
+func (l *list) visible(rows int) (from, to int) {
+	return l.offset, min(len(l.view), l.offset+rows)
+}
+
+// explainVisible fills in the checks of the rows on screen and of the
+// selected row, which are what the list and the checks pane draw.
+func (l *list) explainVisible(rs *ranking, rows int) {
+	from, to := l.visible(rows)
+	for i := from; i < to; i++ {
+		rs.explain(l.view[i])
+	}
+	if l.cursor >= 0 && l.cursor < len(l.view) {
+		rs.explain(l.view[l.cursor])
+	}
+}
+
+// listRowsIn is how many candidate rows a list pane of h lines holds.
+func listRowsIn(h int) int { return max(0, h-2) }
+
+// draw draws the candidate pane into h lines of w cells. The rows on
+// screen must have been explained (explainVisible) in Update.
+func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focused bool, w, h int) []string {
+	st := &l.u.st
 	out := make([]string, 0, h)
-	out = append(out, m.paneTitle(m.listTitle(), m.focus == paneList, w))
-	cols := listColumns(m.idW)
+	out = append(out, paneHeading(st, l.title(rs, n, marks), focused, w))
+	cols := listColumns(idW)
 	widths := fitColumns(cols, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
-	rows := max(0, h-2)
 	switch {
-	case m.plan == nil:
+	case rs.plan == nil:
 		out = append(out, st.Error.Render(fit("no ranking: the design cannot be derived (see the design pane)", w)))
-	case len(m.list.view) == 0 && m.ranking:
+	case len(l.view) == 0 && rs.running:
 		out = append(out, st.Muted.Render(fit("ranking…", w)))
-	case len(m.list.view) == 0:
-		out = append(out, st.Muted.Render(fit(m.emptyHint(), w)))
+	case len(l.view) == 0:
+		out = append(out, st.Muted.Render(fit(emptyHint(n), w)))
 	}
-	end := min(len(m.list.view), m.list.offset+rows)
-	for i := m.list.offset; i < end; i++ {
-		r := &m.results[m.list.view[i]]
-		explain(m.resPlan, r, m.cfg.Strict)
-		out = append(out, m.listRow(r, i, cols, widths, w))
+	from, to := l.visible(listRowsIn(h))
+	for i := from; i < to; i++ {
+		out = append(out, l.row(&rs.results[l.view[i]], i, marks, cols, widths, w))
 	}
 	for len(out) < h {
 		out = append(out, strings.Repeat(" ", w))
@@ -126,14 +152,13 @@ func (m *Model) listView(w, h int) []string {
 	return out[:h]
 }
 
-// listTitle is the candidate pane's heading: what is shown and how.
-func (m *Model) listTitle() string {
-	n := &m.narrow
+// title is the candidate pane's heading: what is shown and how.
+func (l *list) title(rs *ranking, n *narrowing, marks *shortlist) string {
 	var b strings.Builder
 	if n.shortlist {
-		fmt.Fprintf(&b, "SHORTLIST %d marked", m.marks.len())
+		fmt.Fprintf(&b, "SHORTLIST %d marked", marks.len())
 	} else {
-		fmt.Fprintf(&b, "CANDIDATES %d of %d pass", m.nPass, len(m.results))
+		fmt.Fprintf(&b, "CANDIDATES %d of %d pass", rs.nPass, len(rs.results))
 	}
 	fmt.Fprintf(&b, " · sort %s", n.sortKey())
 	if n.failing && !n.shortlist {
@@ -148,29 +173,29 @@ func (m *Model) listTitle() string {
 	if n.find != "" {
 		fmt.Fprintf(&b, " · find %q", n.find)
 	}
-	if len(m.list.view) > 0 {
-		fmt.Fprintf(&b, " · %d/%d", m.list.cursor+1, len(m.list.view))
+	if len(l.view) > 0 {
+		fmt.Fprintf(&b, " · %d/%d", l.cursor+1, len(l.view))
 	}
 	return b.String()
 }
 
 // emptyHint says why the list is empty and what to try.
-func (m *Model) emptyHint() string {
+func emptyHint(n *narrowing) string {
 	switch {
-	case m.narrow.shortlist:
+	case n.shortlist:
 		return "the shortlist is empty: mark parts with space, l to go back"
-	case m.narrow.active():
+	case n.active():
 		return "no part matches the filters: c clears them"
-	case !m.narrow.failing:
+	case !n.failing:
 		return "no part passes: f shows the failing parts and why"
 	}
 	return "the catalog holds no parts"
 }
 
-// listRow draws one candidate.
-func (m *Model) listRow(r *filter.Result, i int, cols []column, widths []int, w int) string {
-	st := &m.ui.st
-	sel := i == m.list.cursor
+// row draws one candidate.
+func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, widths []int, w int) string {
+	st := &l.u.st
+	sel := i == l.cursor
 	plain := sel // the selected row is one style, so cells stay unstyled
 	style := func(s string, styleOf func() string) string {
 		if plain {
@@ -183,14 +208,14 @@ func (m *Model) listRow(r *filter.Result, i int, cols []column, widths []int, w 
 		cur = "▸"
 	}
 	mark := " "
-	if m.marks.has(r.Part.ID) {
+	if marks.has(r.Part.ID) {
 		mark = "●"
 	}
 	if !plain && mark != " " {
 		mark = st.Mark.Render(mark)
 	}
 
-	margin, binding := m.marginCells(r)
+	margin, binding := marginCells(r)
 	marginCell := style(margin, func() string {
 		if r.Pass {
 			return margin
@@ -240,7 +265,7 @@ func (m *Model) listRow(r *filter.Result, i int, cols []column, widths []int, w 
 // marginCells are a result's margin (with its basis marker) and binding
 // cells. For a failing part they name the worst failing check, by how far
 // it misses, and how many more fail.
-func (m *Model) marginCells(r *filter.Result) (margin, binding string) {
+func marginCells(r *filter.Result) (margin, binding string) {
 	if r.Pass {
 		c := bindingCheck(r)
 		mk := ""

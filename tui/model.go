@@ -42,8 +42,12 @@ type Config struct {
 	Getenv func(string) string
 }
 
-// Model is the selector's root bubbletea model. Its fields are the panes'
-// sub-models and the state they share; see doc.go for the flow.
+// Model is the selector's root bubbletea model. It holds only routing
+// (the mode with the keyboard, the focused pane, the detail shown), the
+// state the panes share (the design in force, the catalog, the ranking,
+// the status line) and the panes' sub-models; see doc.go for the flow.
+// Panes read the shared state and never write it: Update changes it, then
+// settles the panes (settle.go), and View only draws.
 type Model struct {
 	ui   *ui
 	cfg  Config
@@ -54,22 +58,12 @@ type Model struct {
 
 	// design is the design in force: every edit that parses and derives
 	// replaces it with an edited clone, so a running rankJob's plan is
-	// never written to. plan is derived from it (nil with planErr when the
-	// starting design cannot be derived).
+	// never written to. planErr is why it cannot be derived (rank.plan
+	// is then nil).
 	design  *filter.Design
-	plan    *filter.Plan
 	planErr error
-
-	cat     *catalog.Catalog
-	techs   []string // technologies present in the catalog, sorted
-	pkgs    []string // packages present in the catalog, sorted
-	search  map[*catalog.Part]string
-	gen     uint64 // generation of the newest rankJob
-	results []filter.Result
-	resPlan *filter.Plan // the plan results were ranked with
-	nPass   int          // passing results
-	idW     int          // id column width for the catalog
-	ranking bool         // a rankJob is running
+	cat     catalogState
+	rank    ranking
 
 	form   form
 	list   list
@@ -89,6 +83,32 @@ type Model struct {
 	quitting  bool
 }
 
+// ranking is the shared state of the evaluation: the plan in force and the
+// newest ranking adopted. Panes draw from it by pointer and never write it;
+// only the root model's Update replaces its fields.
+type ranking struct {
+	plan    *filter.Plan    // derived from the design in force; nil when it cannot be
+	resPlan *filter.Plan    // the plan results were ranked with
+	results []filter.Result // in rank order; checks filled in for drawn rows by settle
+	nPass   int             // passing results
+	gen     uint64          // generation of the newest rankJob
+	running bool            // a rankJob is running
+	strict  bool            // unknown checks fail
+}
+
+// explain fills in the checks of result i (see explain in engine.go).
+func (rs *ranking) explain(i int) { explain(rs.resPlan, &rs.results[i], rs.strict) }
+
+// catalogState is the catalog in force and what the panes look up in it,
+// computed once per load.
+type catalogState struct {
+	*catalog.Catalog
+	techs  []string // technologies present, sorted
+	pkgs   []string // packages present, sorted
+	search map[*catalog.Part]string
+	idW    int // id column width
+}
+
 // New builds the selector from cfg. It derives the design at once; the
 // first ranking runs from Init.
 func New(cfg Config) *Model {
@@ -99,11 +119,12 @@ func New(cfg Config) *Model {
 		cfg.Getenv = func(string) string { return "" }
 	}
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
-	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist()}
+	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
 	m.help = newHelp(u)
 	m.form = newForm(u)
+	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
 	m.design = cfg.Design.Clone()
-	m.plan, m.planErr = filter.Derive(m.design)
+	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
 	if cfg.CatalogErr != nil {
@@ -114,6 +135,7 @@ func New(cfg Config) *Model {
 	if cfg.Watch && len(cfg.OnDisk) > 0 {
 		m.watcher = startWatcher(cfg.OnDisk)
 	}
+	m.settle()
 	return m
 }
 
@@ -134,27 +156,38 @@ func (m *Model) Close() error {
 	return nil
 }
 
-// Update handles one message: a key (by mode), the window size, the mouse,
-// or the result of a background job.
+// Update handles one message, then settles the panes for the next View.
 func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	cmd := m.route(msg)
+	m.settle()
+	return m, cmd
+}
+
+// route hands a message to what it concerns: a key to the mode that has
+// the keyboard, the window size to the shared context, the mouse to the
+// pane under it, the result of a background job to its adopter.
+func (m *Model) route(msg tea.Msg) tea.Cmd {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.ui.width, m.ui.height = msg.Width, msg.Height
 		m.help.Width = msg.Width - 1 // the help line starts with a space
 		m.list.scrollTo(m.listRows())
-		return m, nil
+		return nil
 	case tea.KeyMsg:
-		return m, m.followPreview(m.updateKey(msg))
+		return m.followPreview(m.updateKey(msg))
 	case tea.MouseMsg:
-		return m, m.followPreview(m.updateMouse(msg))
+		return m.followPreview(m.updateMouse(msg))
 	case rankedMsg:
 		m.adoptRanking(msg)
-		return m, m.followPreview(nil)
+		return m.followPreview(nil)
 	case previewMsg:
-		m.adoptPreview(msg)
-		return m, nil
+		m.prev.adopt(msg)
+		return nil
+	case writtenMsg:
+		m.adoptWritten(msg)
+		return nil
 	}
-	return m, m.updateJobs(msg)
+	return m.updateJobs(msg)
 }
 
 // updateKey routes a key to the update function of the current mode.
@@ -176,29 +209,29 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 
 // rerank starts a rankJob for the plan in force, under a new generation.
 func (m *Model) rerank() tea.Cmd {
-	m.gen++
-	if m.plan == nil || m.cat == nil {
-		m.results, m.resPlan, m.ranking = nil, nil, false
+	m.rank.gen++
+	if m.rank.plan == nil || m.cat.Catalog == nil {
+		m.rank.results, m.rank.resPlan, m.rank.running = nil, nil, false
 		m.applyNarrowing()
 		return nil
 	}
-	m.ranking = true
-	j := rankJob{gen: m.gen, plan: m.plan, parts: m.cat.Parts,
+	m.rank.running = true
+	j := rankJob{gen: m.rank.gen, plan: m.rank.plan, parts: m.cat.Parts,
 		opts: filter.Options{Strict: m.cfg.Strict, Summary: true}, sort: m.narrow.sortKey()}
 	return j.run
 }
 
 // adoptRanking takes a finished ranking unless a newer one was started.
 func (m *Model) adoptRanking(r rankedMsg) {
-	if r.gen != m.gen {
+	if r.gen != m.rank.gen {
 		return // stale: an edit came after this job started
 	}
-	m.ranking = false
-	m.results, m.resPlan = r.results, r.plan
-	m.nPass = 0
-	for i := range m.results {
-		if m.results[i].Pass {
-			m.nPass++
+	m.rank.running = false
+	m.rank.results, m.rank.resPlan = r.results, r.plan
+	m.rank.nPass = 0
+	for i := range m.rank.results {
+		if m.rank.results[i].Pass {
+			m.rank.nPass++
 		}
 	}
 	m.applyNarrowing()
@@ -210,14 +243,13 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	if c == nil {
 		c = &catalog.Catalog{}
 	}
-	m.cat = c
-	m.techs, m.pkgs = catalogValues(c.Parts)
-	m.idW = idWidth(c.Parts)
-	m.search = make(map[*catalog.Part]string, len(c.Parts))
+	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts))}
+	cs.techs, cs.pkgs = catalogValues(c.Parts)
 	for _, p := range c.Parts {
-		m.search[p] = searchText(p)
+		cs.search[p] = searchText(p)
 	}
-	m.narrow.keepValid(m.techs, m.pkgs)
+	m.cat = cs
+	m.narrow.keepValid(m.cat.techs, m.cat.pkgs)
 }
 
 // setMessage puts a message on the status line.

@@ -53,7 +53,7 @@ func TestRankingIsTheEngines(t *testing.T) {
 // requirements must follow the new frequency at once.
 func TestEditFrequencyReranks(t *testing.T) {
 	m := newDemo(t, 120, 40)
-	top := m.list.selected(m.results)
+	top := m.list.selected(m.rank.results)
 	if top == nil {
 		t.Fatal("no candidate at start")
 	}
@@ -69,7 +69,7 @@ func TestEditFrequencyReranks(t *testing.T) {
 	if ids := topIDs(m, 1000); slices.Contains(ids, oldTop) {
 		t.Fatalf("%s (fmax %g Hz) still passes at 60 kHz: %v", oldTop, fmax, ids)
 	}
-	if r := m.list.selected(m.results); r == nil || r.Part.ID == oldTop {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID == oldTop {
 		t.Fatalf("selection did not move off the part that dropped out")
 	}
 	// SR ≥ 2π·60 kHz·5 V = 1.885 V/µs (same formula as above, worked by hand).
@@ -79,15 +79,15 @@ func TestEditFrequencyReranks(t *testing.T) {
 	press(t, m, "f")
 	var old *filter.Result
 	for _, i := range m.list.view {
-		if m.results[i].Part.ID == oldTop {
-			old = &m.results[i]
+		if m.rank.results[i].Part.ID == oldTop {
+			old = &m.rank.results[i]
 		}
 	}
 	if old == nil || old.Pass {
 		t.Fatalf("with failing parts shown, %s is missing or passes", oldTop)
 	}
-	explain(m.resPlan, old, false)
-	_, binding := m.marginCells(old)
+	explain(m.rank.resPlan, old, false)
+	_, binding := marginCells(old)
 	if !strings.Contains(binding, "gain.slew") && !strings.Contains(binding, "gain.gbw") {
 		t.Errorf("%s fails on %q, want gain.slew or gain.gbw", oldTop, binding)
 	}
@@ -106,12 +106,12 @@ func TestSelectionPersists(t *testing.T) {
 	selectID(t, m, want)
 	for _, k := range []string{"s", "s", "s", "s"} { // cost, supply current, fmax, id
 		press(t, m, k)
-		if r := m.list.selected(m.results); r == nil || r.Part.ID != want {
+		if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != want {
 			t.Fatalf("after sort %s the selection is on %v, want %s", m.narrow.sortKey(), r.Part.ID, want)
 		}
 	}
 	editField(t, m, gainFreq, "25 kHz")
-	if r := m.list.selected(m.results); r == nil || r.Part.ID != want {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != want {
 		t.Fatalf("after an edit the selection is on %v, want %s", r.Part.ID, want)
 	}
 	// The find filter hides it: the cursor stays in place on another part.
@@ -119,7 +119,7 @@ func TestSelectionPersists(t *testing.T) {
 	press(t, m, "/")
 	typeText(t, m, "no-part-has-this")
 	press(t, m, "esc")
-	if r := m.list.selected(m.results); r == nil || r.Part.ID != want {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != want {
 		t.Errorf("after a find that matched nothing and was dropped, selection = %v, want %s", r, want)
 	}
 	if m.list.cursor != pos {
@@ -147,7 +147,7 @@ func TestStaleRankingDropped(t *testing.T) {
 	if got := topIDs(m, 1000); !slices.Equal(got, want) {
 		t.Errorf("a stale ranking replaced the newer one: %v, want %v", got, want)
 	}
-	if f := m.plan.Stages[1].Freq; math.Abs(f-1120e3) > 1e-6 {
+	if f := m.rank.plan.Stages[1].Freq; math.Abs(f-1120e3) > 1e-6 {
 		t.Errorf("plan freq = %g, want 1120e3", f)
 	}
 }
@@ -349,15 +349,15 @@ func TestNarrowing(t *testing.T) {
 	press(t, m, "t")
 	tech := m.narrow.tech
 	for _, i := range m.list.view {
-		if string(m.results[i].Part.Tech) != tech {
-			t.Errorf("tech filter %q shows %s (%s)", tech, m.results[i].Part.ID, m.results[i].Part.Tech)
+		if string(m.rank.results[i].Part.Tech) != tech {
+			t.Errorf("tech filter %q shows %s (%s)", tech, m.rank.results[i].Part.ID, m.rank.results[i].Part.Tech)
 		}
 	}
 	press(t, m, "c", "p")
 	pkg := m.narrow.pkg
 	for _, i := range m.list.view {
-		if !m.results[i].Part.HasPackage(pkg) {
-			t.Errorf("package filter %q shows %s", pkg, m.results[i].Part.ID)
+		if !m.rank.results[i].Part.HasPackage(pkg) {
+			t.Errorf("package filter %q shows %s", pkg, m.rank.results[i].Part.ID)
 		}
 	}
 	press(t, m, "c", "/")
@@ -367,8 +367,8 @@ func TestNarrowing(t *testing.T) {
 		t.Fatal("find QUAD matched nothing")
 	}
 	for _, i := range m.list.view {
-		if !strings.Contains(m.search[m.results[i].Part], "quad") {
-			t.Errorf("find shows %s", m.results[i].Part.ID)
+		if !strings.Contains(m.cat.search[m.rank.results[i].Part], "quad") {
+			t.Errorf("find shows %s", m.rank.results[i].Part.ID)
 		}
 	}
 	press(t, m, "c")
@@ -376,7 +376,7 @@ func TestNarrowing(t *testing.T) {
 		t.Errorf("after clear %d rows, want %d", len(m.list.view), all)
 	}
 	// Cycling a quick filter past its last value comes back to "any".
-	for range len(m.techs) + 1 {
+	for range len(m.cat.techs) + 1 {
 		press(t, m, "t")
 	}
 	if m.narrow.tech != "" {
@@ -405,12 +405,12 @@ func TestReloadKeepsSelectionAndShortlist(t *testing.T) {
 	ids := topIDs(m, 5)
 	press(t, m, "space", "down", "space", "down", "down")
 	drop = ids[1]
-	sel := m.list.selected(m.results).Part.ID
+	sel := m.list.selected(m.rank.results).Part.ID
 	press(t, m, "r")
 	if loads != 1 {
 		t.Fatalf("r loaded %d times, want 1", loads)
 	}
-	if r := m.list.selected(m.results); r == nil || r.Part.ID != sel {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != sel {
 		t.Errorf("selection after reload = %v, want %s", r, sel)
 	}
 	if !m.marks.has(ids[0]) || m.marks.has(ids[1]) || m.marks.len() != 1 {
@@ -429,10 +429,10 @@ func TestReloadWithProblemsKeepsCatalog(t *testing.T) {
 			return catalog.Load(catalog.PathLayer(filepath.Join("testdata", "broken.toml")))
 		}})
 	run(t, m, m.Init())
-	n := len(m.results)
+	n := len(m.rank.results)
 	press(t, m, "r")
-	if len(m.results) != n || !m.msgErr || !strings.Contains(m.message, "broken.toml") {
-		t.Errorf("after a broken reload: %d results (want %d), message %q", len(m.results), n, m.message)
+	if len(m.rank.results) != n || !m.msgErr || !strings.Contains(m.message, "broken.toml") {
+		t.Errorf("after a broken reload: %d results (want %d), message %q", len(m.rank.results), n, m.message)
 	}
 }
 
@@ -542,7 +542,7 @@ func TestMouseWheel(t *testing.T) {
 // designText is the whole design pane, unscrolled, as plain text.
 func designText(m *Model) string {
 	var b strings.Builder
-	for _, l := range m.form.lines(m.plan, m.design.Name, 200) {
+	for _, l := range m.form.lines(m.rank.plan, m.design.Name, 200) {
 		b.WriteString(strings.TrimRight(l.text, " ") + "\n")
 	}
 	return b.String()

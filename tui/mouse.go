@@ -33,9 +33,9 @@ func (m *Model) updateMouse(msg tea.MouseMsg) tea.Cmd {
 		case paneDesign:
 			m.form.scroll(n)
 		case paneList:
-			m.list.move(n, m.results, m.listRows())
+			m.list.move(n, m.rank.results, m.listRows())
 		case paneDetail:
-			m.checks.offset = max(0, m.checks.offset+n)
+			m.checks.scroll(n)
 		}
 	case tea.MouseButtonLeft:
 		if msg.Action != tea.MouseActionPress {
@@ -44,7 +44,7 @@ func (m *Model) updateMouse(msg tea.MouseMsg) tea.Cmd {
 		m.focus = p
 		if p == paneList {
 			if i := m.list.offset + msg.Y - l.list.y - 2; msg.Y-l.list.y >= 2 && i < len(m.list.view) {
-				m.list.move(i-m.list.cursor, m.results, m.listRows())
+				m.list.move(i-m.list.cursor, m.rank.results, m.listRows())
 			}
 		}
 	}

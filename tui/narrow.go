@@ -79,17 +79,16 @@ func searchText(p *catalog.Part) string {
 	return strings.ToLower(p.ID + "\x00" + p.Name + "\x00" + p.Notes)
 }
 
-// applyNarrowing rebuilds the list's rows from the results and keeps the
-// selection on the same part (by id) when it is still shown.
-func (m *Model) applyNarrowing() {
-	n := &m.narrow
+// rows returns the indices of the results the narrowing lets through, in
+// rank order, reusing buf. search holds each part's searchText.
+func (n *narrowing) rows(results []filter.Result, marks *shortlist, search map[*catalog.Part]string, buf []int) []int {
 	find := strings.ToLower(strings.TrimSpace(n.find))
-	rows := m.list.view[:0]
-	for i := range m.results {
-		r := &m.results[i]
+	rows := buf[:0]
+	for i := range results {
+		r := &results[i]
 		p := r.Part
 		switch {
-		case n.shortlist && !m.marks.has(p.ID):
+		case n.shortlist && !marks.has(p.ID):
 			continue
 		case !n.shortlist && !n.failing && !r.Pass:
 			continue
@@ -97,11 +96,17 @@ func (m *Model) applyNarrowing() {
 			continue
 		case n.pkg != "" && !p.HasPackage(n.pkg):
 			continue
-		case find != "" && !strings.Contains(m.search[p], find):
+		case find != "" && !strings.Contains(search[p], find):
 			continue
 		}
 		rows = append(rows, i)
 	}
-	m.list.view = rows
-	m.list.reselect(m.results, m.listRows())
+	return rows
+}
+
+// applyNarrowing rebuilds the list's rows from the results and keeps the
+// selection on the same part (by id) when it is still shown.
+func (m *Model) applyNarrowing() {
+	rows := m.narrow.rows(m.rank.results, &m.marks, m.cat.search, m.list.view)
+	m.list.setRows(rows, m.rank.results, m.listRows())
 }

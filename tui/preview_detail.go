@@ -25,6 +25,7 @@ import (
 //	      ─► previewJob{gen} (tea.Cmd: preview.Run per part, off the UI path)
 //	      ─► previewMsg{gen} ─► dropped unless gen is the newest ─► shown
 type previewPane struct {
+	u *ui
 	// stage is the stage the user picked with [ and ]; "" or a stage the
 	// design no longer has means its first stage with a waveform.
 	stage string
@@ -98,7 +99,7 @@ func previewStage(plan *filter.Plan, picked string) (name string, ok bool) {
 func (m *Model) previewParts() []*catalog.Part {
 	if m.prev.compare {
 		var out []*catalog.Part
-		for _, r := range m.marks.results(m.results) {
+		for _, r := range m.marks.results(m.rank.results) {
 			out = append(out, r.Part)
 		}
 		if len(out) == 2 {
@@ -106,7 +107,7 @@ func (m *Model) previewParts() []*catalog.Part {
 		}
 		return nil
 	}
-	if r := m.list.selected(m.results); r != nil {
+	if r := m.list.selected(m.rank.results); r != nil {
 		return []*catalog.Part{r.Part}
 	}
 	return nil
@@ -123,7 +124,7 @@ func (m *Model) followPreview(cmd tea.Cmd) tea.Cmd {
 		m.prev.compare = false
 		m.setMessage("compare needs exactly two marked parts; previewing the selection")
 	}
-	stage, ok := previewStage(m.plan, m.prev.stage)
+	stage, ok := previewStage(m.rank.plan, m.prev.stage)
 	parts := m.previewParts()
 	if !ok || len(parts) == 0 {
 		return cmd
@@ -132,25 +133,43 @@ func (m *Model) followPreview(cmd tea.Cmd) tea.Cmd {
 	for i, p := range parts {
 		ids[i] = p.ID
 	}
-	want := previewFor{plan: m.plan, stage: stage, ids: strings.Join(ids, " ")}
+	want := previewFor{plan: m.rank.plan, stage: stage, ids: strings.Join(ids, " ")}
 	if want == m.prev.asked {
 		return cmd
 	}
 	m.prev.gen++
 	m.prev.asked = want
-	job := previewJob{gen: m.prev.gen, target: want, plan: m.plan, stage: stage, parts: parts}
+	job := previewJob{gen: m.prev.gen, target: want, plan: m.rank.plan, stage: stage, parts: parts}
 	if cmd == nil {
 		return job.run
 	}
 	return tea.Batch(cmd, job.run)
 }
 
-// adoptPreview takes a finished preview unless a newer one was started.
-func (m *Model) adoptPreview(msg previewMsg) {
-	if msg.gen != m.prev.gen {
+// adopt takes a finished preview unless a newer one was started.
+func (p *previewPane) adopt(msg previewMsg) {
+	if msg.gen != p.gen {
 		return // stale: the cursor moved on before this job finished
 	}
-	m.prev.shown, m.prev.res, m.prev.err = msg.target, msg.res, msg.err
+	p.shown, p.res, p.err = msg.target, msg.res, msg.err
+}
+
+// cycleStage picks the next (or previous) stage with a waveform in plan
+// and returns it, its number and the count; ok is false when none has one.
+func (p *previewPane) cycleStage(plan *filter.Plan, next bool) (stage string, i, n int, ok bool) {
+	stages := preview.Stages(plan)
+	cur, ok := previewStage(plan, p.stage)
+	if !ok {
+		return "", 0, 0, false
+	}
+	i = slices.Index(stages, cur)
+	if next {
+		i = (i + 1) % len(stages)
+	} else {
+		i = (i + len(stages) - 1) % len(stages)
+	}
+	p.stage = stages[i]
+	return p.stage, i + 1, len(stages), true
 }
 
 // previewKey handles the preview keys while browsing: v toggles the
@@ -184,19 +203,9 @@ func (m *Model) previewKey(k tea.KeyMsg) {
 			m.setMessage("v shows the waveform preview; [ and ] then pick the stage")
 			return
 		}
-		stages := preview.Stages(m.plan)
-		cur, ok := previewStage(m.plan, m.prev.stage)
-		if !ok {
-			return
+		if stage, i, n, ok := m.prev.cycleStage(m.rank.plan, key.Matches(k, keys.StageNext)); ok {
+			m.setMessage("preview stage %s (%d of %d with a waveform)", stage, i, n)
 		}
-		i := slices.Index(stages, cur)
-		if key.Matches(k, keys.StageNext) {
-			i = (i + 1) % len(stages)
-		} else {
-			i = (i + len(stages) - 1) % len(stages)
-		}
-		m.prev.stage = stages[i]
-		m.setMessage("preview stage %s (%d of %d with a waveform)", stages[i], i+1, len(stages))
 	}
 }
 
@@ -207,43 +216,43 @@ func (m *Model) showPreview() {
 	if m.ui.layout().stacked && m.focus == paneDesign {
 		m.focus = paneList
 	}
-	if _, ok := previewStage(m.plan, m.prev.stage); !ok {
+	if _, ok := previewStage(m.rank.plan, m.prev.stage); !ok {
 		m.setMessage("no stage of this design has a waveform to preview")
 		return
 	}
 	m.setMessage("preview: worst-case figures; [ ] stage · v back to checks")
 }
 
-// previewView draws the preview into h lines of w cells: a heading, the
+// draw draws the preview into h lines of w cells: a heading, the
 // metrics, the plot with its legend, and the first note.
-func (m *Model) previewView(w, h int) []string {
-	st := &m.ui.st
-	focused := m.focus == paneDetail
-	stage, ok := previewStage(m.plan, m.prev.stage)
+// parts are the parts it is to show (previewParts).
+func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, h int) []string {
+	st := &p.u.st
+	stage, ok := previewStage(rs.plan, p.stage)
 	out := []string{}
 	say := func(title, text string) []string {
-		out = append(out, m.paneTitle(title, focused, w), st.Muted.Render(fit(text, w)))
+		out = append(out, paneHeading(st, title, focused, w), st.Muted.Render(fit(text, w)))
 		return append(out, blank(w, h-len(out))...)[:h]
 	}
 	switch {
-	case m.plan == nil:
+	case rs.plan == nil:
 		return say("PREVIEW", "no preview: the design cannot be derived")
 	case !ok:
 		return say("PREVIEW", "no stage of this design has a waveform (direct and rail-splitter stages have none)")
-	case len(m.previewParts()) == 0:
+	case len(parts) == 0:
 		return say("PREVIEW", "no candidate selected")
 	}
-	res := m.prev.res
+	res := p.res
 	title := "PREVIEW · " + stage
 	if len(res) > 0 {
 		title += " (" + res[0].Kind + ") · " + previewIDs(res) + " · worst case"
 	}
-	if m.prev.asked != m.prev.shown {
+	if p.asked != p.shown {
 		title += " · simulating…"
 	}
-	out = append(out, m.paneTitle(title, focused, w))
-	if m.prev.err != nil {
-		for _, l := range wrap("! "+m.prev.err.Error(), w) {
+	out = append(out, paneHeading(st, title, focused, w))
+	if p.err != nil {
+		for _, l := range wrap("! "+p.err.Error(), w) {
 			out = append(out, st.Error.Render(fit(l, w)))
 		}
 		if len(out) > h {
@@ -271,7 +280,7 @@ func (m *Model) previewView(w, h int) []string {
 		noteH = 1
 	}
 	if plotH := h - len(out) - noteH; plotH >= 3 {
-		for _, l := range strings.Split(plot.Render(w, plotH, m.traces(res), plot.Options{XDim: catalog.Second, YDim: catalog.Volt}), "\n") {
+		for _, l := range strings.Split(plot.Render(w, plotH, p.traces(res), plot.Options{XDim: catalog.Second, YDim: catalog.Volt}), "\n") {
 			out = append(out, fit(l, w))
 		}
 	}
@@ -304,8 +313,8 @@ var traceNames = [...]string{"line", "×"}
 
 // traces are the plot's series: the ideal first (dotted, muted) so the
 // outputs draw over it, then each part's output (solid, then × marks).
-func (m *Model) traces(res []*preview.Result) []plot.Series {
-	st := &m.ui.st
+func (p *previewPane) traces(res []*preview.Result) []plot.Series {
+	st := &p.u.st
 	style := func(ls lipgloss.Style) func(string) string {
 		return func(s string) string { return ls.Render(s) }
 	}

@@ -34,7 +34,7 @@ func openPreviewOn(t *testing.T, m *Model, id string) {
 // the checks.
 func TestPreviewToggle(t *testing.T) {
 	m := newDemo(t, 120, 40)
-	top := m.list.selected(m.results).Part.ID
+	top := m.list.selected(m.rank.results).Part.ID
 	openPreviewOn(t, m, top)
 	r := m.prev.res[0]
 	if r.Part.ID != top || r.Stage != "buffer" {
@@ -136,11 +136,11 @@ func TestStalePreviewDropped(t *testing.T) {
 	m := newDemo(t, 120, 40)
 	press(t, m, "f")
 	m.focus = paneList
-	openPreviewOn(t, m, m.list.selected(m.results).Part.ID)
+	openPreviewOn(t, m, m.list.selected(m.rank.results).Part.ID)
 	_, first := m.Update(keyMsg("down"))
-	firstID := m.list.selected(m.results).Part.ID
+	firstID := m.list.selected(m.rank.results).Part.ID
 	_, second := m.Update(keyMsg("down"))
-	secondID := m.list.selected(m.results).Part.ID
+	secondID := m.list.selected(m.rank.results).Part.ID
 	if first == nil || second == nil || firstID == secondID {
 		t.Fatalf("moving the cursor started no preview jobs (%v, %v) or did not move", first, second)
 	}

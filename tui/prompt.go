@@ -35,6 +35,7 @@ type prompt struct {
 	input   textinput.Model
 	format  report.Format
 	confirm bool // waiting for y/n: the file exists
+	writing bool // a write is running; keys wait for its writtenMsg
 }
 
 // openPrompt starts a prompt of kind with the path suggested.
@@ -76,6 +77,9 @@ func withExt(path string, f report.Format) string {
 func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
 	p := &m.prompt
 	keys := &m.ui.keys
+	if p.writing {
+		return nil
+	}
 	if p.confirm {
 		switch k.String() {
 		case "y", "Y":
@@ -110,8 +114,9 @@ func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
 	return cmd
 }
 
-// finishPrompt writes the file, asking first when it exists (unless
-// overwrite is already confirmed).
+// finishPrompt starts writing the file, asking first when it exists
+// (unless overwrite is already confirmed); the prompt closes when the
+// write reports success (adoptWritten).
 func (m *Model) finishPrompt(overwrite bool) tea.Cmd {
 	p := &m.prompt
 	path := strings.TrimSpace(p.input.Value())
@@ -132,25 +137,26 @@ func (m *Model) finishPrompt(overwrite bool) tea.Cmd {
 		p.confirm = true
 		return nil
 	}
+	var cmd tea.Cmd
 	var err error
 	switch p.kind {
 	case promptExport:
-		err = m.exportShortlist(path, p.format)
+		cmd, err = m.exportShortlist(path, p.format)
 	case promptSave:
-		err = m.saveDesign(path)
+		cmd, err = m.saveDesign(path)
 	}
 	if err != nil {
 		m.setError(err)
 		return nil // the prompt stays open to try another path
 	}
-	m.mode = modeBrowse
-	return nil
+	p.writing = true
+	return cmd
 }
 
-// promptView draws an open prompt on the two bottom lines.
-func (m *Model) promptView(w int) (line1, line2 string) {
-	p := &m.prompt
-	st := &m.ui.st
+// draw draws an open prompt on the two bottom lines; marked is the number
+// of marked parts an export writes.
+func (p *prompt) draw(u *ui, marked, w int) (line1, line2 string) {
+	st := &u.st
 	path := strings.TrimSpace(p.input.Value())
 	if p.confirm {
 		q := path + " exists: overwrite it?"
@@ -159,15 +165,27 @@ func (m *Model) promptView(w int) (line1, line2 string) {
 		}
 		return fit(st.Prompt.Render(q)+" y/n", w), fit(st.HelpKey.Render("y")+" overwrite  "+st.HelpKey.Render("n")+" back", w)
 	}
-	label := "save design to "
+	label := p.label(marked)
 	hint := st.HelpKey.Render("enter") + " save  " + st.HelpKey.Render("esc") + " cancel"
 	if p.kind == promptExport {
-		label = "export " + plural(m.marks.len(), "marked part") + " as " + string(p.format) + " to "
 		hint = st.HelpKey.Render("enter") + " write  " + st.HelpKey.Render("tab") + " format (md csv json toml)  " +
 			st.HelpKey.Render("esc") + " cancel"
 	}
-	p.input.Width = max(10, w-len([]rune(label))-2)
 	return fit(st.Prompt.Render(label)+p.input.View(), w), fit(hint, w)
+}
+
+// label is the text before the path: what is written; marked is the
+// number of marked parts an export writes.
+func (p *prompt) label(marked int) string {
+	if p.kind == promptExport {
+		return "export " + plural(marked, "marked part") + " as " + string(p.format) + " to "
+	}
+	return "save design to "
+}
+
+// settle sizes the path input to the room the label leaves in w cells.
+func (p *prompt) settle(marked, w int) {
+	p.input.Width = max(10, w-len([]rune(p.label(marked)))-2)
 }
 
 // plural is "1 part" or "3 parts".

@@ -118,14 +118,30 @@ func (r *replacer) move(n, rows int) {
 	}
 }
 
+// settle keeps the offsets inside what a body of w×h draws: the
+// candidate rows and the comparison of the selected candidate.
+func (r *replacer) settle(w, h int) {
+	rows := replaceListRows(h)
+	r.offset = max(0, min(r.offset, len(r.res.Candidates)-rows))
+	c := r.selected()
+	if c == nil {
+		return
+	}
+	body := r.compareLines(c, w)
+	fixed := min(2, len(body))
+	ch := h - (rows + 2) // the comparison pane's lines
+	r.scroll = max(0, min(r.scroll, len(body)-fixed-max(0, ch-1-fixed)))
+}
+
 // replaceListRows is how many candidate rows replacement mode shows in a
 // body of h lines: about a quarter of it, so at 40 lines the comparison
 // holds every field and the first regressions without scrolling.
 func replaceListRows(h int) int { return max(3, h/4-2) }
 
-// view draws the mode into h lines of w cells: the candidates pane, then
-// the comparison pane. marked says which parts are on the shortlist.
-func (r *replacer) view(w, h int, marked func(id string) bool) []string {
+// draw draws the mode into h lines of w cells: the candidates pane, then
+// the comparison pane. marked says which parts are on the shortlist. The
+// offsets are settled in Update (settle).
+func (r *replacer) draw(w, h int, marked func(id string) bool) []string {
 	listH := replaceListRows(h) + 2
 	out := r.listLines(w, listH, marked)
 	return append(out, r.compareView(w, h-len(out))...)
@@ -195,8 +211,6 @@ func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 	if len(r.res.Candidates) == 0 {
 		out = append(out, st.Muted.Render(fit("no part in the catalog could take its place (esc goes back)", w)))
 	}
-	rows := max(0, h-2)
-	r.offset = max(0, min(r.offset, len(r.res.Candidates)-rows))
 	for i := r.offset; i < len(r.res.Candidates) && len(out) < h; i++ {
 		c := &r.res.Candidates[i]
 		sel := i == r.cursor
@@ -427,8 +441,6 @@ func (r *replacer) compareView(w, h int) []string {
 	body := r.compareLines(c, w)
 	fixed := min(2, len(body))
 	out = append(out, body[:fixed]...)
-	rows := max(0, h-1-fixed)
-	r.scroll = max(0, min(r.scroll, len(body)-fixed-rows))
 	for i := fixed + r.scroll; i < len(body) && len(out) < h; i++ {
 		out = append(out, body[i])
 	}
@@ -438,23 +450,8 @@ func (r *replacer) compareView(w, h int) []string {
 	return append(out, blank(w, h-len(out))...)
 }
 
-// paneHeading draws a pane's heading as Model.paneTitle does: a light
-// rule, a heavy one when focused, so focus shows without colour.
-func paneHeading(st *Styles, text string, focused bool, w int) string {
-	rule, style := "─", st.PaneTitle
-	if focused {
-		rule, style = "━", st.PaneFocus
-	}
-	head := strings.TrimRight(fit(rule+" "+text+" ", w-2), " ") + " "
-	return style.Render(fit(head+strings.Repeat(rule, max(0, w-len([]rune(head)))), w))
-}
-
-// replaceHelp is the bottom line in replacement mode.
-type replaceHelp struct{ k *KeyMap }
-
-// ShortHelp lists the keys of replacement mode.
-func (h replaceHelp) ShortHelp() []key.Binding {
-	k := h.k
+// replaceKeys are the bottom line in replacement mode.
+func (k *KeyMap) replaceKeys() []key.Binding {
 	return []key.Binding{
 		key.NewBinding(key.WithKeys("up", "down"), key.WithHelp("↑/↓", "candidate")),
 		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "scroll comparison")),
@@ -464,17 +461,14 @@ func (h replaceHelp) ShortHelp() []key.Binding {
 	}
 }
 
-// FullHelp is the same as ShortHelp.
-func (h replaceHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
 // openReplace opens replacement mode for the selected candidate.
 func (m *Model) openReplace() tea.Cmd {
-	r := m.list.selected(m.results)
+	r := m.list.selected(m.rank.results)
 	if r == nil {
 		m.setMessage("select a part first; R lists what could take its place")
 		return nil
 	}
-	m.repl = newReplacer(m.ui, r.Part, m.cat.Parts, m.plan, m.cfg.Strict)
+	m.repl = newReplacer(m.ui, r.Part, m.cat.Parts, m.rank.plan, m.cfg.Strict)
 	m.mode = modeReplace
 	m.setMessage("replacements for %s: ▼ worse ▲ better = same ? unknown; ~ typical, g graph", r.Part.ID)
 	return nil
@@ -506,7 +500,7 @@ func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 		m.mode = modeBrowse
 		m.list.selID = id
 		m.applyNarrowing()
-		if s := m.list.selected(m.results); s == nil || s.Part.ID != id {
+		if s := m.list.selected(m.rank.results); s == nil || s.Part.ID != id {
 			m.setMessage("%s is hidden by the filters (f shows failing parts, c clears filters)", id)
 		} else {
 			m.focus = paneList
@@ -514,9 +508,4 @@ func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 		}
 	}
 	return nil
-}
-
-// replaceView is the body while replacement mode has the keyboard.
-func (m *Model) replaceView(w, h int) []string {
-	return m.repl.view(w, h, m.marks.has)
 }

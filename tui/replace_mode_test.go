@@ -117,7 +117,7 @@ func TestReplaceModeFlow(t *testing.T) {
 	if m.mode != modeBrowse {
 		t.Fatalf("esc left mode %d, want browse", m.mode)
 	}
-	if r := m.list.selected(m.results); r == nil || r.Part.ID != obsoleteQuad {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != obsoleteQuad {
 		t.Errorf("selection after esc is not %s", obsoleteQuad)
 	}
 	if !m.marks.has(second.Part.ID) {
@@ -140,7 +140,7 @@ func TestReplaceEnterSelects(t *testing.T) {
 	if m.mode != modeBrowse {
 		t.Fatalf("enter left mode %d, want browse", m.mode)
 	}
-	if r := m.list.selected(m.results); r == nil || r.Part.ID != want {
+	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID != want {
 		t.Errorf("selected %v after enter, want %s", r, want)
 	}
 }

@@ -50,11 +50,11 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Find):
 		return m.startFind()
 	case key.Matches(k, keys.Tech):
-		m.narrow.tech = cycle(m.narrow.tech, m.techs)
+		m.narrow.tech = cycle(m.narrow.tech, m.cat.techs)
 		m.applyNarrowing()
 		m.setMessage("technology: %s", orAny(m.narrow.tech))
 	case key.Matches(k, keys.Package):
-		m.narrow.pkg = cycle(m.narrow.pkg, m.pkgs)
+		m.narrow.pkg = cycle(m.narrow.pkg, m.cat.pkgs)
 		m.applyNarrowing()
 		m.setMessage("package: %s", orAny(m.narrow.pkg))
 	case key.Matches(k, keys.Clear), key.Matches(k, keys.Cancel) && m.narrow.active():
@@ -108,15 +108,15 @@ func (m *Model) moveFocused(n int) {
 	case paneDesign:
 		m.form.move(n)
 	case paneList:
-		m.list.move(n, m.results, m.listRows())
+		m.list.move(n, m.rank.results, m.listRows())
 	case paneDetail:
-		m.checks.offset = max(0, m.checks.offset+max(-1<<20, min(1<<20, n)))
+		m.checks.scroll(n)
 	}
 }
 
 // toggleMark marks or unmarks the selected candidate.
 func (m *Model) toggleMark() {
-	r := m.list.selected(m.results)
+	r := m.list.selected(m.rank.results)
 	if r == nil {
 		m.setMessage("no candidate selected")
 		return

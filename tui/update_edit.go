@@ -9,26 +9,13 @@ import (
 
 // startEdit gives the field under the design pane's cursor the keyboard.
 func (m *Model) startEdit() tea.Cmd {
-	f, ok := m.form.current()
+	help, cmd, ok := m.form.begin()
 	if !ok {
 		return nil
 	}
 	m.mode = modeEdit
-	m.form.editing = true
-	m.form.before = f.Raw
-	m.form.editErr = ""
-	m.form.follow = true
-	m.form.input.SetValue(f.Raw)
-	m.form.input.CursorEnd()
-	help := f.Help
-	if f.Default != "" {
-		help += " (empty: " + f.Default + ")"
-	}
-	if len(f.Choices) > 0 {
-		help += "; one of: " + joinChoices(f.Choices)
-	}
-	m.setMessage("%s: %s", f.Label, help)
-	return m.form.input.Focus()
+	m.setMessage("%s", help)
+	return cmd
 }
 
 // updateEdit handles a key while a design field is being edited. Every
@@ -68,17 +55,9 @@ func (m *Model) updateEdit(k tea.KeyMsg) tea.Cmd {
 // endEdit leaves the field. Text that is not in force (it did not parse or
 // derive) is dropped: the field shows the value in force again.
 func (m *Model) endEdit() {
-	if m.form.editErr != "" {
-		f, _ := m.form.current()
-		shown := f.Raw
-		if shown == "" {
-			shown = "(" + f.Default + ")"
-		}
-		m.setMessage("%s: kept %s; %q was not accepted", f.Label, shown, m.form.input.Value())
+	if kept := m.form.end(); kept != "" {
+		m.setMessage("%s", kept)
 	}
-	m.form.editing = false
-	m.form.editErr = ""
-	m.form.input.Blur()
 	m.mode = modeBrowse
 }
 
@@ -98,21 +77,9 @@ func (m *Model) applyField(path, raw string) tea.Cmd {
 		return nil
 	}
 	m.form.editErr = ""
-	m.design, m.plan, m.planErr = c, plan, nil
+	m.design, m.rank.plan, m.planErr = c, plan, nil
 	m.form.refresh(c)
 	return m.rerank()
-}
-
-// joinChoices lists choices for a help line.
-func joinChoices(cs []string) string {
-	s := ""
-	for i, c := range cs {
-		if i > 0 {
-			s += ", "
-		}
-		s += c
-	}
-	return s
 }
 
 // startFind opens the text filter on the status line.
@@ -141,7 +108,7 @@ func (m *Model) updateFind(k tea.KeyMsg) tea.Cmd {
 		m.focus = paneList
 		return nil
 	case "up", "down":
-		m.list.move(map[string]int{"up": -1, "down": 1}[k.String()], m.results, m.listRows())
+		m.list.move(map[string]int{"up": -1, "down": 1}[k.String()], m.rank.results, m.listRows())
 		return nil
 	}
 	var cmd tea.Cmd

@@ -23,11 +23,9 @@ func (m *Model) View() string {
 	lines := make([]string, 0, u.height)
 	lines = append(lines, m.titleView(l.title.w))
 
-	body := m.listView(l.list.w, l.list.h)
+	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
-		return m.form.view(m.plan, m.design, func(t string) string {
-			return m.paneTitle(t, m.focus == paneDesign, l.design.w)
-		}, l.design.w, l.design.h)
+		return m.form.draw(m.rank.plan, m.design, m.focus == paneDesign, l.design.w, l.design.h)
 	}
 	switch {
 	case l.stacked && m.focus == paneDesign:
@@ -45,19 +43,19 @@ func (m *Model) View() string {
 	case modeHelp:
 		body = m.helpOverlay(u.width, len(body))
 	case modeReplace:
-		body = m.replaceView(u.width, len(body))
+		body = m.repl.draw(u.width, len(body), m.marks.has)
 	}
 	lines = append(lines, body...)
 
 	switch m.mode {
 	case modePrompt:
-		a, b := m.promptView(u.width)
+		a, b := m.prompt.draw(u, m.marks.len(), u.width)
 		lines = append(lines, a, b)
 	case modeFind:
 		in := m.prompt.input
 		in.Width = max(10, u.width-8)
 		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width),
-			fit(m.help.ShortHelpView(editHelp{&u.keys}.ShortHelp()), u.width))
+			fit(m.help.ShortHelpView(u.keys.editKeys()), u.width))
 	default:
 		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
 	}
@@ -81,11 +79,11 @@ func (m *Model) titleView(w int) string {
 func (m *Model) statusView(w int) string {
 	st := &m.ui.st
 	var b strings.Builder
-	fmt.Fprintf(&b, " %d of %s pass", m.nPass, plural(len(m.cat.Parts), "part"))
+	fmt.Fprintf(&b, " %d of %s pass", m.rank.nPass, plural(len(m.cat.Parts), "part"))
 	if m.marks.len() > 0 {
 		fmt.Fprintf(&b, " · %d marked", m.marks.len())
 	}
-	if m.ranking {
+	if m.rank.running {
 		b.WriteString(" · ranking…")
 	}
 	head := st.Status.Render(b.String())
@@ -102,19 +100,18 @@ func (m *Model) statusView(w int) string {
 // helpLine is the short key help of the current mode.
 func (m *Model) helpLine() string {
 	if m.mode == modeReplace {
-		return " " + m.help.ShortHelpView(replaceHelp{&m.ui.keys}.ShortHelp())
+		return " " + m.help.ShortHelpView(m.ui.keys.replaceKeys())
 	}
 	if m.mode == modeEdit {
-		return " " + m.help.ShortHelpView(editHelp{&m.ui.keys}.ShortHelp()) +
+		return " " + m.help.ShortHelpView(m.ui.keys.editKeys()) +
 			m.ui.st.Muted.Render("  · ↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us")
 	}
 	return " " + m.help.ShortHelpView(m.ui.keys.ShortHelp())
 }
 
-// paneTitle draws a pane's heading across w cells: a light rule for a
+// paneHeading draws a pane's heading across w cells: a light rule for a
 // pane, a heavy one for the focused pane, so focus shows without colour.
-func (m *Model) paneTitle(text string, focused bool, w int) string {
-	st := &m.ui.st
+func paneHeading(st *Styles, text string, focused bool, w int) string {
 	rule, style := "─", st.PaneTitle
 	if focused {
 		rule, style = "━", st.PaneFocus

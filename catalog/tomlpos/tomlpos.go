@@ -7,7 +7,8 @@
 //
 //	document text ──► Scan ──► Index: "stage.1.signal.freq" → line 14, column 1
 //
-// Paths are the dotted keys as the decoder sees them, unquoted. The n-th
+// Paths are the dotted keys as the decoder sees them, unquoted (a quoted
+// key holding a dot cannot be named by a path; Line then finds its parent). The n-th
 // element (from 0) of an array of tables, or of an array value, is a
 // numbered segment: the second [[part]] is "part.1", its key slew.typ is
 // "part.1.slew.typ"; x = [{a = 1}] gives "x.0.a". The scanner never fails:
@@ -28,64 +29,142 @@ type Pos struct {
 	Offset int // byte offset of the key; of the opening '[' for a table header
 }
 
-// Span is a byte range [Start, End) of the document text.
-type Span struct{ Start, End int }
-
-// Index maps key paths to the place they are first written.
+// Index maps key paths to the place they are first written. It is a tree
+// of keys held in one slice (node 0 is the document), so indexing a
+// large catalog costs one small lookup per key.
 type Index struct {
-	pos    map[string]Pos
-	vals   map[string]Span     // where the value of each key path (and array element) is written
-	arrays map[string]int      // element count of each array of tables, by path
-	kids   map[string][]string // direct child keys of each table path, in file order
+	nodes []node
 }
+
+// node is one key, table or array element. Keys of a node form a list
+// (first, next); elements of an array are indexed.
+type node struct {
+	line, col, off int32 // the position; line 0 for the document itself
+	key            string
+	first, last    int32 // first and last child key (0: none)
+	next           int32 // next key of the same parent (0: none)
+	nkeys          int32
+	vstart, vend   int32            // the value's byte range; vend 0: not written as a value
+	elems          []int32          // elements of an array of tables or array value
+	byKey          map[string]int32 // keys by name, once there are many
+}
+
+// pos is the node's position.
+func (n *node) pos() Pos { return Pos{Line: int(n.line), Col: int(n.col), Offset: int(n.off)} }
+
+// manyKeys is the number of keys from which a node looks its keys up in
+// a map instead of by a scan.
+const manyKeys = 16
 
 // Scan reads a TOML document and indexes the position of every key.
 func Scan(text string) *Index {
-	s := &scanner{text: text, line: 1, ix: &Index{
-		pos:    map[string]Pos{},
-		vals:   map[string]Span{},
-		arrays: map[string]int{},
-		kids:   map[string][]string{},
-	}}
+	// Every key is followed by "=" or opens a header; arrays add their
+	// elements (a catalog's lists are short). A guess: append grows it.
+	n := 1 + strings.Count(text, "=") + 3*strings.Count(text, "[")
+	s := &scanner{text: text, line: 1, ix: &Index{nodes: make([]node, 1, n)}}
 	s.document()
 	return s.ix
 }
 
+// find returns the node at path, or as far along it as is written: the
+// node reached and whether it is the whole path.
+func (ix *Index) find(path string) (int32, bool) {
+	n := int32(0)
+	for path != "" {
+		seg, rest, _ := strings.Cut(path, ".")
+		next, ok := ix.child(n, seg)
+		if !ok {
+			if es := ix.nodes[n].elems; len(es) > 0 {
+				if i, err := strconv.Atoi(seg); err == nil && i >= 0 && i < len(es) {
+					next, ok = es[i], true
+				}
+			}
+		}
+		if !ok {
+			return n, false
+		}
+		n, path = next, rest
+	}
+	return n, true
+}
+
 // Pos returns the position of path, and whether it was written.
 func (ix *Index) Pos(path string) (Pos, bool) {
-	p, ok := ix.pos[path]
-	return p, ok
+	n, ok := ix.find(path)
+	if !ok || n == 0 {
+		return Pos{}, false
+	}
+	return ix.nodes[n].pos(), true
 }
+
+// Span is a byte range [Start, End) of the document text.
+type Span struct{ Start, End int }
 
 // Value returns the byte range of the value written for path (a key, an
 // inline table, an array or an element of one), and whether it was
 // written as a value; a [table] header has none. An editor replaces that
 // range to change a value and leaves the rest of the text as it was.
 func (ix *Index) Value(path string) (Span, bool) {
-	v, ok := ix.vals[path]
-	return v, ok
+	n, ok := ix.find(path)
+	if !ok || n == 0 || ix.nodes[n].vend == 0 {
+		return Span{}, false
+	}
+	return Span{int(ix.nodes[n].vstart), int(ix.nodes[n].vend)}, true
 }
 
 // Line returns the line of path, else of its nearest written parent, else 0.
 func (ix *Index) Line(path string) int {
-	for {
-		if p, ok := ix.pos[path]; ok {
-			return p.Line
-		}
-		i := strings.LastIndexByte(path, '.')
-		if i < 0 {
-			return 0
-		}
-		path = path[:i]
-	}
+	n, _ := ix.find(path)
+	return int(ix.nodes[n].line)
 }
 
-// Count returns how many [[path]] tables the document holds.
-func (ix *Index) Count(path string) int { return ix.arrays[path] }
+// Count returns how many elements the array (of tables, or a value) at
+// path holds: the number of [[path]] tables.
+func (ix *Index) Count(path string) int {
+	n, ok := ix.find(path)
+	if !ok {
+		return 0
+	}
+	return len(ix.nodes[n].elems)
+}
 
 // Keys returns the keys written directly under the table at path ("" is
-// the top level), in file order; array-of-tables elements are "0", "1", ….
-func (ix *Index) Keys(path string) []string { return ix.kids[path] }
+// the top level), in file order.
+func (ix *Index) Keys(path string) []string {
+	n, ok := ix.find(path)
+	if !ok {
+		return nil
+	}
+	out := make([]string, 0, ix.nodes[n].nkeys)
+	for k := ix.nodes[n].first; k != 0; k = ix.nodes[k].next {
+		out = append(out, ix.nodes[k].key)
+	}
+	return out
+}
+
+// Entry is a key and where it is first written.
+type Entry struct {
+	Key string
+	Pos Pos
+}
+
+// Elements calls fn for each element of the array at path, in order, with
+// its position and the keys written directly under it. keys is reused
+// between calls.
+func (ix *Index) Elements(path string, fn func(i int, at Pos, keys []Entry)) {
+	n, ok := ix.find(path)
+	if !ok {
+		return
+	}
+	var keys []Entry
+	for i, e := range ix.nodes[n].elems {
+		keys = keys[:0]
+		for k := ix.nodes[e].first; k != 0; k = ix.nodes[k].next {
+			keys = append(keys, Entry{ix.nodes[k].key, ix.nodes[k].pos()})
+		}
+		fn(i, ix.nodes[e].pos(), keys)
+	}
+}
 
 // Join appends key segments to a path.
 func Join(path string, keys ...string) string {
@@ -102,23 +181,80 @@ func Join(path string, keys ...string) string {
 // Element is the path of the i-th element (from 0) of the array at path.
 func Element(path string, i int) string { return Join(path, strconv.Itoa(i)) }
 
-// record keeps the first position of path and lists it under its parent.
-func (ix *Index) record(parent, key string, p Pos) string {
-	path := Join(parent, key)
-	if _, ok := ix.pos[path]; !ok {
-		ix.pos[path] = p
-		ix.kids[parent] = append(ix.kids[parent], key)
+// child finds the key of node n called key.
+func (ix *Index) child(n int32, key string) (int32, bool) {
+	nd := &ix.nodes[n]
+	if nd.byKey != nil {
+		k, ok := nd.byKey[key]
+		return k, ok
 	}
-	return path
+	for k := nd.first; k != 0; k = ix.nodes[k].next {
+		if ix.nodes[k].key == key {
+			return k, true
+		}
+	}
+	return 0, false
+}
+
+// add appends a node at p and returns it.
+func (ix *Index) add(key string, p Pos) int32 {
+	k := int32(len(ix.nodes))
+	ix.nodes = append(ix.nodes, node{line: int32(p.Line), col: int32(p.Col), off: int32(p.Offset), key: key})
+	return k
+}
+
+// record returns the key of node parent called key, adding it at p when
+// it is new (a key keeps its first position).
+func (ix *Index) record(parent int32, key string, p Pos) int32 {
+	if k, ok := ix.child(parent, key); ok {
+		return k
+	}
+	k := ix.add(key, p)
+	nd := &ix.nodes[parent]
+	if nd.first == 0 {
+		nd.first = k
+	} else {
+		ix.nodes[nd.last].next = k
+	}
+	nd.last = k
+	nd.nkeys++
+	switch {
+	case nd.byKey != nil:
+		nd.byKey[key] = k
+	case nd.nkeys > manyKeys:
+		nd.byKey = make(map[string]int32, 2*nd.nkeys)
+		for c := nd.first; c != 0; c = ix.nodes[c].next {
+			nd.byKey[ix.nodes[c].key] = c
+		}
+	}
+	return k
+}
+
+// element adds an element at p to the array at node parent.
+func (ix *Index) element(parent int32, p Pos) int32 {
+	e := ix.add("", p)
+	ix.nodes[parent].elems = append(ix.nodes[parent].elems, e)
+	return e
+}
+
+// last is the newest element of the array at node n; ok is false when n
+// is not an array.
+func (ix *Index) last(n int32) (int32, bool) {
+	es := ix.nodes[n].elems
+	if len(es) == 0 {
+		return 0, false
+	}
+	return es[len(es)-1], true
 }
 
 // scanner walks the text once, keeping the line count.
 type scanner struct {
 	text      string
-	i         int // byte offset of the next character
-	line      int // line of text[i]
-	lineStart int // byte offset where that line starts
-	table     string
+	i         int      // byte offset of the next character
+	line      int      // line of text[i]
+	lineStart int      // byte offset where that line starts
+	table     int32    // node of the current table
+	keys      []string // reused by key
 	ix        *Index
 }
 
@@ -224,21 +360,13 @@ func (s *scanner) header() {
 	if len(keys) == 0 {
 		return
 	}
-	path := ""
+	path := int32(0)
 	for j, k := range keys {
-		p := Join(path, k)
-		last := j == len(keys)-1
-		switch {
-		case last && array:
-			n := s.ix.arrays[p]
-			s.ix.arrays[p] = n + 1
-			s.ix.record(path, k, at)
-			p = s.ix.record(p, strconv.Itoa(n), at)
-		case s.ix.arrays[p] > 0:
-			s.ix.record(path, k, at)
-			p = Element(p, s.ix.arrays[p]-1)
-		default:
-			s.ix.record(path, k, at)
+		p := s.ix.record(path, k, at)
+		if j == len(keys)-1 && array {
+			p = s.ix.element(p, at)
+		} else if e, ok := s.ix.last(p); ok {
+			p = e // [a.b] after [[a]] is b of the newest a
 		}
 		path = p
 	}
@@ -248,7 +376,7 @@ func (s *scanner) header() {
 // keyval reads `key = value` under table; it records the key's segments
 // (a dotted key records each of them) and reads the value past any
 // strings, arrays and inline tables it holds.
-func (s *scanner) keyval(table string) {
+func (s *scanner) keyval(table int32) {
 	at := s.here()
 	keys := s.key()
 	if len(keys) == 0 {
@@ -269,7 +397,8 @@ func (s *scanner) keyval(table string) {
 
 // key reads a dotted key of bare and quoted segments.
 func (s *scanner) key() []string {
-	var keys []string
+	keys := s.keys[:0]
+	defer func() { s.keys = keys[:0] }()
 	for {
 		s.blank()
 		var k string
@@ -297,17 +426,17 @@ func (s *scanner) key() []string {
 }
 
 // value reads one value of the key at path and records where it is.
-func (s *scanner) value(path string) {
+func (s *scanner) value(path int32) {
 	start := s.i
 	s.valueBody(path)
-	if _, ok := s.ix.vals[path]; !ok && s.i > start {
-		s.ix.vals[path] = Span{start, s.i}
+	if nd := &s.ix.nodes[path]; nd.vend == 0 && s.i > start {
+		nd.vstart, nd.vend = int32(start), int32(s.i)
 	}
 }
 
 // valueBody reads the value itself: a string, an array, an inline table
 // or a bare word (number, boolean, date).
-func (s *scanner) valueBody(path string) {
+func (s *scanner) valueBody(path int32) {
 	switch c := s.peek(); c {
 	case '"':
 		if strings.HasPrefix(s.text[s.i:], `"""`) {
@@ -338,9 +467,9 @@ func (s *scanner) valueBody(path string) {
 
 // array reads [v, v, …] over any number of lines; inline tables in it are
 // indexed as numbered elements of path.
-func (s *scanner) array(path string) {
+func (s *scanner) array(path int32) {
 	s.i++
-	for n := 0; ; n++ {
+	for {
 		s.space()
 		if s.eof() {
 			return
@@ -350,12 +479,8 @@ func (s *scanner) array(path string) {
 			return
 		}
 		start := s.i
-		if s.peek() == '{' {
-			el := s.ix.record(path, strconv.Itoa(n), s.here())
-			s.value(el)
-		} else {
-			s.value(Element(path, n))
-		}
+		el := s.ix.element(path, s.here())
+		s.value(el)
 		s.space()
 		switch s.peek() {
 		case ',':
@@ -372,7 +497,7 @@ func (s *scanner) array(path string) {
 // inline reads { k = v, … }; an inline table belongs on one line, but a
 // newline inside one is skipped like a space so a broken file cannot
 // stall the scan.
-func (s *scanner) inline(path string) {
+func (s *scanner) inline(path int32) {
 	s.i++
 	for {
 		s.space()
@@ -398,7 +523,19 @@ func (s *scanner) inline(path string) {
 // decoded, so a quoted key matches the decoder's key.
 func (s *scanner) basic() string {
 	s.i++
+	start := s.i
+	for !s.eof() && s.peek() != '"' && s.peek() != '\\' && s.peek() != '\n' {
+		s.i++
+	}
+	if s.peek() != '\\' { // no escapes: the text as written
+		text := s.text[start:s.i]
+		if s.peek() == '"' {
+			s.i++
+		}
+		return text
+	}
 	var b strings.Builder
+	b.WriteString(s.text[start:s.i])
 	for !s.eof() {
 		c := s.peek()
 		switch c {

@@ -1,29 +1,14 @@
 package main
 
 import (
-	"flag"
-	"os"
 	"path/filepath"
 	"testing"
+
+	"github.com/opsift/opsift/internal/golden"
 )
 
-// update rewrites the golden files instead of comparing with them.
-var update = flag.Bool("update", false, "rewrite golden files")
-
-// assertGolden compares got with testdata/name, rewriting it under -update.
+// assertGolden compares got with testdata/name; go test -update rewrites it.
 func assertGolden(t *testing.T, name, got string) {
 	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
+	golden.Check(t, filepath.Join("testdata", name), []byte(got))
 }

@@ -143,7 +143,8 @@ func previewCheckStage(plan *filter.Plan, name string) error {
 	return fmt.Errorf("--stage %q: no such stage, %s", name, want)
 }
 
-// previewMetricsJSON are the metrics of the contract, those that apply.
+// previewMetricsJSON are the metrics of the contract, those that apply: the
+// one home of their JSON names (sim.Metrics has none).
 type previewMetricsJSON struct {
 	OutputPP        float64  `json:"output_pp"`
 	IdealPP         float64  `json:"ideal_pp"`

@@ -3,6 +3,8 @@ package circuit
 import (
 	"math"
 	"testing"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // assertRel fails unless got is within rel (a fraction) of want.

@@ -9,6 +9,8 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // demoPart returns a part of the embedded demo catalog.

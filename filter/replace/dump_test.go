@@ -1,9 +1,8 @@
 package replace
 
 import (
-	"flag"
 	"fmt"
-	"os"
+	"github.com/opsift/opsift/internal/golden"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -45,8 +44,6 @@ func marginStr(d *Fit) string {
 	return fmt.Sprintf("%.4f", d.WorstMargin.V)
 }
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
 // TestGolden pins the whole Result for the test catalog, with and without
 // the 12 V design. Review a change with -update and the diff.
 func TestGolden(t *testing.T) {
@@ -67,18 +64,7 @@ func TestGolden(t *testing.T) {
 			}
 			got := dump(Find(orig, parts, tt.opts()))
 			path := filepath.Join("testdata", "find_"+tt.name+".golden")
-			if *update {
-				if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-					t.Fatal(err)
-				}
-			}
-			want, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run with -update to create)", err)
-			}
-			if got != string(want) {
-				t.Errorf("%s differs from the golden file; run go test -update and review the diff\n%s", path, got)
-			}
+			golden.Check(t, path, []byte(got))
 		})
 	}
 }

@@ -194,16 +194,6 @@ var fieldDefs = [...]def{
 	{"cload", "largest capacitive load", catalog.Farad, Higher, tolRel, false, rating(func(p *catalog.Part) catalog.Opt { return p.CLoad })},
 }
 
-// Keys returns the keys of the compared fields in the order Compare lists
-// them.
-func Keys() []string {
-	keys := make([]string, len(fieldDefs))
-	for i, d := range fieldDefs {
-		keys[i] = d.key
-	}
-	return keys
-}
-
 // level is one level of assurance of a figure, best first.
 type level struct {
 	v     catalog.Opt

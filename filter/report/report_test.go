@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
-	"flag"
 	"os"
 	"path/filepath"
 	"slices"
@@ -15,26 +14,13 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/report"
+	"github.com/opsift/opsift/internal/golden"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
-func golden(t *testing.T, name string, got []byte) {
+// checkGolden compares got with testdata/name; go test -update rewrites it.
+func checkGolden(t *testing.T, name string, got []byte) {
 	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs from the golden file:\n--- got\n%s\n--- want\n%s", name, got, want)
-	}
+	golden.Check(t, filepath.Join("testdata", name), got)
 }
 
 // fixture ranks the test catalog on a test design.
@@ -99,7 +85,7 @@ func TestGolden(t *testing.T) {
 			if err := report.Write(&b, tc.format, doc); err != nil {
 				t.Fatal(err)
 			}
-			golden(t, tc.name, b.Bytes())
+			checkGolden(t, tc.name, b.Bytes())
 		})
 	}
 	for _, f := range []string{"text", "json"} {
@@ -111,7 +97,7 @@ func TestGolden(t *testing.T) {
 				if err := report.WriteDerive(&b, f, p, testMeta(design)); err != nil {
 					t.Fatal(err)
 				}
-				golden(t, name, b.Bytes())
+				checkGolden(t, name, b.Bytes())
 			})
 		}
 	}
@@ -213,14 +199,9 @@ func TestTOMLRoundTrip(t *testing.T) {
 	if err := report.WriteTOML(&b, doc); err != nil {
 		t.Fatal(err)
 	}
-	parts, err := catalog.Decode("export.toml", b.Bytes())
+	parts, err := catalog.Decode("export.toml", b.Bytes()) // Decode validates every part
 	if err != nil {
-		t.Fatalf("export does not decode: %v", err)
-	}
-	for _, part := range parts {
-		if probs := catalog.Validate(part); len(probs) > 0 {
-			t.Errorf("export part %s: %v", part.ID, probs)
-		}
+		t.Fatalf("export does not decode to valid parts: %v", err)
 	}
 	again := filter.Evaluate(p, parts, filter.Options{})
 	filter.Rank(again, filter.SortMargin)

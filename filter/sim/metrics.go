@@ -6,42 +6,43 @@ import (
 )
 
 // Metrics are measured over the settled window, whole periods. All values
-// are SI (V, s, Hz) or plain fractions. Pointer fields are nil, and left
-// out of JSON, where they do not apply.
+// are SI (V, s, Hz) or plain fractions. Pointer fields are nil where they
+// do not apply. The JSON names belong to the front end that writes them
+// (opsift preview's previewMetricsJSON).
 type Metrics struct {
 	// OutputPP and IdealPP are the peak-to-peak output and ideal output, V.
-	OutputPP float64 `json:"output_pp"`
-	IdealPP  float64 `json:"ideal_pp"`
+	OutputPP float64
+	IdealPP  float64
 	// PeakError is the largest |output − ideal| over the window, V
 	// (amplifiers and filters).
-	PeakError *float64 `json:"peak_error,omitempty"`
+	PeakError *float64
 	// THD is the RMS sum of harmonics 2…10 over the fundamental, from a
 	// DFT of the window (amplifiers and filters with a sine input).
-	THD *float64 `json:"thd,omitempty"`
+	THD *float64
 	// SlewingFraction is the fraction of the window the output spent
 	// slew-limited.
-	SlewingFraction float64 `json:"slewing_fraction"`
+	SlewingFraction float64
 	// Frequency, IdealFrequency (Hz) and Duty (fraction of the period the
 	// output is above mid-swing) describe an oscillator.
-	Frequency      *float64 `json:"frequency,omitempty"`
-	IdealFrequency *float64 `json:"ideal_frequency,omitempty"`
-	Duty           *float64 `json:"duty,omitempty"`
+	Frequency      *float64
+	IdealFrequency *float64
+	Duty           *float64
 	// TransitionTime is the slowest 10–90 % output edge in the window, s
 	// (comparators, and square or step inputs).
-	TransitionTime *float64 `json:"transition_time,omitempty"`
+	TransitionTime *float64
 	// InputLow and InputHigh are the lowest and highest voltages seen on
 	// either input pin, V.
-	InputLow  float64 `json:"input_low"`
-	InputHigh float64 `json:"input_high"`
+	InputLow  float64
+	InputHigh float64
 	// CMExceeded is set when an input pin leaves the amp's common-mode
 	// range; Notes says by how much.
-	CMExceeded bool `json:"cm_exceeded,omitempty"`
+	CMExceeded bool
 	// Clipped is set when an amplifier or filter output sat on a swing
 	// limit during the window.
-	Clipped bool `json:"clipped,omitempty"`
+	Clipped bool
 	// Notes are messages for the user: clipping, common-mode excursions,
 	// an output that has not settled, an oscillator that does not start.
-	Notes []string `json:"notes,omitempty"`
+	Notes []string
 }
 
 func ptr(v float64) *float64 { return &v }

@@ -4,8 +4,8 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
-	"flag"
 	"fmt"
+	"github.com/opsift/opsift/internal/golden"
 	"math"
 	"os"
 	"os/exec"
@@ -14,8 +14,6 @@ import (
 	"testing"
 	"time"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files")
 
 // Agreement wanted between the Go model and ngspice running the same
 // macromodel, and the drift allowed between the stored ngspice results and
@@ -100,7 +98,7 @@ func initialState(t *testing.T, c Circuit, a Amp, in Input) vec {
 func TestNgspice(t *testing.T) {
 	_, errLook := exec.LookPath("ngspice")
 	live := errLook == nil
-	if *update && !live {
+	if golden.Update() && !live {
 		t.Fatal("-update needs ngspice on PATH")
 	}
 	dir := filepath.Join("testdata", "ngspice")
@@ -114,7 +112,7 @@ func TestNgspice(t *testing.T) {
 			cirPath := filepath.Join(dir, tc.name+".cir")
 			resPath := filepath.Join(dir, tc.name+".json")
 			var stored spiceStored
-			if !*update {
+			if !golden.Update() {
 				old, err := os.ReadFile(cirPath)
 				if err != nil {
 					t.Fatalf("%v (run go test -update with ngspice installed)", err)
@@ -135,7 +133,7 @@ func TestNgspice(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
-				if *update {
+				if golden.Update() {
 					stored = spiceStored{Case: tc.name, Simulator: sim, Measured: got}
 					writeStored(t, cirPath, resPath, deck.text, stored)
 				} else {

@@ -1,34 +1,20 @@
 package plot
 
 import (
-	"flag"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/internal/golden"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
-// golden compares got with testdata/name, rewriting it under -update.
-func golden(t *testing.T, name, got string) {
+// checkGolden compares got (and a final newline) with testdata/name; go
+// test -update rewrites it.
+func checkGolden(t *testing.T, name, got string) {
 	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got+"\n"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got+"\n" != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it; review the diff):\n%s", path, got)
-	}
+	golden.Check(t, filepath.Join("testdata", name), []byte(got+"\n"))
 }
 
 // waves are two periods of a 20 kHz, 5 V sine about 6 V (the ideal) and
@@ -77,7 +63,7 @@ func TestGolden(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			got := Render(tc.width, tc.height, tc.series, opts)
 			checkBlock(t, got, tc.width, tc.height)
-			golden(t, tc.name+".golden", got)
+			checkGolden(t, tc.name+".golden", got)
 		})
 	}
 }

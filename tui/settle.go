@@ -1,0 +1,25 @@
+package tui
+
+// settle readies the panes for drawing; the root Update calls it after
+// every message, and New once. It fills in the checks of the candidate
+// rows on screen and of the selected part (the ranking keeps summaries
+// only), keeps every pane's scroll offset inside what it shows, and sizes
+// the text inputs. View only reads what settle leaves, so drawing never
+// changes the model.
+func (m *Model) settle() {
+	if m.ui.tooSmall() {
+		return
+	}
+	l := m.ui.layout()
+	m.list.explainVisible(&m.rank, listRowsIn(l.list.h))
+	m.checks.follow(m.list.selected(m.rank.results), l.detail.w, l.detail.h)
+	if !l.stacked || m.focus == paneDesign {
+		m.form.settle(m.rank.plan, m.design, l.design.w, l.design.h)
+	}
+	switch m.mode {
+	case modeReplace:
+		m.repl.settle(m.ui.width, m.ui.height-3)
+	case modePrompt:
+		m.prompt.settle(m.marks.len(), m.ui.width)
+	}
+}
