@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"github.com/BurntSushi/toml"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // SyntaxError is a catalog file that is not valid TOML. The problem that
@@ -31,17 +33,52 @@ func (e *SyntaxError) Unwrap() error { return e.Err }
 // found as a Problems error. Parts with a problem are left out. A part
 // that gives no lifecycle is active.
 func Decode(file string, data []byte) ([]*Part, error) {
-	parts, probs := decodeFile(file, data)
+	parts, probs, _ := decodeFile(file, data)
 	parts, dups := dropDuplicates(parts, map[string]*Part{})
 	probs = append(probs, dups...)
 	sortProblems(probs)
 	return parts, probs.asError()
 }
 
-// decodeFile decodes and validates one file; duplicate ids are left to the
-// caller, which knows the extent of the source.
-func decodeFile(file string, data []byte) ([]*Part, Problems) {
+// MaxProblems is the most problems kept for one file; past it a last
+// problem counts the rest, so a hostile file cannot flood the terminal.
+const MaxProblems = 50
+
+// UnlistedError is the last problem of a file with more than MaxProblems:
+// how many more there are.
+type UnlistedError struct{ N int }
+
+// Error says how many problems are not listed.
+func (e *UnlistedError) Error() string {
+	return fmt.Sprintf("%d more problems in this file not shown (at most %d are listed per file)", e.N, MaxProblems)
+}
+
+// Count is the number of problems ps stands for: each listed one, plus
+// those an UnlistedError counts.
+func (ps Problems) Count() int {
+	n := 0
+	for _, p := range ps {
+		var u *UnlistedError
+		if errors.As(p.Err, &u) {
+			n += u.N
+			continue
+		}
+		n++
+	}
+	return n
+}
+
+// decodeFile decodes and validates one file, returning its valid parts,
+// its problems (at most MaxProblems and a count of the rest) and the
+// number of parts left out; duplicate ids are left to the caller, which
+// knows the extent of the source.
+func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 	text := string(data)
+	if err := Prescan(text); err != nil {
+		var le *LimitError
+		errors.As(err, &le)
+		return nil, Problems{{Pos: Pos{file, le.Line}, Err: err}}, 0
+	}
 	lines := scanLines(text)
 	doc, err := decodeTOML(text, lines)
 	if err != nil {
@@ -53,9 +90,9 @@ func decodeFile(file string, data []byte) ([]*Part, Problems) {
 				// newline as the next one; the byte offset is exact.
 				line = 1 + strings.Count(text[:st], "\n")
 			}
-			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}
+			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0
 		}
-		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}
+		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0
 	}
 	var probs Problems
 	for _, k := range sortedKeys(doc) {
@@ -69,6 +106,12 @@ func decodeFile(file string, data []byte) ([]*Part, Problems) {
 		probs = append(probs, Problem{Pos: Pos{file, lines.top["part"]}, Err: err})
 	}
 	parts := make([]*Part, 0, len(tables))
+	more := 0
+	keep := func(ps Problems) {
+		n := min(len(ps), max(MaxProblems-len(probs), 0))
+		probs = append(probs, ps[:n]...)
+		more += len(ps) - n
+	}
 	for i, t := range tables {
 		pl := partLines{line: lines.top["part"], keys: map[string]int{}}
 		if len(lines.parts) == len(tables) {
@@ -76,15 +119,18 @@ func decodeFile(file string, data []byte) ([]*Part, Problems) {
 		}
 		d := partDecoder{file: file, index: i + 1, bad: map[string]bool{}}
 		p := d.decode(t, pl)
-		probs = append(probs, d.probs...)
+		keep(d.probs)
 		vp := validate(p, i+1, d.bad)
-		probs = append(probs, vp...)
+		keep(vp)
 		if len(d.probs) == 0 && len(vp) == 0 {
 			parts = append(parts, p)
 		}
 	}
 	sortProblems(probs)
-	return parts, probs
+	if more > 0 {
+		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex, Err: &UnlistedError{N: more}})
+	}
+	return parts, probs, len(tables) - len(parts)
 }
 
 // partTables returns the tables of the "part" array.
@@ -119,7 +165,7 @@ func dropDuplicates(parts []*Part, seen map[string]*Part) ([]*Part, Problems) {
 	for _, p := range parts {
 		if first, ok := seen[p.ID]; ok {
 			probs = append(probs, Problem{Pos: Pos{p.Pos.File, p.Line("id")}, Part: p.ID, Field: "id",
-				Err: fmt.Errorf("duplicate id %q, first given at %s:%d", p.ID, first.Pos.File, first.Pos.Line)})
+				Err: fmt.Errorf("duplicate id %q, first given at %s:%d", p.ID, safe.Text(first.Pos.File), first.Pos.Line)})
 			continue
 		}
 		seen[p.ID] = p

@@ -7,6 +7,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Encode writes parts as a catalog file that Decode reads back to the same
@@ -219,7 +221,9 @@ func quoteTOML(s string) string {
 			b.WriteString(`\t`)
 		case r == '\r':
 			b.WriteString(`\r`)
-		case r < 0x20 || r == 0x7f:
+		case safe.Unsafe(r):
+			// Controls, C1, bidi and zero-width characters are written as
+			// escapes: the file decodes to the same text but shows none.
 			fmt.Fprintf(&b, `\u%04X`, r)
 		case r == 0xFFFD:
 			// Invalid UTF-8 decodes to U+FFFD; TOML files must be UTF-8.

@@ -8,7 +8,7 @@ var partKeys = []string{
 	"id", "name", "tech", "channels", "packages", "pinout", "lifecycle", "unit_cost", "temp",
 	"supply", "input_cm", "output",
 	"gbw", "slew", "aol", "vos", "vos_drift", "ib", "ios", "en", "in", "iq", "iout",
-	"vdiff_max", "cload", "cin", "datasheet", "notes",
+	"vdiff_max", "cload", "cin", "en_corner", "in_corner", "datasheet", "notes",
 }
 
 // specKeys are the keys of a figure's inline table.
@@ -69,6 +69,8 @@ var scalars = []scalar{
 	{"vdiff_max", Volt, func(p *Part) *Opt { return &p.VdiffMax }},
 	{"cload", Farad, func(p *Part) *Opt { return &p.CLoad }},
 	{"cin", Farad, func(p *Part) *Opt { return &p.Cin }},
+	{"en_corner", Hertz, func(p *Part) *Opt { return &p.EnCorner }},
+	{"in_corner", Hertz, func(p *Part) *Opt { return &p.InCorner }},
 }
 
 // Known enumerations, for validation and suggestions.

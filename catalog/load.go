@@ -10,6 +10,8 @@ import (
 	"path"
 	"path/filepath"
 	"strings"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Layer is one source of parts in a layered catalog: an OS path (a *.toml file, or a
@@ -84,14 +86,14 @@ func Load(srcs ...Layer) (*Catalog, error) {
 	var probs Problems
 	where := map[string]string{} // id → "file:line" of the part in use
 	for _, src := range srcs {
-		c.Sources = append(c.Sources, src.Name)
+		c.Sources = append(c.Sources, safe.Text(src.Name))
 		files, err := src.files()
 		if err != nil {
 			probs = append(probs, Problem{Pos: Pos{File: src.display("")}, Err: err})
 			continue
 		}
 		if len(files) == 0 {
-			c.Notes = append(c.Notes, fmt.Sprintf("%s holds no *.toml files", src.Name))
+			c.Notes = append(c.Notes, fmt.Sprintf("%s holds no *.toml files", safe.Text(src.Name)))
 		}
 		seen := map[string]*Part{}
 		for _, f := range files {
@@ -101,8 +103,8 @@ func Load(srcs ...Layer) (*Catalog, error) {
 				continue
 			}
 			c.Files++
-			parts, fp := decodeFile(src.display(f), data)
-			c.Invalid += countParts(fp)
+			parts, fp, invalid := decodeFile(src.display(f), data)
+			c.Invalid += invalid
 			parts, dups := dropDuplicates(parts, seen)
 			c.Invalid += len(dups)
 			sum := sha256.Sum256(data)
@@ -114,7 +116,7 @@ func Load(srcs ...Layer) (*Catalog, error) {
 				at := fmt.Sprintf("%s:%d", p.Pos.File, p.Pos.Line)
 				if old, ok := c.byID[p.ID]; ok {
 					c.Overrides++
-					c.Notes = append(c.Notes, fmt.Sprintf("part %q from %s overrides %s", p.ID, at, where[p.ID]))
+					c.Notes = append(c.Notes, fmt.Sprintf("part %q from %s overrides %s", p.ID, safe.Text(at), safe.Text(where[p.ID])))
 					*old = *p // keep the part's place in Parts
 					where[p.ID] = at
 					continue
@@ -127,17 +129,6 @@ func Load(srcs ...Layer) (*Catalog, error) {
 	}
 	c.count()
 	return c, probs.asError()
-}
-
-// countParts counts the distinct parts a file's problems are about.
-func countParts(ps Problems) int {
-	seen := map[int]bool{}
-	for _, p := range ps {
-		if p.Index > 0 {
-			seen[p.Index] = true
-		}
-	}
-	return len(seen)
 }
 
 // count fills the figure counts from the final parts.
@@ -162,7 +153,9 @@ func (c *Catalog) count() {
 	}
 }
 
-// files lists the catalog files of the source, sorted by name. Names
+// files lists the catalog files of the source, sorted by name: every
+// entry but a directory whose name ends in ".toml" in any case (a FIFO or
+// device so named is listed, and read refuses it with a problem). Names
 // starting with "." (editor backups, hidden files) are skipped.
 func (s Layer) files() ([]string, error) {
 	var entries []fs.DirEntry
@@ -185,12 +178,18 @@ func (s Layer) files() ([]string, error) {
 	var names []string
 	for _, e := range entries {
 		n := e.Name()
-		if e.IsDir() || strings.HasPrefix(n, ".") || !strings.HasSuffix(n, ".toml") {
+		if e.IsDir() || strings.HasPrefix(n, ".") || !IsCatalogName(n) {
 			continue
 		}
 		names = append(names, n)
 	}
 	return names, nil // ReadDir sorts by name
+}
+
+// IsCatalogName reports whether a directory entry named n is read as a
+// catalog file: its name ends in ".toml", in any case ("A.TOML" too).
+func IsCatalogName(n string) bool {
+	return len(n) > len(".toml") && strings.EqualFold(n[len(n)-len(".toml"):], ".toml")
 }
 
 // read returns the contents of one of the source's files ("" is the
@@ -200,14 +199,14 @@ func (s Layer) read(name string) ([]byte, error) {
 	var err error
 	switch {
 	case s.FS != nil:
-		data, err = fs.ReadFile(s.FS, name)
+		data, err = readFS(s.FS, name)
 	case name == "":
-		data, err = os.ReadFile(s.Path)
+		data, err = ReadFile(s.Path)
 	default:
-		data, err = os.ReadFile(filepath.Join(s.Path, name))
+		data, err = ReadFile(filepath.Join(s.Path, name))
 	}
 	if err != nil {
-		return nil, fmt.Errorf("cannot read catalog file: %w", plainErr(err))
+		return nil, fmt.Errorf("cannot read catalog file: %w", err)
 	}
 	return data, nil
 }

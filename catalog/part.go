@@ -131,6 +131,8 @@ type Part struct {
 	VdiffMax Opt // V, largest allowed differential input
 	CLoad    Opt // F, largest capacitive load it is stable with
 	Cin      Opt // F, input capacitance (common-mode + differential)
+	EnCorner Opt // Hz, 1/f corner of the voltage noise density en (optional)
+	InCorner Opt // Hz, 1/f corner of the current noise density in (optional)
 
 	Datasheet string
 	Notes     string

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"slices"
 	"strings"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // Problem is one thing wrong with a catalog: where it is, which part and
@@ -14,9 +16,11 @@ import (
 //
 // leaving out whatever is not known.
 type Problem struct {
-	Pos   Pos
-	Part  string // the part's id; "" when the part has none (see Index)
-	Index int    // 1-based number of the [[part]] table in its file; 0 when not about one part
+	Pos  Pos
+	Part string // the part's id; "" when the part has none (see Index)
+	// Index is the 1-based number of the [[part]] table in its file; 0 when
+	// not about one part, -1 for the UnlistedError that ends a long list.
+	Index int
 	Field string // top-level key of the part, e.g. "slew"; "" for the part or file as a whole
 	Err   error
 }
@@ -42,7 +46,7 @@ func (p Problem) Error() string {
 func Located(pos Pos, subject, field string, err error) string {
 	var b strings.Builder
 	if pos.File != "" {
-		b.WriteString(pos.File)
+		b.WriteString(safe.Text(pos.File))
 		if pos.Line > 0 {
 			fmt.Fprintf(&b, ":%d", pos.Line)
 		}
@@ -89,11 +93,22 @@ func (ps Problems) Unwrap() []error {
 	return errs
 }
 
+// summaryIndex marks the problem that counts those left unlisted; it
+// sorts last.
+const summaryIndex = -1
+
 // sortProblems orders the problems of one file by line and part number,
 // keeping the order they were found in otherwise.
 func sortProblems(ps Problems) {
+	last := func(p Problem) int {
+		if p.Index == summaryIndex {
+			return 1
+		}
+		return 0
+	}
 	slices.SortStableFunc(ps, func(a, b Problem) int {
 		return cmp.Or(
+			cmp.Compare(last(a), last(b)),
 			cmp.Compare(a.Pos.Line, b.Pos.Line),
 			cmp.Compare(a.Index, b.Index),
 		)

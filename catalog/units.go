@@ -76,7 +76,7 @@ var prefixes = map[string]float64{
 // baseUnits maps every accepted spelling of a prefix-free unit to its dimension.
 var baseUnits = map[string]Dim{
 	"V": Volt, "A": Ampere, "Hz": Hertz, "s": Second, "F": Farad,
-	"Ohm": Ohm, "ohm": Ohm, "Ω": Ohm, "Ohms": Ohm, "ohms": Ohm,
+	"Ohm": Ohm, "ohm": Ohm, "Ω": Ohm, "\u2126": Ohm, "Ohms": Ohm, "ohms": Ohm, // U+2126 is the OHM SIGN
 }
 
 // UnitError is returned by Parse: it keeps the offending text and the

@@ -19,6 +19,7 @@ const absoluteZero = -273.15
 // fields in skip (they already have a decode problem).
 func validate(p *Part, index int, skip map[string]bool) Problems {
 	c := checker{p: p, index: index, skip: skip}
+	c.text()
 	c.identity()
 	c.ranges()
 	for _, f := range figures {
@@ -29,6 +30,7 @@ func validate(p *Part, index int, skip map[string]bool) Problems {
 			c.add(s.key, "%s is not positive", Format(o.V, s.dim))
 		}
 	}
+	c.plausibility()
 	return c.probs
 }
 

@@ -29,9 +29,9 @@ var Catalog fs.FS = sub("catalog")
 var Designs fs.FS = sub("designs")
 
 // DefaultDesign is the file name, within Designs, of the design used when
-// no --design is given: a 12 V single-supply chain in which the
+// no --design is given: a ±5 V vibration monitor in which the
 // pin-compatible slow bipolar quad fails on slew rate.
-const DefaultDesign = "signal-chain-12v.toml"
+const DefaultDesign = "vibration-monitor-5v.toml"
 
 // sub roots the embedded files at dir. dir is a constant known to exist in
 // the embed pattern, so an error is a build defect, not bad input.

@@ -10,6 +10,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/catalog/tomlpos"
 )
 
@@ -22,11 +23,19 @@ import (
 // problems the first in file order is returned. Semantic checks that need
 // the whole design (V+ above V−, a sine needs a frequency) happen in Derive.
 func DecodeDesign(name string, data []byte) (*Design, error) {
+	if err := catalog.Prescan(string(data)); err != nil {
+		e := &Error{File: name, Err: err}
+		var le *catalog.LimitError
+		if errors.As(err, &le) {
+			e.Line = le.Line
+		}
+		return nil, e
+	}
 	var raw map[string]any
 	if _, err := toml.Decode(string(data), &raw); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, &Error{File: name, Line: pe.Position.Line, Err: &catalog.SyntaxError{Msg: pe.Message, Err: err}}
+			return nil, &Error{File: name, Line: pe.Position.Line, Err: &catalog.SyntaxError{Msg: safe.Text(pe.Message), Err: err}}
 		}
 		return nil, &Error{File: name, Err: err}
 	}

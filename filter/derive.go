@@ -1,6 +1,7 @@
 package filter
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -21,7 +22,9 @@ func Derive(d *Design) (*Plan, error) {
 	if err := p.deriveEnvironment(d); err != nil {
 		return nil, err
 	}
-	p.deriveFilters(d)
+	if err := p.deriveFilters(d); err != nil {
+		return nil, err
+	}
 	seen := map[string]bool{}
 	for _, s := range d.Stages {
 		if seen[s.Name] {
@@ -35,6 +38,13 @@ func Derive(d *Design) (*Plan, error) {
 		sp, err := t.Derive(NewStageInput(s, t), p)
 		if err != nil {
 			return nil, inStage(d.file(), s, err)
+		}
+		// Templates with a narrower rule for ref (rail splitter, astable)
+		// have reported it above; this catches a ref off the supply in any.
+		if v, ok := s.Values["ref"]; ok && v.Set && (v.V < p.Rails.Neg || v.V > p.Rails.Pos) {
+			return nil, &Error{File: d.file(), Line: cmp.Or(v.Line, s.Line), Stage: s.Name, Field: "ref",
+				Err: fmt.Errorf("%s is outside the rails %s … %s, want a reference inside the supply",
+					catalog.Format(v.V, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))}
 		}
 		sp.Stage, sp.Name, sp.Kind = s, s.Name, s.Kind
 		for i := range sp.Requirements {
@@ -90,7 +100,7 @@ func (p *Plan) deriveSupply(d *Design) error {
 		return d.errAt(s.Tolerance.Line, "supply.tolerance", "%q is out of range, want a ratio from 0 %% to 50 %% such as \"5 %%\"", s.Tolerance.Raw)
 	}
 	r := Rails{Pos: s.Pos.V, Neg: neg, Tol: tol, Span: s.Pos.V - neg}
-	r.PosWorst, r.NegWorst = s.Pos.V*(1-tol), neg*(1-tol)
+	r.PosWorst, r.NegWorst = RailsInward(s.Pos.V, neg, tol)
 	r.SpanMin, r.SpanMax = r.Span*(1-tol), r.Span*(1+tol)
 	p.Rails = r
 	why := fmt.Sprintf("span %s × (1 ∓ %s) = %s … %s",
@@ -132,11 +142,27 @@ func (p *Plan) deriveEnvironment(d *Design) error {
 		}
 		p.InflateTyp = v.V
 	}
+	p.SpeedTempco, p.IbColdTempco = DefaultSpeedTempco, DefaultIbColdTempco
+	if v := d.Policy.SpeedTempco; v.Set {
+		if v.V < 0 || v.V > 0.01 {
+			return d.errAt(v.Line, "policy.speed_tempco", "%q is out of range, want a fraction per kelvin from 0 to 0.01 such as \"0.002\"", v.Raw)
+		}
+		p.SpeedTempco = v.V
+	}
+	if v := d.Policy.IbColdTempco; v.Set {
+		if v.V < 0 || v.V > 0.1 {
+			return d.errAt(v.Line, "policy.ib_cold_tempco", "%q is out of range, want a fraction per kelvin from 0 to 0.1 such as \"0.0125\"", v.Raw)
+		}
+		p.IbColdTempco = v.V
+	}
 	return nil
 }
 
-func (p *Plan) deriveFilters(d *Design) {
+func (p *Plan) deriveFilters(d *Design) error {
 	c := d.Choose
+	if v := c.MaxUnitCost; v.Set && (v.V < 0 || v.V > MaxUnitCost) {
+		return d.errAt(v.Line, "choose.max_unit_cost", "%q is out of range, want a budget from 0 to %g", v.Raw, float64(MaxUnitCost))
+	}
 	life := c.Lifecycle.List()
 	why := "lifecycle is one of " + strings.Join(life, ", ")
 	if len(life) == 0 {
@@ -156,12 +182,20 @@ func (p *Plan) deriveFilters(d *Design) {
 		p.Global = append(p.Global, Requirement{Key: KeyCost, Bound: BoundHard, Value: v.V,
 			Why: "unit cost ≤ " + catalog.Format(v.V, catalog.Dimensionless)})
 	}
+	return nil
 }
 
-// gbwFactor is 1/√(1/(1−ε)² − 1): the loop gain a single-pole amplifier
-// needs at the signal frequency, per unit of NG·f, for a gain error of ε.
-// The closed-loop magnitude is 1/√(1 + (f·NG/GBW)²) of the ideal, so an
-// error ε needs GBW ≥ NG·f/√(1/(1−ε)² − 1) (≈ 7.02 at 1 %).
-func gbwFactor(eps float64) float64 {
-	return 1 / math.Sqrt(1/((1-eps)*(1-eps))-1)
+// MaxUnitCost is the largest choose.max_unit_cost accepted, the same as
+// the largest unit_cost a catalog part may give.
+const MaxUnitCost = 1e6
+
+// RailsInward returns the rails at their tolerance extreme for headroom
+// checks: each moves by tol × its own magnitude toward the other rail, so
+// the span between them shrinks. With 0 V between the rails (a bipolar or a
+// single supply) that is "toward 0 V", the wording of DESIGN.md; with both
+// rails on one side of 0 V the rail nearer 0 moves away from it (V+ 12 V,
+// V− 2 V, 10 %: 10.8 V and 2.2 V), because moving it toward 0 V would widen
+// the headroom the check is meant to take away.
+func RailsInward(pos, neg, tol float64) (posWorst, negWorst float64) {
+	return pos - tol*math.Abs(pos), neg + tol*math.Abs(neg)
 }

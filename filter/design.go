@@ -43,6 +43,12 @@ type Choose struct {
 type Policy struct {
 	DerateTyp  Value // bigger-is-better figure known only as typical: × this
 	InflateTyp Value // smaller-is-better figure known only as typical: × this
+	// SpeedTempco lowers 25 °C GBW and slew figures by this fraction per
+	// kelvin away from 25 °C.
+	SpeedTempco Value
+	// IbColdTempco raises 25 °C bipolar Ib and Ios figures by this
+	// fraction per kelvin below 25 °C.
+	IbColdTempco Value
 }
 
 // Stage is one [[stage]] of a design: a name, a template kind and the
@@ -121,6 +127,12 @@ func (d *Design) designParams() []designParam {
 		{Param{Key: "policy.inflate_typ", Label: "typical inflation", Kind: Quantity, Dim: catalog.Dimensionless,
 			Default: fmt.Sprint(DefaultInflateTyp),
 			Help:    "smaller-is-better figure known only as typical is multiplied by this"}, &d.Policy.InflateTyp},
+		{Param{Key: "policy.speed_tempco", Label: "GBW/slew loss /K", Kind: Quantity, Dim: catalog.Dimensionless,
+			Default: fmt.Sprint(DefaultSpeedTempco),
+			Help:    "a 25 °C GBW or slew figure is lowered by this fraction per K away from 25 °C"}, &d.Policy.SpeedTempco},
+		{Param{Key: "policy.ib_cold_tempco", Label: "bipolar Ib cold/K", Kind: Quantity, Dim: catalog.Dimensionless,
+			Default: fmt.Sprint(DefaultIbColdTempco),
+			Help:    "a 25 °C bipolar Ib or Ios figure is raised by this fraction per K below 25 °C"}, &d.Policy.IbColdTempco},
 	}
 }
 

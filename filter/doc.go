@@ -27,8 +27,10 @@
 //   - Supply: span min/max = nominal span × (1 ∓ tolerance). A part passes
 //     when its rated supply.min ≤ span_min and span_max ≤ supply.max;
 //     margin = the smaller spare in volts / span_min.
-//   - Rails for headroom: each rail moved toward 0 V by the tolerance,
-//     V+w = pos·(1 − tol), V−w = neg·(1 − tol).
+//   - Rails for headroom: each rail moved toward the other by the
+//     tolerance, V+w = pos − tol·|pos|, V−w = neg + tol·|neg| (toward 0 V
+//     when 0 V lies between them; V+ 12 V, V− 2 V, 10 % gives 10.8 V and
+//     2.2 V, the span shrinks).
 //   - input_range: the signal at the op-amp inputs, ref ± Vp (follower,
 //     non-inverting) or the point ref (inverting: the inputs sit at ref),
 //     must lie within [V−w + input_cm.low, V+w + input_cm.high].
@@ -40,14 +42,28 @@
 //   - slew: sine 2π·f·Vo; square 0.8·2Vo/rise (10–90 % of the step).
 //   - gbw: sine NG·f/√(1/(1−ε)² − 1) (single-pole loop, ≈ 7.02·NG·f at
 //     1 %); square NG·0.35/rise.
-//   - aol: NG/Aol ≤ ε, so Aol ≥ 20·log10(NG/ε) dB.
+//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε)/ε
+//     (circuit.AolForGainError).
+//
+// Every formula lives in filter/circuit with one test against its named
+// source; the templates call it and write the why line.
 //   - output_current: Vo/load_r + Vo/feedback_r (when given).
 //   - dc_error (when the stage sets it): NG·(Vos + Ib·source_r) ≤ allowed.
-//   - noise (when the stage sets it, allowed output rms):
-//     √(en² + (in·Rs)² + 4kTRs) × NG × √(π/2 · GBW/NG), k = 1.380649e-23
-//     J/K, T the design's highest temperature in kelvin, GBW the part's
-//     largest credible figure (typical, not derated) since more bandwidth
-//     is more noise.
+//   - noise (when the stage sets it, allowed output rms; circuit.AmpNoise):
+//     NG·√(en²·(B + fe·ln(B/0.1 Hz)) + in²·(Rs² + Rp²)·(B + fi·ln(B/0.1 Hz)) +
+//     4kT·(Rs + Rp)·B), Rp = Rf∥Rg when the stage gives its resistors,
+//     fe, fi the catalog's 1/f corners, k = 1.380649e-23 J/K, T the
+//     design's highest temperature, B = GBW/NG·atan(band·NG/GBW) for a
+//     noise_band (widened to its brick-wall equivalent for noise_order n),
+//     else π/2·GBW/NG; GBW the part's largest credible figure (typical,
+//     not derated) since more bandwidth is more noise. The transimpedance
+//     stage integrates its own response (circuit.TIANoise).
+//   - relaxation gbw: the GBW at which the single-pole period model
+//     (circuit.AstablePeriodLimited, slew unlimited) is freq_error slow;
+//     transimpedance gbw: the maximally flat response with Cf in the loop
+//     reaches the bandwidth (circuit.GBWForTIA).
+//   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
+//     between the stage's levels, as the preview measures it.
 //   - supply_current (when [choose] sets it): packages × channels × Iq.
 //   - vdiff, cload: a stage states the differential input or load
 //     capacitance; the part's vdiff_max / cload must reach it.
@@ -65,8 +81,11 @@
 // 2^(ΔT/10 K) for ΔT above 25 °C, other figures as given; else typical ×
 // derate_typ (0.7; bigger is better: GBW, slew, Iout, Aol as a linear gain)
 // or × inflate_typ (2.0; smaller is better: Vos, Ib, Ios, en, in, Iq),
-// moved by the same rule. Basis: guaranteed for limits, typical or graph
-// (source = "graph") for typical figures.
+// moved by the same rule. A figure given only as min_ot/max_ot is used at
+// 25 °C too (the rated range includes it). Policy adds: GBW and slew given
+// at 25 °C × (1 − speed_tempco·|ΔT|), bipolar Ib and Ios given at 25 °C ×
+// (1 + ib_cold_tempco·ΔT below 25 °C). Basis: guaranteed for limits,
+// typical or graph (source = "graph") for typical figures.
 //
 // # Margins (fractions; ≥ 0 ⇔ pass)
 //
@@ -78,6 +97,9 @@
 //     10^((available − required)/20) − 1;
 //   - hard filters: none (NaN; null in JSON).
 //
+// A margin whose magnitude is below TieMargin (1e-9) is 0 and passes: a
+// part rated exactly at a limit passes despite floating-point rounding.
+//
 // A check whose figure the catalog lacks is unknown: no margin, left out of
 // the worst margin, and neither pass nor fail unless Options.Strict. A
 // candidate's worst margin is its smallest margin over all checks; Binding
@@ -85,7 +107,9 @@
 // packages × unit cost, supply current = packages × channels × Iq.
 //
 // fmax per stage is the highest sine frequency at the stage's amplitude at
-// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG).
+// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG),
+// the inverses of the two requirement formulas (circuit.FullPowerBandwidth,
+// circuit.MaxFreqForGainError).
 //
 // # Speed
 //

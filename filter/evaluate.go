@@ -6,6 +6,7 @@ import (
 	"sync"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/circuit"
 )
 
 // Check notes; constant text so evaluation allocates nothing per check.
@@ -46,7 +47,7 @@ func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
 		checks = make([]Check, len(parts)*len(reqs))
 	}
 	fmax := make([]float64, len(parts)*n)
-	ev := evaluator{plan: plan, strict: o.Strict}
+	ev := evaluator{plan: plan, strict: o.Strict, summary: o.Summary}
 	run := func(lo, hi int) {
 		// One figures buffer per worker: it is passed by pointer to the
 		// checks (and to Measure hooks), which would otherwise move a
@@ -90,8 +91,9 @@ func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
 
 // evaluator holds what is fixed for one plan.
 type evaluator struct {
-	plan   *Plan
-	strict bool
+	plan    *Plan
+	strict  bool
+	summary bool // checks are not kept: skip Requirement.Aside
 }
 
 func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner []int) {
@@ -142,19 +144,26 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 }
 
 // stageFMax is the highest sine frequency at the stage's output amplitude
-// at which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG).
+// at which slew and gbw still pass: the inverses of the two requirement
+// formulas, circuit.FullPowerBandwidth (of SlewForSine) and
+// circuit.MaxFreqForGainError (of GBWForGainError).
 func stageFMax(sp *StagePlan, f *PartFigures) float64 {
 	if sp.Shape != "sine" || sp.Vo <= 0 || sp.NoiseGain <= 0 || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
-	fs := f.Slew.V / (2 * math.Pi * sp.Vo)
-	fg := f.GBW.V / (gbwFactor(sp.GainError) * sp.NoiseGain)
-	return math.Min(fs, fg)
+	fg, err := circuit.MaxFreqForGainError(f.GBW.V, sp.NoiseGain, sp.GainError)
+	if err != nil {
+		return math.NaN()
+	}
+	return math.Min(circuit.FullPowerBandwidth(f.Slew.V, sp.Vo), fg)
 }
 
 // check evaluates one requirement into c.
 func (ev *evaluator) check(c *Check, q *Requirement, sp *StagePlan, p *catalog.Part, f *PartFigures, r *Result) {
 	*c = Check{Req: q, Required: q.Value, Available: math.NaN(), AvailLow: math.NaN(), AvailHigh: math.NaN(), Margin: math.NaN()}
+	if q.Aside != nil && !ev.summary {
+		c.Aside = q.Aside(p, f)
+	}
 	if q.Measure != nil {
 		ev.numeric(c, q.Bound, q.Measure(p, f))
 		return
@@ -203,8 +212,6 @@ func (ev *evaluator) check(c *Check, q *Requirement, sp *StagePlan, p *catalog.P
 		ev.numeric(c, q.Bound, Figure{V: p.CLoad.V, Known: p.CLoad.Set, Basis: BasisGuaranteed})
 	case KeyDCError:
 		ev.numeric(c, q.Bound, dcError(sp, f))
-	case KeyNoise:
-		ev.numeric(c, q.Bound, outputNoise(sp, f, ev.plan.TempHigh))
 	case KeySupplyCurrent:
 		fig := f.Iq
 		fig.V = r.SupplyCurrent
@@ -274,32 +281,6 @@ func dcError(sp *StagePlan, f *PartFigures) Figure {
 	return Figure{V: sp.NoiseGain * v, Known: true, Basis: basis, Note: note}
 }
 
-// outputNoise is the output rms noise of a stage over the single-pole
-// closed-loop noise bandwidth π/2 · GBW/NG:
-//
-//	√(en² + (in·Rs)² + 4kTRs) × NG × √(π/2 · GBW/NG)
-//
-// with T the design's highest temperature in kelvin. A larger GBW widens
-// the noise bandwidth, so the worst case takes the part's largest credible
-// GBW (PartFigures.GBWHigh: the typical, not derated, else the limit).
-func outputNoise(sp *StagePlan, f *PartFigures, tempHigh float64) Figure {
-	if sp == nil || !f.En.Known || !f.GBW.Known || sp.NoiseGain <= 0 {
-		return Figure{}
-	}
-	rs := sp.SourceR
-	density2 := f.En.V * f.En.V
-	basis := weaker(f.En.Basis, f.GBWHigh.Basis)
-	if rs > 0 {
-		if !f.In.Known {
-			return Figure{}
-		}
-		density2 += f.In.V*f.In.V*rs*rs + 4*Boltzmann*(tempHigh+ZeroCelsius)*rs
-		basis = weaker(basis, f.In.Basis)
-	}
-	bw := math.Pi / 2 * f.GBWHigh.V / sp.NoiseGain
-	return Figure{V: math.Sqrt(density2) * sp.NoiseGain * math.Sqrt(bw), Known: true, Basis: basis, Note: f.En.Note}
-}
-
 // weaker returns the weaker of two bases (guaranteed < typical < graph).
 func weaker(a, b Basis) Basis {
 	if b > a {
@@ -332,6 +313,20 @@ func (ev *evaluator) numeric(c *Check, b Bound, fig Figure) {
 			c.Margin = c.Required/fig.V - 1
 		}
 	}
+	ev.settle(c)
+}
+
+// TieMargin is the magnitude below which a margin counts as exactly 0
+// (DESIGN.md "Pass at the limit"): a part rated exactly at a limit passes
+// although floating point puts its margin at −1e-16.
+const TieMargin = 1e-9
+
+// settle rounds a margin within TieMargin of zero to zero and sets Pass and
+// Status from it (margin ≥ 0 passes).
+func (ev *evaluator) settle(c *Check) {
+	if math.Abs(c.Margin) < TieMargin {
+		c.Margin = 0
+	}
 	c.Pass = c.Margin >= 0
 	c.Status = StatusFail
 	if c.Pass {
@@ -355,7 +350,7 @@ func (ev *evaluator) window(c *Check, lo, hi catalog.Opt, span float64) {
 		spare = math.Min(spare, hi.V-q.High)
 	}
 	if !lo.Set || !hi.Set {
-		if (lo.Set || hi.Set) && spare < 0 {
+		if (lo.Set || hi.Set) && spare/span <= -TieMargin {
 			c.Margin = spare / span
 			c.Status, c.Note = StatusFail, noteUnknownSide
 			return
@@ -364,11 +359,7 @@ func (ev *evaluator) window(c *Check, lo, hi catalog.Opt, span float64) {
 		return
 	}
 	c.Margin = spare / span
-	c.Pass = c.Margin >= 0
-	c.Status = StatusFail
-	if c.Pass {
-		c.Status = StatusPass
-	}
+	ev.settle(c)
 }
 
 func (ev *evaluator) hard(c *Check, ok bool) {

@@ -96,6 +96,8 @@ signal = { peak = "13 V", freq = "1 Hz" }
 		{"36 V part fits 31.5 V", catalog.Span{Min: opt(4), Max: opt(36)}, true},
 		{"30 V part fails 31.5 V at +5 %", catalog.Span{Min: opt(4), Max: opt(30)}, false},
 		{"part needing 29 V fails 28.5 V at −5 %", catalog.Span{Min: opt(29), Max: opt(40)}, false},
+		{"31.5 V part is exactly at +5 %", catalog.Span{Min: opt(4), Max: opt(31.5)}, true},
+		{"28.5 V minimum is exactly at −5 %", catalog.Span{Min: opt(28.5), Max: opt(40)}, true},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -107,16 +109,98 @@ signal = { peak = "13 V", freq = "1 Hz" }
 		})
 	}
 	// Output 13 V peak: the swing must reach 13 V from a 14.25 V rail, 1.25 V headroom.
+	// A part exactly at the headroom (1.25 V) ties and passes.
 	for _, tc := range []struct {
 		high float64
 		pass bool
-	}{{-1.2, true}, {-1.3, false}} {
+	}{{-1.2, true}, {-1.25, true}, {-1.3, false}} {
 		part := basePart("x")
 		part.Output = catalog.Swing{Low: opt(-tc.high), High: opt(tc.high)}
 		c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyOutputRange)
 		if c.Pass != tc.pass {
 			t.Errorf("swing %g V from the rails: pass = %v, want %v", tc.high, c.Pass, tc.pass)
 		}
+	}
+}
+
+// Pass at the limit (DESIGN.md: a margin within 1e-9 of zero is zero). In
+// floating point 12·1.05 = 12.600000000000001 and 24·1.1 = 26.400000000000002,
+// so a part rated exactly 12.6 V or 26.4 V got a margin of about −1e-16 and
+// failed; 30·1.05 = 31.5 exactly passed. All three are exact ties by hand.
+func TestTiesAtTheLimit(t *testing.T) {
+	for _, tc := range []struct {
+		pos, neg, tol, max string
+	}{
+		{"12 V", "0 V", "5 %", "12.6 V"},
+		{"24 V", "0 V", "10 %", "26.4 V"},
+		{"15 V", "-15 V", "5 %", "31.5 V"},
+	} {
+		t.Run(tc.pos+" "+tc.tol, func(t *testing.T) {
+			_, p := mustDesign(t, sineDesign("pos = \""+tc.pos+"\"\nneg = \""+tc.neg+"\"\ntolerance = \""+tc.tol+"\"",
+				"kind = \"follower\"\nsignal = { peak = \"0.1 V\", freq = \"1 Hz\" }"))
+			part := basePart("x")
+			part.Supply = catalog.Span{Min: opt(1), Max: opt(q(tc.max, catalog.Volt))}
+			c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply)
+			if !c.Pass || c.Margin != 0 {
+				t.Errorf("rated %s: pass %v, margin %g; want a pass at margin 0", tc.max, c.Pass, c.Margin)
+			}
+		})
+	}
+	t.Run("slew tie", func(t *testing.T) {
+		// Comparator 0…5 V in 1 µs needs 0.8·5/1e-6 = 4 V/µs; 4e6·(1 + 1e-15)
+		// is the same figure read back through a unit conversion.
+		_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "5 V"
+[[stage]]
+name = "s"
+kind = "comparator"
+threshold = "2.5 V"
+input = ["1 V", "4 V"]
+out_low = "0 V"
+out_high = "5 V"
+transition = "1 us"
+`)
+		part := basePart("x")
+		part.Slew = catalog.Spec{Min: opt(4e6 * (1 - 1e-15))}
+		if c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeySlew); !c.Pass || c.Margin != 0 {
+			t.Errorf("slew at the bound: pass %v, margin %g", c.Pass, c.Margin)
+		}
+		part.Slew = catalog.Spec{Min: opt(4e6 * (1 - 1e-6))}
+		if c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeySlew); c.Pass {
+			t.Errorf("slew 1 ppm short passes (margin %g)", c.Margin)
+		}
+	})
+}
+
+// Rails tolerance with both rails positive (DESIGN.md: headroom checks use
+// each rail at its tolerance extreme, the span shrinking): V+ 12 V, V− 2 V
+// at 10 % gives 10.8 V and 2.2 V by hand. The old rule moved V− to 1.8 V,
+// widening the window, and passed a part whose input reaches down only to
+// V− + 0.3 V against a 2.4 V signal low (2.2 + 0.3 = 2.5 > 2.4).
+func TestRailsBothPositive(t *testing.T) {
+	_, p := mustDesign(t, sineDesign("pos = \"12 V\"\nneg = \"2 V\"\ntolerance = \"10 %\"",
+		"kind = \"follower\"\nref = \"7 V\"\nsignal = { peak = \"4.6 V\", freq = \"1 Hz\" }"))
+	near(t, "V+ worst", p.Rails.PosWorst, 10.8, 1e-12)
+	near(t, "V− worst", p.Rails.NegWorst, 2.2, 1e-12)
+	part := basePart("x")
+	part.InputCM = catalog.Headroom{Low: opt(0.3), High: opt(2)}
+	if c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyInputRange); c.Pass {
+		t.Errorf("input low reaches %g V, signal at 2.4 V: pass, want a failure", c.AvailLow)
+	}
+	// Exactly at the limit: V− + 0.2 V = 2.4 V.
+	part.InputCM = catalog.Headroom{Low: opt(0.2), High: opt(2)}
+	if c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyInputRange); !c.Pass {
+		t.Errorf("input low exactly 2.4 V: fail (margin %g), want a pass", c.Margin)
+	}
+	for _, tc := range []struct{ pos, neg, wp, wn float64 }{
+		{15, -15, 13.5, -13.5}, // bipolar: both toward 0 V
+		{5, 0, 4.5, 0},         // single supply
+		{-2, -12, -2.2, -10.8}, // both negative: mirror image
+	} {
+		wp, wn := filter.RailsInward(tc.pos, tc.neg, 0.1)
+		near(t, "V+ worst", wp, tc.wp, 1e-12)
+		near(t, "V− worst", wn, tc.wn, 1e-12)
 	}
 }
 

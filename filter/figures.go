@@ -4,11 +4,13 @@ import (
 	"math"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/circuit"
 )
 
 // Notes the figure rules attach; constant so evaluation never formats text.
 const (
 	noteOT          = "limit over the rated temperature range"
+	noteOTRoom      = "limit over the rated temperature range, used at 25 °C (no 25 °C limit given; the rated range includes it)"
 	noteRoom        = "25 °C limit (no over-temperature limit given)"
 	noteRoomNoDrift = "25 °C limit; no drift figure to move it to temperature"
 	noteDrift       = "25 °C limit + drift·ΔT"
@@ -18,6 +20,10 @@ const (
 	noteInflDrift   = "typical × inflate_typ + drift·ΔT"
 	noteInflFET     = "typical × inflate_typ × 2^(ΔT/10 K), FET input"
 	noteEstimate    = "estimated figure"
+	noteSpeedTemp   = "25 °C limit × (1 − speed_tempco·|ΔT|)"
+	noteTypSpeed    = "typical × derate_typ × (1 − speed_tempco·|ΔT|)"
+	noteBipCold     = "25 °C limit × (1 + ib_cold_tempco·ΔT below 25 °C), bipolar input"
+	noteTypBipCold  = "typical × inflate_typ × (1 + ib_cold_tempco·ΔT below 25 °C), bipolar input"
 )
 
 // Figures returns the worst-case figures of part p at plan's temperature
@@ -58,6 +64,13 @@ func Figures(p *catalog.Part, plan *Plan) PartFigures {
 		Ios:  w.leakage(p.Ios, p.Tech.FETInput(), dtHot),
 	}
 	f.GBWHigh = f.GBW
+	f.GBW = w.speed(f.GBW, plan.SpeedTempco, dtAbs)
+	f.Slew = w.speed(f.Slew, plan.SpeedTempco, dtAbs)
+	if p.Tech == catalog.TechBipolar {
+		dtCold := math.Max(0, RoomTemp-plan.TempLow)
+		f.Ib = w.cold(f.Ib, plan.IbColdTempco, dtCold)
+		f.Ios = w.cold(f.Ios, plan.IbColdTempco, dtCold)
+	}
 	if p.GBW.Typ.Set {
 		f.GBWHigh = Figure{p.GBW.Typ.V, true, typBasis(p.GBW.Source), "typical, not derated (noise bandwidth)"}
 	}
@@ -119,6 +132,8 @@ func (w worst) bigger(s catalog.Spec) Figure {
 		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOT}
 	case s.Min.Set:
 		return Figure{s.Min.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MinOT.Set:
+		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOTRoom}
 	case s.Typ.Set:
 		return Figure{s.Typ.V * w.derate, true, typBasis(s.Source), typNote(s.Source, noteDerate)}
 	}
@@ -130,7 +145,7 @@ func (w worst) bigger(s catalog.Spec) Figure {
 func (w worst) biggerDB(s catalog.Spec) Figure {
 	f := w.bigger(s)
 	if f.Known && f.Basis != BasisGuaranteed {
-		f.V = s.Typ.V + 20*math.Log10(w.derate)
+		f.V = s.Typ.V + circuit.DB(w.derate)
 	}
 	return f
 }
@@ -141,6 +156,8 @@ func (w worst) smaller(s catalog.Spec) Figure {
 		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOT}
 	case s.Max.Set:
 		return Figure{s.Max.V, true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MaxOT.Set:
+		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOTRoom}
 	case s.Typ.Set:
 		return Figure{s.Typ.V * w.inflate, true, typBasis(s.Source), typNote(s.Source, noteInflate)}
 	}
@@ -150,7 +167,7 @@ func (w worst) smaller(s catalog.Spec) Figure {
 // vos moves the offset to the design's temperature extreme by its drift.
 func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 	f := w.smaller(s)
-	if !f.Known || !w.leaves || f.Note == noteOT {
+	if !f.Known || !w.leaves || isOT(f.Note) {
 		return f
 	}
 	d := math.NaN()
@@ -179,7 +196,7 @@ func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 // gate leakage doubles every FETDoubling kelvin above 25 °C.
 func (w worst) leakage(s catalog.Spec, fet bool, dtHot float64) Figure {
 	f := w.smaller(s)
-	if !f.Known || !fet || dtHot == 0 || f.Note == noteOT {
+	if !f.Known || !fet || dtHot == 0 || isOT(f.Note) {
 		return f
 	}
 	f.V *= math.Exp2(dtHot / FETDoubling)
@@ -203,4 +220,39 @@ func typNote(s catalog.Source, note string) string {
 		return noteEstimate + "; " + note
 	}
 	return note
+}
+
+// isOT reports whether a figure came from an over-temperature limit, which
+// already covers the range and is not moved further.
+func isOT(note string) bool { return note == noteOT || note == noteOTRoom }
+
+// speed lowers a GBW or slew figure given at 25 °C by k per kelvin of
+// dtAbs (policy.speed_tempco); over-temperature limits already hold over
+// the range and are left alone.
+func (w worst) speed(f Figure, k, dtAbs float64) Figure {
+	if !f.Known || !w.leaves || k == 0 || isOT(f.Note) {
+		return f
+	}
+	f.V *= math.Max(0, 1-k*dtAbs)
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteSpeedTemp
+	} else {
+		f.Note = noteTypSpeed
+	}
+	return f
+}
+
+// cold raises a bipolar bias or offset current given at 25 °C by k per
+// kelvin below 25 °C (policy.ib_cold_tempco).
+func (w worst) cold(f Figure, k, dtCold float64) Figure {
+	if !f.Known || dtCold == 0 || k == 0 || isOT(f.Note) {
+		return f
+	}
+	f.V *= 1 + k*dtCold
+	if f.Basis == BasisGuaranteed {
+		f.Note = noteBipCold
+	} else {
+		f.Note = noteTypBipCold
+	}
+	return f
 }

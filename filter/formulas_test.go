@@ -155,12 +155,29 @@ func TestSquareRequirements(t *testing.T) {
 	near(t, "gbw", requirement(t, p, "s", filter.KeyGBW).Value, 2*math.Log(9)/(2*math.Pi)/1e-6, 6e-3)
 }
 
-// Open-loop gain: NG/Aol ≤ ε, so Aol ≥ 20·log10(NG/ε): NG 100 at 1 % needs
-// 10⁴ = 80 dB (worked by hand).
+// Open-loop gain from the loop-gain relation A_cl = NG/(1 + NG/Aol)
+// (Sedra & Smith, from memory): an error ε needs Aol ≥ NG·(1 − ε)/ε. NG 100
+// at 1 % needs 9900 = 79.9127 dB (by hand: 20·log10 9900). The old rule
+// 20·log10(NG/ε) = 80 dB failed a part of 79.95 dB whose closed-loop error
+// is 100/(1 + 100/9943.6)… = 0.996 %, inside the 1 % allowed.
 func TestAolRequirement(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
 		`kind = "noninverting"`+"\ngain = 100\n"+`ref = "0 V"`+"\n"+`signal = { peak = "10 mV", freq = "10 Hz" }`))
-	near(t, "aol", requirement(t, p, "s", filter.KeyAol).Value, 80, 1e-12)
+	near(t, "aol", requirement(t, p, "s", filter.KeyAol).Value, 20*math.Log10(9900), 1e-12)
+	near(t, "aol by hand", requirement(t, p, "s", filter.KeyAol).Value, 79.9127, 1e-6)
+	for _, tc := range []struct {
+		db   float64
+		pass bool
+	}{{79.95, true}, {20 * math.Log10(9900), true}, {79.85, false}} {
+		aol := math.Pow(10, tc.db/20)
+		errDC := 1 - 1/(1+100/aol) // A_cl = NG/(1 + NG/Aol): relative shortfall
+		part := basePart("x")
+		part.Aol = catalog.Spec{Min: opt(tc.db)}
+		c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyAol)
+		if c.Pass != tc.pass || (errDC <= 0.01+1e-12) != tc.pass {
+			t.Errorf("Aol %.4f dB: pass %v (margin %g), closed-loop error %.5f %%; want pass %v", tc.db, c.Pass, c.Margin, 100*errDC, tc.pass)
+		}
+	}
 }
 
 // Inverting stage: NG = 1 + G and the inputs sit at ref.

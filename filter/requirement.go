@@ -82,12 +82,76 @@ type Requirement struct {
 	// template-specific check instead of the built-in rule for Key.
 	// Known false makes the check unknown.
 	Measure func(p *catalog.Part, f *PartFigures) Figure
+	// Aside, when set, computes a per-part quantity shown beside the check
+	// (the transimpedance Cf, the relaxation stage's predicted frequency).
+	// It runs only when checks are kept (not in Options.Summary).
+	Aside func(p *catalog.Part, f *PartFigures) Aside
+}
+
+// Aside is a per-part quantity reported beside a check, V in SI units of
+// its kind. The zero value (AsideNone) is none. It is kept small: every
+// check of every part carries one.
+type Aside struct {
+	Kind AsideKind
+	V    float64
+}
+
+// AsideKind names what an Aside holds.
+type AsideKind uint8
+
+// The Aside kinds.
+const (
+	AsideNone          AsideKind = iota
+	AsideCf                      // transimpedance feedback capacitor, F
+	AsidePredictedFreq           // relaxation stage's predicted frequency, Hz
+)
+
+// Key is the JSON field of the kind: "cf" (fixed by DESIGN.md "Contract
+// additions"), "predicted_freq", or "" for none.
+func (k AsideKind) Key() string {
+	switch k {
+	case AsideCf:
+		return "cf"
+	case AsidePredictedFreq:
+		return "predicted_freq"
+	}
+	return ""
+}
+
+// Label introduces the quantity in text: "Cf", "runs at".
+func (k AsideKind) Label() string {
+	switch k {
+	case AsideCf:
+		return "Cf"
+	case AsidePredictedFreq:
+		return "runs at"
+	}
+	return ""
+}
+
+// Dim is the quantity's dimension.
+func (k AsideKind) Dim() catalog.Dim {
+	switch k {
+	case AsideCf:
+		return catalog.Farad
+	case AsidePredictedFreq:
+		return catalog.Hertz
+	}
+	return catalog.Dimensionless
+}
+
+// Text formats the quantity with its label, "Cf 2.2 pF"; "" for none.
+func (a Aside) Text() string {
+	if a.Kind == AsideNone {
+		return ""
+	}
+	return a.Kind.Label() + " " + catalog.Format(a.V, a.Kind.Dim())
 }
 
 // Rails is the supply as the checks use it.
 type Rails struct {
 	Pos, Neg           float64 // nominal rails, V
-	PosWorst, NegWorst float64 // each rail moved toward 0 V by the tolerance
+	PosWorst, NegWorst float64 // each rail moved toward the other by tolerance × its magnitude (RailsInward)
 	Tol                float64 // tolerance, fraction
 	Span               float64 // nominal span Pos − Neg
 	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)
@@ -123,6 +187,8 @@ type Plan struct {
 	TempLow, TempHigh float64
 	DerateTyp         float64
 	InflateTyp        float64
+	SpeedTempco       float64 // policy.speed_tempco, 1/K
+	IbColdTempco      float64 // policy.ib_cold_tempco, 1/K
 	// Global holds the design-level requirements (supply, temperature,
 	// hard filters, supply current); Stages hold each stage's own.
 	Global []Requirement

@@ -44,6 +44,9 @@ type Check struct {
 	Basis               Basis
 	// Note explains an adjustment or why the check is unknown; constant text.
 	Note string
+	// Aside is the requirement's per-part quantity (Requirement.Aside),
+	// zero when it has none or the evaluation kept no checks.
+	Aside Aside
 }
 
 // Stage returns the stage the check belongs to ("" design-level).

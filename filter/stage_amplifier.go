@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/circuit"
 )
 
 // signalParams are the inputs every amplifier template shares.
@@ -37,8 +38,65 @@ func loadParams() []Param {
 		{Key: "dc_error", Label: "allowed DC error", Kind: Quantity, Dim: catalog.Volt,
 			Help: "allowed output-referred DC error; no check when not given"},
 		{Key: "noise", Label: "allowed noise", Kind: Quantity, Dim: catalog.Volt,
-			Help: "allowed output noise, V rms over the closed-loop bandwidth; no check when not given"},
+			Help: "allowed output noise, V rms over noise_band (else the closed-loop bandwidth); no check when not given"},
+		noiseBandParam(), noiseOrderParam(),
 	}
+}
+
+// noiseBandParam is the band output noise is integrated over.
+func noiseBandParam() Param {
+	return Param{Key: "noise_band", Label: "noise band", Kind: Quantity, Dim: catalog.Hertz,
+		Help: "measurement or post-filter band the output noise is integrated over; default: the closed-loop bandwidth"}
+}
+
+// noiseOrderParam is the order of the filter that sets noise_band.
+func noiseOrderParam() Param {
+	return Param{Key: "noise_order", Label: "noise filter order", Kind: Quantity, Dim: catalog.Dimensionless,
+		Help: "Butterworth order of the filter at noise_band (its brick-wall equivalent is used); 0 or unset: an ideal brick wall"}
+}
+
+// maxNoiseOrder is the highest noise_order accepted: beyond 8 the
+// brick-wall equivalent differs from the band by under 0.7 %.
+const maxNoiseOrder = 8
+
+// readNoiseBand reads noise_band (Hz, 0 when not given) and noise_order.
+func readNoiseBand(in *StageInput) (band float64, order int, err error) {
+	band, _ = in.Num("noise_band")
+	if v, ok := in.Num("noise_band"); ok && !(v > 0) {
+		return 0, 0, fmt.Errorf("field \"noise_band\": %q is not positive, want a frequency such as \"20 kHz\"", in.Raw("noise_band"))
+	}
+	if v, ok := in.Num("noise_order"); ok {
+		if v != math.Trunc(v) || v < 0 || v > maxNoiseOrder {
+			return 0, 0, fmt.Errorf("field \"noise_order\": %q is out of range, want a whole number 0 … %d", in.Raw("noise_order"), maxNoiseOrder)
+		}
+		if band == 0 {
+			return 0, 0, fmt.Errorf("field \"noise_order\": given without noise_band, want noise_band as well")
+		}
+		order = int(v)
+	}
+	return band, order, nil
+}
+
+// tiaBandText describes the band of a transimpedance noise check, which
+// integrates the filter's own response rather than its brick-wall
+// equivalent.
+func tiaBandText(band float64, order int) string {
+	if band == 0 || order == 0 {
+		return noiseBandText(band, order, "the stage's own response")
+	}
+	return fmt.Sprintf("band: order-%d Butterworth response at %s", order, catalog.Format(band, catalog.Hertz))
+}
+
+// noiseBandText describes the band for a why line.
+func noiseBandText(band float64, order int, none string) string {
+	switch {
+	case band == 0:
+		return "band: " + none
+	case order == 0:
+		return "band: brick wall at " + catalog.Format(band, catalog.Hertz)
+	}
+	return fmt.Sprintf("band: order-%d filter at %s, brick-wall equivalent %s", order,
+		catalog.Format(band, catalog.Hertz), catalog.Format(circuit.FilterNoiseBandwidth(band, order), catalog.Hertz))
 }
 
 // feedbackParam is the resistance the output drives through the feedback network.
@@ -117,10 +175,14 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		}
 		sp.Freq = f
 		Hz := catalog.Format(f, catalog.Hertz)
-		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: 2 * math.Pi * f * vo, Dim: catalog.VoltPerSecond,
+		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForSine(f, vo), Dim: catalog.VoltPerSecond,
 			Why: fmt.Sprintf("2π·f·Vo = 2π·%s·%s", Hz, V(vo))})
-		k := gbwFactor(eps)
-		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: ng * f * k, Dim: catalog.Hertz,
+		gbw, err := circuit.GBWForGainError(ng, f, eps)
+		if err != nil {
+			return sp, fmt.Errorf("field \"gain_error\": %w", err)
+		}
+		k := gbw / (ng * f)
+		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
 			Why: fmt.Sprintf("NG·f/√(1/(1−ε)²−1) = %s·%s·%.3g (ε = %s)",
 				catalog.Format(ng, catalog.Dimensionless), Hz, k, catalog.Format(eps, catalog.Ratio))})
 	case "square":
@@ -134,13 +196,18 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		sp.Rise = rise
 		sp.Freq, _ = in.Num("signal.freq")
 		s := catalog.Format(rise, catalog.Second)
-		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: SlewFraction * 2 * vo / rise, Dim: catalog.VoltPerSecond,
+		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(2*vo, rise), Dim: catalog.VoltPerSecond,
 			Why: fmt.Sprintf("0.8·2Vo/rise = 0.8·2·%s/%s", V(vo), s)})
-		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: ng * RiseBandwidth / rise, Dim: catalog.Hertz,
+		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: circuit.GBWForRise(ng, rise), Dim: catalog.Hertz,
 			Why: fmt.Sprintf("NG·0.35/rise = %s·0.35/%s", catalog.Format(ng, catalog.Dimensionless), s)})
 	}
-	add(Requirement{Key: KeyAol, Bound: BoundMin, Value: 20 * math.Log10(ng/eps), Dim: catalog.Decibel,
-		Why: fmt.Sprintf("20·log10(NG/ε) = 20·log10(%s/%s)", catalog.Format(ng, catalog.Dimensionless), catalog.Format(eps, catalog.Ratio))})
+	_, aolDB, err := circuit.AolForGainError(ng, eps)
+	if err != nil {
+		return sp, fmt.Errorf("field \"gain_error\": %w", err)
+	}
+	add(Requirement{Key: KeyAol, Bound: BoundMin, Value: aolDB, Dim: catalog.Decibel,
+		Why: fmt.Sprintf("20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s), from NG/(1 + NG/Aol) = NG·(1 − ε)",
+			catalog.Format(ng, catalog.Dimensionless), catalog.Format(eps, catalog.Ratio), catalog.Format(eps, catalog.Ratio))})
 
 	// Drive: the load and the feedback network, both at the output peak.
 	if sp.LoadR > 0 || a.feedbackR > 0 {
@@ -162,24 +229,76 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		add(Requirement{Key: KeyCLoad, Bound: BoundMin, Value: c, Dim: catalog.Farad,
 			Why: "stable with the stage's load capacitance " + catalog.Format(c, catalog.Farad)})
 	}
-	appendErrorBudgets(in, &sp, p)
+	if err := appendErrorBudgets(in, &sp, p, a.invR); err != nil {
+		return sp, err
+	}
 	if a.invR > 0 {
 		useInvertingInputR(&sp, a.invR, a.invName)
 	}
 	return sp, nil
 }
 
-// appendErrorBudgets adds the dc_error and noise allowances a stage sets.
-func appendErrorBudgets(in *StageInput, sp *StagePlan, p *Plan) {
+// appendErrorBudgets adds the dc_error and noise allowances a stage sets;
+// rp is the resistance the inverting input sees (Rf∥Rg), 0 when the stage
+// gives no resistors.
+func appendErrorBudgets(in *StageInput, sp *StagePlan, p *Plan, rp float64) error {
 	ng := catalog.Format(sp.NoiseGain, catalog.Dimensionless)
 	rs := catalog.Format(sp.SourceR, catalog.Ohm)
 	if v, ok := in.Num("dc_error"); ok {
 		sp.Requirements = append(sp.Requirements, Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Why: fmt.Sprintf("NG·(Vos + Ib·Rs) ≤ %s with NG = %s, Rs = %s", catalog.Format(v, catalog.Volt), ng, rs)})
 	}
-	if v, ok := in.Num("noise"); ok {
-		sp.Requirements = append(sp.Requirements, Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
-			Why: fmt.Sprintf("√(en² + (in·Rs)² + 4kTRs)·NG·√(π/2·GBW/NG) ≤ %s rms with NG = %s, Rs = %s, T = %.4g K",
-				catalog.Format(v, catalog.Volt), ng, rs, p.TempHigh+ZeroCelsius)})
+	v, ok := in.Num("noise")
+	if !ok {
+		return nil
 	}
+	band, order, err := readNoiseBand(in)
+	if err != nil {
+		return err
+	}
+	nb := noiseSetup{ng: sp.NoiseGain, rs: sp.SourceR, rp: rp, tempC: p.TempHigh, band: band, order: order}
+	rpText := "no feedback resistors given"
+	if rp > 0 {
+		rpText = "Rf∥Rg = " + catalog.Format(rp, catalog.Ohm)
+	}
+	sp.Requirements = append(sp.Requirements, Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
+		Measure: func(part *catalog.Part, f *PartFigures) Figure { return nb.output(part, f) },
+		Why: fmt.Sprintf("NG·√(en²·(B + fe·ln(B/0.1 Hz)) + in²·(Rs² + Rp²)·(B + fi·ln(B/0.1 Hz)) + 4kT·(Rs + Rp)·B) ≤ %s rms with NG = %s, Rs = %s, %s, T = %.4g K, B = GBW/NG·atan(band·NG/GBW) (%s)",
+			catalog.Format(v, catalog.Volt), ng, rs, rpText, circuit.KelvinFromCelsius(p.TempHigh),
+			noiseBandText(band, order, "none, B = π/2·GBW/NG"))})
+	return nil
+}
+
+// noiseSetup is what an amplifier's noise check needs besides the part.
+type noiseSetup struct {
+	ng, rs, rp, tempC, band float64
+	order                   int
+}
+
+// output is the amplifier's output RMS noise on a part (circuit.AmpNoise)
+// over the closed loop (−3 dB at GBW/NG) cascaded with the band's
+// brick-wall equivalent (circuit.NoiseBandwidthLoopBand). A larger GBW
+// widens the loop's noise bandwidth, so the worst case takes the part's
+// largest credible GBW (PartFigures.GBWHigh: the typical, not derated,
+// else the limit). in is needed only when a resistance is at an input.
+func (n noiseSetup) output(p *catalog.Part, f *PartFigures) Figure {
+	if !f.En.Known || !f.GBWHigh.Known || !(n.ng > 0) {
+		return Figure{}
+	}
+	basis := weaker(f.En.Basis, f.GBWHigh.Basis)
+	a := circuit.AmpNoise{En: f.En.V, EnCorner: p.EnCorner.V, Rs: n.rs, Rp: n.rp,
+		TempK: circuit.KelvinFromCelsius(n.tempC), NG: n.ng}
+	if n.rs > 0 || n.rp > 0 {
+		if !f.In.Known {
+			return Figure{}
+		}
+		a.In, a.InCorner = f.In.V, p.InCorner.V
+		basis = weaker(basis, f.In.Basis)
+	}
+	band := 0.0
+	if n.band > 0 {
+		band = circuit.FilterNoiseBandwidth(n.band, n.order)
+	}
+	enbw := circuit.NoiseBandwidthLoopBand(circuit.ClosedLoopBandwidth(f.GBWHigh.V, n.ng), band)
+	return Figure{V: a.OutputRMS(enbw), Known: true, Basis: basis, Note: f.En.Note}
 }

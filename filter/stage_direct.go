@@ -36,6 +36,7 @@ func (directTemplate) Params() []Param {
 		q("cload", "load capacitance", catalog.Farad, "capacitive load the part must stay stable with"),
 		q("dc_error", "allowed DC error", catalog.Volt, "allowed output-referred DC error"),
 		q("noise", "allowed noise", catalog.Volt, "allowed output noise, V rms"),
+		noiseBandParam(), noiseOrderParam(),
 	}
 }
 
@@ -91,6 +92,8 @@ func (directTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		}
 		add(Requirement{Key: s.k, Bound: s.bound, Value: v, Dim: s.dim, Why: "stated: " + s.key + " = " + in.Raw(s.key)})
 	}
-	appendErrorBudgets(in, &sp, p)
+	if err := appendErrorBudgets(in, &sp, p, 0); err != nil {
+		return sp, err
+	}
 	return sp, nil
 }

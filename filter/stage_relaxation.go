@@ -36,12 +36,19 @@ import (
 //	input_range     VTL … VTH (both inputs move between the thresholds)
 //	output_range    out_low … out_high, only when the stage states the levels
 //	slew            2·(VOH − VOL)/(freq_error·T): both transitions within the allowed share
+//	gbw             the GBW at which a single-pole op-amp with unlimited slew rate runs
+//	                freq_error slow (circuit.GBWForAstable): after each switch the output
+//	                leaves its level as e^(2π·GBW·β·t), several time constants
+//	                1/(2π·GBW·β) of regeneration before it moves far
 //	vdiff           β·(VOH − VOL): the step at each switching instant
 //	output_current  max((VOH − VTL)/R + (VOH − ref)/(R1+R2), (VTH − VOL)/R + (ref − VOL)/(R1+R2))
 //	                + max(VOH − ref, ref − VOL)/load_r
 //
 // The ideal frequency is in the slew requirement's formula; a candidate's
-// predicted frequency with its own swing and slew is PredictedFrequency.
+// predicted frequency with its own swing, slew and GBW is PredictedFrequency,
+// reported beside its gbw check (Aside "predicted_freq"). Each of slew and
+// gbw may use the whole freq_error; a part near both limits runs up to
+// about twice that slow, which the predicted frequency shows.
 type relaxationTemplate struct{}
 
 func (relaxationTemplate) Kind() string { return "relaxation" }
@@ -153,6 +160,19 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		Why: fmt.Sprintf("2·(VOH − VOL)/(ε·T) = 2·(%s − %s)/(%s·%s); ideal T = t_high + t_low = %s + %s, f = %s (levels: %s)",
 			W(a.voh), W(a.vol), catalog.Format(a.share, catalog.Ratio), s(period), s(th), s(tl),
 			catalog.Format(sp.Freq, catalog.Hertz), levels)})
+	gbw, err := circuit.GBWForAstable(a.r, a.c, a.ref, beta, a.vol, a.voh, a.share)
+	if err != nil {
+		return sp, fmt.Errorf("astable gbw: %w", err)
+	}
+	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
+		Aside: func(_ *catalog.Part, f *PartFigures) Aside {
+			if fr, ok := a.predicted(p, f); ok {
+				return Aside{Kind: AsidePredictedFreq, V: fr}
+			}
+			return Aside{}
+		},
+		Why: fmt.Sprintf("period ≤ (1 + ε)·T on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
+			catalog.Format(a.share, catalog.Ratio), b, s(circuit.RegenerationTimeConstant(gbw, beta)), catalog.Format(sp.Freq, catalog.Hertz))})
 	add(Requirement{Key: KeyVdiff, Bound: BoundMin, Value: circuit.AstableVdiff(beta, a.vol, a.voh), Dim: catalog.Volt, Measure: measureVdiff,
 		Why: fmt.Sprintf("β·(VOH − VOL) = %s·(%s − %s), the step at each switching instant", b, W(a.voh), W(a.vol))})
 	i := circuit.AstableOutputCurrent(a.r, a.r1, a.r2, a.ref, a.vol, a.voh)
@@ -169,18 +189,28 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 // PredictedFrequency returns the frequency a relaxation stage runs at on a
 // part with worst-case figures f: the output moves between the part's own
 // swing (at the stage's load, on the plan's nominal rails, no further than
-// the levels the stage states) at the part's worst-case slew rate, with
-// the closed-form ramp model of circuit.AstablePeriodSlewLimited. It is an
-// optimistic first-order prediction (saturation recovery and the rounding
-// near the rails slow a real part further). ok is false when sp is not a
-// relaxation stage, the part's slew or swing is unknown, or the part cannot
-// complete a full swing before the capacitor reaches the next threshold.
+// the levels the stage states), limited by the part's worst-case slew rate
+// and, when the catalog gives it, its worst-case GBW, with the single-pole
+// model of circuit.AstablePeriodLimited (without a GBW figure, the ramp
+// model circuit.AstablePeriodSlewLimited). It is an optimistic prediction
+// (saturation recovery and the rounding near the rails slow a real part
+// further). ok is false when sp is not a relaxation stage, the part's slew
+// or swing is unknown, or the part cannot complete a full swing before the
+// capacitor reaches the next threshold.
 func PredictedFrequency(p *Plan, sp *StagePlan, f *PartFigures) (freq float64, ok bool) {
-	if sp == nil || sp.Stage == nil || sp.Kind != "relaxation" || !f.Slew.Known || !(f.Slew.V > 0) {
+	if sp == nil || sp.Stage == nil || sp.Kind != "relaxation" {
 		return 0, false
 	}
 	a, err := readAstable(NewStageInput(sp.Stage, relaxationTemplate{}), p)
 	if err != nil {
+		return 0, false
+	}
+	return a.predicted(p, f)
+}
+
+// predicted is PredictedFrequency for the stage's circuit values a.
+func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
+	if !f.Slew.Known || !(f.Slew.V > 0) {
 		return 0, false
 	}
 	w, _ := f.OutputAt(a.loadR)
@@ -190,7 +220,11 @@ func PredictedFrequency(p *Plan, sp *StagePlan, f *PartFigures) (freq float64, o
 	vol := math.Max(a.vol, p.Rails.Neg+w.Low)
 	voh := math.Min(a.voh, p.Rails.Pos+w.High)
 	beta := circuit.HysteresisBeta(a.r1, a.r2)
-	t, err := circuit.AstablePeriodSlewLimited(a.r, a.c, a.ref, beta, vol, voh, f.Slew.V)
+	gbw := math.Inf(1)
+	if f.GBW.Known && f.GBW.V > 0 {
+		gbw = f.GBW.V
+	}
+	t, err := circuit.AstablePeriodLimited(a.r, a.c, a.ref, beta, vol, voh, f.Slew.V, gbw)
 	if err != nil {
 		return 0, false
 	}

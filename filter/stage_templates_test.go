@@ -3,6 +3,7 @@ package filter_test
 import (
 	"bytes"
 	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -91,13 +92,9 @@ func TestTemplatesRegistered(t *testing.T) {
 	}
 }
 
-// TestMixedTemplatesDemo derives and ranks the embedded demo design that
-// puts four templates on one quad: the 16 V CMOS quad serves all four
-// stages in one package, while the slow bipolar quad in the same footprint
-// fails the comparator's and the oscillator's slew (0.5 V/µs typical from a
-// graph, × 0.7, against 2 V/µs and 2.3 V/µs; worked in the design's header).
-func TestMixedTemplatesDemo(t *testing.T) {
-	const name = "mixed-templates.toml"
+// demoRanked derives an embedded demo design and ranks the demo catalog on it.
+func demoRanked(t *testing.T, name string) (*filter.Plan, []filter.Result) {
+	t.Helper()
 	b, err := fs.ReadFile(data.Designs, name)
 	if err != nil {
 		t.Fatal(err)
@@ -110,25 +107,51 @@ func TestMixedTemplatesDemo(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	kinds := map[string]bool{}
-	for _, s := range p.Stages {
-		kinds[s.Kind] = true
-	}
-	if len(p.Stages) != 4 || len(kinds) != 4 {
-		t.Fatalf("%d stages of %d kinds, want four templates", len(p.Stages), len(kinds))
-	}
 	c, err := catalog.Load(catalog.FSLayer("demo", data.Catalog))
 	if err != nil {
 		t.Fatal(err)
 	}
 	rs := filter.Evaluate(p, c.Parts, filter.Options{})
 	filter.Rank(rs, filter.SortMargin)
+	return p, rs
+}
+
+// TestPickupCounterDemo derives and ranks the embedded demo design that
+// puts three templates on one quad. By hand (formulas in the README,
+// Sedra & Smith for the astable, from memory): the detector's edges need
+// 0.8·(3 V − (−3 V))/2.5 µs = 1.92 V/µs; the clock's period is
+// T = 2·33 kΩ·10 nF·ln((1 + β)/(1 − β)) with β = 10/37, and both
+// transitions in 5 % of it need 2·12 V/(0.05·T) ≈ 1.31 V/µs. The 18 V CMOS
+// quad serves all three stages in one package; the slow bipolar quad in the
+// same footprint (0.42 V/µs typical from a graph, × 0.7) fails both.
+func TestPickupCounterDemo(t *testing.T) {
+	p, rs := demoRanked(t, "pickup-counter-6v.toml")
+	kinds := map[string]bool{}
+	for _, s := range p.Stages {
+		kinds[s.Kind] = true
+	}
+	if len(p.Stages) != 3 || len(kinds) != 3 {
+		t.Fatalf("%d stages of %d kinds, want three templates", len(p.Stages), len(kinds))
+	}
+	beta := 10.0 / 37
+	period := 2 * 33e3 * 10e-9 * math.Log((1+beta)/(1-beta))
+	for _, tt := range []struct {
+		stage string
+		want  float64
+	}{
+		{"detect", 0.8 * 6 / 2.5e-6},
+		{"clock", 2 * 12 / (0.05 * period)},
+	} {
+		if got := requirement(t, p, tt.stage, filter.KeySlew).Value; math.Abs(got-tt.want) > 1e-9*tt.want {
+			t.Errorf("%s slew requirement %g V/s, want %g V/s", tt.stage, got, tt.want)
+		}
+	}
 	if !rs[0].Pass {
 		t.Fatalf("no part passes; best %s fails %d checks", rs[0].Part.ID, rs[0].Failed)
 	}
 	best := rs[0]
 	if best.Part.Channels < 4 || best.Packages != 1 {
-		t.Errorf("best %s: %d channels in %d packages, want one quad serving all four stages", best.Part.ID, best.Part.Channels, best.Packages)
+		t.Errorf("best %s: %d channels in %d packages, want one quad serving all three stages", best.Part.ID, best.Part.Channels, best.Packages)
 	}
 	for _, r := range rs {
 		if r.Part.ID != "gp4-bip" {
@@ -146,6 +169,57 @@ func TestMixedTemplatesDemo(t *testing.T) {
 		return
 	}
 	t.Error("gp4-bip not in the demo catalog")
+}
+
+// TestTurbidityDemo: the photodiode amplifier of the turbidity demo
+// (1 MΩ, 22 pF, 10 kHz) needs the GBW at which the maximally flat response
+// with its Cf reaches 10 kHz; the independent nodal sweep (tiaNodal) at
+// that GBW and Cf must end at 10 kHz, while the shortcut 2π·Rf·Cin·f² =
+// 13.8 kHz (Graeme, Photodiode Amplifiers, 1996, from memory) falls short.
+// A bipolar input fails its DC error: Ib·Rf alone is 330 nA × 1 MΩ =
+// 330 mV against 10 mV allowed.
+func TestTurbidityDemo(t *testing.T) {
+	p, rs := demoRanked(t, "turbidity-5v.toml")
+	gbw := requirement(t, p, "photo", filter.KeyGBW).Value
+	shortcut := 2 * math.Pi * 1e6 * 22e-12 * 1e4 * 1e4
+	part := tmplPart("t")
+	part.Cin = catalog.Opt{}
+	sp := stagePlan(t, p, "photo")
+	// sweep returns the nodal −3 dB bandwidth at GBW g with the flat Cf the
+	// engine picks for it (figures pinned to g: no temperature derating).
+	sweep := func(g float64) float64 {
+		f := filter.Figures(part, p)
+		f.GBW = filter.Figure{V: g, Known: true, Basis: filter.BasisGuaranteed}
+		cf, _, _ := filter.TIAFeedbackCap(sp, part, &f)
+		f3, _ := tiaBandwidth(1e6, 22e-12, cf, g)
+		return f3
+	}
+	tmplNear(t, "swept −3 dB at the requirement", sweep(gbw), 1e4, 1e-3)
+	if f3 := sweep(shortcut); f3 > 0.8e4 {
+		t.Errorf("shortcut GBW reaches %g Hz, want well short of 10 kHz", f3)
+	}
+	seen := 0
+	for _, r := range rs {
+		switch r.Part.ID {
+		case "rr2-cmos":
+			seen++
+			if !r.Pass {
+				t.Errorf("rr2-cmos fails %d checks, want a pass", r.Failed)
+			}
+		case "gp2-bip":
+			seen++
+			failed := map[string]bool{}
+			for _, ch := range r.Failing() {
+				failed[ch.Stage()+"/"+string(ch.Key())] = true
+			}
+			if !failed["photo/dc_error"] {
+				t.Errorf("gp2-bip does not fail photo/dc_error (fails %v)", failed)
+			}
+		}
+	}
+	if seen != 2 {
+		t.Errorf("found %d of rr2-cmos and gp2-bip in the ranking", seen)
+	}
 }
 
 // TestTemplateDesignsRoundTrip writes each template design back as TOML
@@ -222,4 +296,16 @@ func BenchmarkEvaluateTemplates(b *testing.B) {
 		rs := filter.Evaluate(p, parts, filter.Options{})
 		filter.Rank(rs, filter.SortMargin)
 	}
+}
+
+// stagePlan finds a stage of a plan by name.
+func stagePlan(t *testing.T, p *filter.Plan, name string) *filter.StagePlan {
+	t.Helper()
+	for i := range p.Stages {
+		if p.Stages[i].Name == name {
+			return &p.Stages[i]
+		}
+	}
+	t.Fatalf("no stage %q", name)
+	return nil
 }

@@ -24,14 +24,21 @@ import (
 //	shunt_r    Ω   detector shunt resistance, sets the DC noise gain 1 + Rf/shunt_r [open]
 //	load_r     Ω   resistive load at the output, to ref [none]
 //	dc_error   V   allowed output DC error [no check]
+//	noise      V   allowed output noise, rms [no check]
+//	noise_band Hz  measurement or post-filter band the noise is integrated over [none:
+//	               the stage's own response]
+//	noise_order —  Butterworth order of that filter; 0 an ideal brick wall [0]
 //
 // Requirements (Graeme, Photodiode Amplifiers, 1996; from memory):
 //
 //	input_range     the point ref (the inputs sit at ref)
 //	output_range    ref … ref ± i_max·Rf
-//	gbw             2π·Rf·Cin·f², Cin including the part's own cin: maximally flat
-//	                response at f with Cf = circuit.FeedbackCapForTIAFlat (the formula
-//	                shows Cf at exactly that GBW; TIAFeedbackCap gives it per part)
+//	gbw             the GBW at which the maximally flat response (Q = 1/√2, Butterworth)
+//	                with its Cf = circuit.FeedbackCapForTIAFlat in the loop reaches f
+//	                (circuit.GBWForTIA; Cin including the part's own cin); each
+//	                candidate's check carries its own Cf (Aside "cf")
+//	noise           with noise: output noise of en (gain peaking 1 + Cin/Cf), in and
+//	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed
 //	slew            0.8·i_max·Rf/(0.35/f): the full step within the rise time the
 //	                bandwidth sets
 //	output_current  i_max + i_max·Rf/load_r
@@ -61,23 +68,20 @@ func (transimpedanceTemplate) Params() []Param {
 		q("shunt_r", "detector shunt resistance", catalog.Ohm, "detector shunt resistance (DC noise gain 1 + Rf/shunt_r)"),
 		q("load_r", "load resistance", catalog.Ohm, "resistive load at the output, to ref"),
 		q("dc_error", "allowed DC error", catalog.Volt, "allowed output DC error, Vos·(1 + Rf/shunt_r) + Ib·Rf; no check when not given"),
+		q("noise", "allowed noise", catalog.Volt, "allowed output noise, V rms (en with the Cin gain peaking, in, Rf thermal); no check when not given"),
+		noiseBandParam(), noiseOrderParam(),
 	}
 }
 
 // Notes of the transimpedance gbw check.
 const (
-	noteTIACin   = "GBW × cin/(cin + part cin): the part's own input capacitance adds to the detector's"
+	noteTIACin   = "GBW scaled by the need at cin/the need at cin + part cin: the part's own input capacitance adds to the detector's"
 	noteTIANoCin = "the catalog gives no input capacitance; only the stage's cin is counted"
 )
 
-// tiaCfShare is the Cf/Cin ratio above which the gbw formula's Cf ≪ Cin
-// assumption is flagged: at 1/10 the bandwidth is already 5 % short
-// (f·√(Cin/(Cin + Cf)) = 0.953·f).
-const tiaCfShare = 0.1
-
 // tia is a transimpedance stage's circuit values.
 type tia struct {
-	rf, cin, f, imax, ng float64
+	rf, cin, f, imax, ng, rsh float64
 }
 
 func readTIA(in *StageInput) (tia, error) {
@@ -91,12 +95,13 @@ func readTIA(in *StageInput) (tia, error) {
 			return t, err
 		}
 	}
-	if err := tmplOptionalPositive(in, "shunt_r", "load_r", "dc_error"); err != nil {
+	if err := tmplOptionalPositive(in, "shunt_r", "load_r", "dc_error", "noise", "noise_band"); err != nil {
 		return t, err
 	}
 	t.ng = 1
 	if rsh, ok := in.Num("shunt_r"); ok {
 		t.ng = 1 + t.rf/rsh
+		t.rsh = rsh
 	}
 	return t, nil
 }
@@ -129,14 +134,18 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		Why: fmt.Sprintf("ref … ref %s i_max·Rf = %s … %s %s %s·%s", sign, V(ref), V(ref), sign, I, Ohm(t.rf))})
 	gbw := circuit.GBWForTIA(t.rf, t.cin, t.f)
 	cf := circuit.FeedbackCapForTIAFlat(t.rf, t.cin, gbw)
-	cinF := t.cin
-	gwhy := fmt.Sprintf("2π·Rf·Cin·f² = 2π·%s·%s·(%s)² (+ the part's own cin); maximally flat with Cf = %s",
-		Ohm(t.rf), F(t.cin), Hz, F(cf))
-	if cf > tiaCfShare*t.cin {
-		gwhy += fmt.Sprintf(" (Cf is not ≪ Cin: the bandwidth falls to about f·√(Cin/(Cin+Cf)) = %.2g·f)", math.Sqrt(t.cin/(t.cin+cf)))
-	}
+	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out",
+		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(circuit.GBWForTIANoCf(t.rf, t.cin, t.f), catalog.Hertz))
+	tc := t
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, cinF) }, Why: gwhy})
+		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, tc, gbw) },
+		Aside: func(part *catalog.Part, f *PartFigures) Aside {
+			if !f.GBW.Known || !(f.GBW.V > 0) {
+				return Aside{}
+			}
+			return Aside{Kind: AsideCf, V: circuit.FeedbackCapForTIAFlat(tc.rf, tc.cin+partCin(part), f.GBW.V)}
+		},
+		Why: gwhy})
 	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(vo, sp.Rise), Dim: catalog.VoltPerSecond,
 		Why: fmt.Sprintf("0.8·i_max·Rf/(0.35/f) = 0.8·%s·%s/(0.35/%s)", I, Ohm(t.rf), Hz)})
 	i, why := t.imax, "i_max = "+I
@@ -152,18 +161,56 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 			Why: fmt.Sprintf("Vos·(1 + Rf/shunt_r) + Ib·Rf ≤ %s with 1 + Rf/shunt_r = %s, Rf = %s",
 				V(v), catalog.Format(ng, catalog.Dimensionless), Ohm(rf))})
 	}
+	if v, ok := in.Num("noise"); ok {
+		band, order, err := readNoiseBand(in)
+		if err != nil {
+			return sp, err
+		}
+		temp := p.TempHigh
+		add(Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
+			Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaNoise(part, f, tc, temp, band, order) },
+			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), flat Cf per part, T = %.4g K, %s",
+				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), tiaBandText(band, order))})
+	}
 	return sp, nil
 }
 
-// tiaGBW is the part's GBW scaled by cin/(cin + part cin), so that the
-// check's margin is GBW/(2π·Rf·(cin + part cin)·f²) − 1.
-func tiaGBW(p *catalog.Part, f *PartFigures, cin float64) Figure {
+// partCin is the part's own input capacitance, 0 when the catalog lacks it.
+func partCin(p *catalog.Part) float64 {
+	if p != nil && p.Cin.Set && p.Cin.V > 0 {
+		return p.Cin.V
+	}
+	return 0
+}
+
+// tiaNoise is the transimpedance output noise on a part: its worst-case en
+// and in (with their 1/f corners when given), its largest credible GBW
+// (GBWHigh: more GBW widens the band and, with a smaller flat Cf, the
+// gain peaking) and the flat Cf that GBW needs.
+func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order int) Figure {
+	if !f.En.Known || !f.In.Known || !f.GBWHigh.Known || !(f.GBWHigh.V > 0) {
+		return Figure{}
+	}
+	cin := t.cin + partCin(p)
+	g := f.GBWHigh.V
+	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V, InCorner: p.InCorner.V,
+		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, g), Cin: cin, Rsh: t.rsh, GBW: g,
+		TempK: circuit.KelvinFromCelsius(tempC), Band: band, Order: order}
+	basis := weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis)
+	return Figure{V: n.OutputRMS(), Known: true, Basis: basis, Note: f.En.Note}
+}
+
+// tiaGBW is the part's GBW scaled by need/need', need the stage's
+// requirement at the stage's cin and need' the requirement with the
+// part's own cin added (circuit.GBWForTIA both), so that the check's margin
+// is GBW/need' − 1.
+func tiaGBW(p *catalog.Part, f *PartFigures, t tia, need float64) Figure {
 	g := f.GBW
 	if !g.Known {
 		return g
 	}
-	if p.Cin.Set && p.Cin.V > 0 {
-		g.V *= cin / (cin + p.Cin.V)
+	if c := partCin(p); c > 0 {
+		g.V *= need / circuit.GBWForTIA(t.rf, t.cin+c, t.f)
 		g.Note = noteTIACin
 	} else {
 		g.Note = noteTIANoCin
@@ -189,7 +236,7 @@ func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 // circuit.FeedbackCapForTIAFlat with the stage's cin plus the part's own
 // input capacitance (when the catalog gives it) and the part's worst-case
 // GBW; bw is the −3 dB bandwidth it then reaches (circuit.TIAResponse and
-// LowPass2Bandwidth, ≈ circuit.BandwidthTIA).
+// LowPass2Bandwidth, = circuit.BandwidthTIA).
 // ok is false when sp is not a transimpedance stage or the GBW is unknown.
 func TIAFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
 	if sp == nil || sp.Stage == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
@@ -199,10 +246,7 @@ func TIAFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw f
 	if err != nil {
 		return 0, 0, false
 	}
-	cin := t.cin
-	if part != nil && part.Cin.Set {
-		cin += part.Cin.V
-	}
+	cin := t.cin + partCin(part)
 	cf = circuit.FeedbackCapForTIAFlat(t.rf, cin, f.GBW.V)
 	f0, q := circuit.TIAResponse(t.rf, cin, cf, f.GBW.V)
 	bw = circuit.LowPass2Bandwidth(f0, q)

@@ -45,17 +45,31 @@ ref = "1 V"`
 
 // Transimpedance bandwidth relation (Graeme, Photodiode Amplifiers: Op Amp
 // Solutions, 1996; from memory): with a single-pole op-amp and the
-// maximally flat feedback capacitor, the −3 dB bandwidth is
-// f = √(GBW/(2π·Rf·Cin)), so GBW ≥ 2π·Rf·Cin·f². Worked by hand: 100 kΩ,
-// 100 pF, 1 MHz need 2π·1e5·1e-10·1e12 = 62.83 MHz, and Cf ≈
-// 1/(√2·π·Rf·f) = 2.25 pF. The nodal sweep with that GBW and Cf must give
-// a flat response whose −3 dB point is f (within the Cf ≪ Cin
-// approximation, √(Cin/(Cin + Cf)) = 0.989).
+// maximally flat feedback capacitor the response is a Butterworth pair at
+// f0 = √(GBW/(2π·Rf·(Cin + Cf))). The shortcut GBW = 2π·Rf·Cin·f² leaves Cf
+// out: for 100 kΩ, 100 pF, 1 MHz it gives 62.83 MHz, and the nodal sweep
+// at that GBW with its flat Cf ends at 0.989 MHz — the old rule passed a
+// part at exactly that GBW. The requirement now solves the response with
+// Cf in the loop; the independent nodal sweep at the required GBW and the
+// Cf it reports must reach 1 MHz, flat.
 func TestTransimpedanceBandwidth(t *testing.T) {
 	p := tmplPlan(t, rails12, tiaStage)
 	gbw := tmplMust(t, p, filter.KeyGBW)
-	tmplNear(t, "gbw", gbw.Value, 2*math.Pi*1e5*100e-12*1e12, 1e-12)
-	tmplContains(t, "gbw why", gbw.Why, "Cf = 2.25 pF")
+	shortcut := 2 * math.Pi * 1e5 * 100e-12 * 1e12
+	tmplContains(t, "gbw why", gbw.Why, "Cf = 2.23 pF")
+	tmplContains(t, "gbw why", gbw.Why, "2π·Rf·Cin·f² = 62.8 MHz")
+
+	t.Run("old rule falls short", func(t *testing.T) {
+		part := tmplPart("t")
+		part.GBW = catalog.Spec{Min: catalog.Some(shortcut)}
+		f := filter.Figures(part, p)
+		cf, _, _ := filter.TIAFeedbackCap(&p.Stages[0], part, &f)
+		f3, _ := tiaBandwidth(1e5, 100e-12, cf, shortcut)
+		tmplNear(t, "swept −3 dB at the shortcut", f3, 0.9893e6, 1e-3)
+		if c := tmplCheck(t, p, part, filter.KeyGBW); c.Pass {
+			t.Errorf("a part at the shortcut GBW passes (margin %g) but reaches only %g Hz", c.Margin, f3)
+		}
+	})
 
 	part := tmplPart("t")
 	part.GBW = catalog.Spec{Min: catalog.Some(gbw.Value)}
@@ -64,42 +78,52 @@ func TestTransimpedanceBandwidth(t *testing.T) {
 	if !ok {
 		t.Fatal("no feedback capacitor")
 	}
-	tmplNear(t, "Cf", cf, 1/(math.Sqrt2*math.Pi*1e5*1e6), 0.01)
 	f3, peak := tiaBandwidth(1e5, 100e-12, cf, gbw.Value)
-	tmplNear(t, "swept −3 dB bandwidth", f3, 1e6, 0.015)
-	tmplNear(t, "bandwidth TIAFeedbackCap reports", bw, f3, 2e-3)
+	tmplNear(t, "swept −3 dB bandwidth", f3, 1e6, 1e-3)
+	tmplNear(t, "bandwidth TIAFeedbackCap reports", bw, f3, 1e-3)
 	if peak > 1.001 {
 		t.Errorf("peak gain %.4f × Rf, want a maximally flat response (no peaking)", peak)
 	}
+	c := tmplCheck(t, p, part, filter.KeyGBW)
+	if !c.Pass || c.Aside.Kind.Key() != "cf" {
+		t.Errorf("part at the requirement: pass %v, aside %+v; want a pass carrying its cf", c.Pass, c.Aside)
+	}
+	tmplNear(t, "check's Cf", c.Aside.V, cf, 1e-12)
 }
 
 // The part's own input capacitance adds to the detector's: a part with
-// 5 pF needs GBW ≥ 2π·Rf·105 pF·f², so the margin of a part at exactly the
-// 100 pF figure is 100/105 − 1.
+// 5 pF is checked against the need at 105 pF. Independent check: the GBW
+// at which the margin would be 0 (need/(1 + margin)) must reach 1 MHz in
+// the nodal sweep with 105 pF and its flat Cf.
 func TestTransimpedancePartCin(t *testing.T) {
 	p := tmplPlan(t, rails12, tiaStage)
 	need := tmplMust(t, p, filter.KeyGBW).Value
-	tests := []struct {
-		name   string
-		cin    catalog.Opt
-		margin float64
-		note   string
-	}{
-		{"catalog gives 5 pF", catalog.Some(5e-12), 100.0/105 - 1, "part cin"},
-		{"catalog gives none", catalog.Opt{}, 0, "no input capacitance"},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			part := tmplPart("t")
-			part.GBW = catalog.Spec{Min: catalog.Some(need)}
-			part.Cin = tt.cin
-			c := tmplCheck(t, p, part, filter.KeyGBW)
-			if math.Abs(c.Margin-tt.margin) > 1e-9 {
-				t.Errorf("margin %.6f, want %.6f", c.Margin, tt.margin)
-			}
-			tmplContains(t, "note", c.Note, tt.note)
-		})
-	}
+	t.Run("catalog gives 5 pF", func(t *testing.T) {
+		part := tmplPart("t")
+		part.GBW = catalog.Spec{Min: catalog.Some(need)}
+		part.Cin = catalog.Some(5e-12)
+		c := tmplCheck(t, p, part, filter.KeyGBW)
+		tmplContains(t, "note", c.Note, "part cin")
+		if c.Margin >= 0 {
+			t.Fatalf("margin %g, want < 0 (5 pF more to drive)", c.Margin)
+		}
+		g := need / (1 + c.Margin)
+		part.GBW = catalog.Spec{Min: catalog.Some(g)}
+		f := filter.Figures(part, p)
+		cf, _, _ := filter.TIAFeedbackCap(&p.Stages[0], part, &f)
+		f3, _ := tiaBandwidth(1e5, 105e-12, cf, g)
+		tmplNear(t, "swept −3 dB with 105 pF at zero margin", f3, 1e6, 1e-3)
+	})
+	t.Run("catalog gives none", func(t *testing.T) {
+		part := tmplPart("t")
+		part.GBW = catalog.Spec{Min: catalog.Some(need)}
+		part.Cin = catalog.Opt{}
+		c := tmplCheck(t, p, part, filter.KeyGBW)
+		if c.Margin != 0 {
+			t.Errorf("margin %g, want 0", c.Margin)
+		}
+		tmplContains(t, "note", c.Note, "no input capacitance")
+	})
 }
 
 // The other needs, worked by hand for 10 µA into 100 kΩ from a 1 V ref:

@@ -1,7 +1,8 @@
 package filter
 
 // Tuning constants of the requirements engine, each with its unit and the
-// reason for its value.
+// reason for its value. Physical constants and the constants of the
+// formulas (0.35, 0.8, k) live with the formulas in filter/circuit.
 const (
 	// DefaultDerateTyp multiplies a bigger-is-better figure (GBW, slew,
 	// linear Aol, output current) known only as typical. 0.7 is the usual
@@ -11,23 +12,27 @@ const (
 	// noise densities, Iq) known only as typical: spread is lopsided, a
 	// max is often 2–5 × typ, so 2 is the mildest sensible guess.
 	DefaultInflateTyp = 2.0
+	// DefaultSpeedTempco is the fraction by which a GBW or slew figure
+	// given at 25 °C (a 25 °C limit or a typical) is lowered per kelvin
+	// away from 25 °C, 1/K. From memory (textbook device behaviour, no
+	// datasheet at hand): MOS mobility falls about as T^−1.5, which takes
+	// a CMOS stage's gm, GBW and slew down roughly 0.2–0.4 %/K when hot;
+	// bipolar parts lose slew at cold as their bias currents fall. 0.2 %/K
+	// in both directions is the mild end, 13 % at 85 °C.
+	DefaultSpeedTempco = 0.002
+	// DefaultIbColdTempco is the fraction by which a bipolar part's Ib
+	// and Ios given at 25 °C are raised per kelvin below 25 °C, 1/K. From
+	// memory: the current gain β of a silicon transistor falls at cold, so
+	// base current rises; bias current of a bipolar input roughly doubles
+	// from 25 °C to −55 °C, 1/80 K = 0.0125/K (linear).
+	DefaultIbColdTempco = 0.0125
 	// DefaultGainError is the allowed gain error ε at the signal
 	// frequency when a stage does not say (DESIGN.md: default 1 %).
 	DefaultGainError = 0.01
 
-	// Boltzmann is the Boltzmann constant k, J/K (exact, SI 2019).
-	Boltzmann = 1.380649e-23
-	// ZeroCelsius is 0 °C in kelvin (exact).
-	ZeroCelsius = 273.15
 	// RoomTemp is the temperature datasheet limits without _ot are given at, °C.
 	RoomTemp = 25.0
 
-	// SlewFraction is the part of a square step the slew must cover in the
-	// allowed rise time: the 10–90 % span, 0.8 of the step.
-	SlewFraction = 0.8
-	// RiseBandwidth is the rise-time × bandwidth product of a single-pole
-	// response, ln 9 / 2π ≈ 0.35 (10–90 % rise time t = 0.35 / f−3dB).
-	RiseBandwidth = 0.35
 	// FETDoubling is the temperature step over which FET-input bias current
 	// (gate leakage) doubles, K.
 	FETDoubling = 10.0

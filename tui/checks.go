@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -55,7 +56,7 @@ func required(c *filter.Check) string {
 	}
 	switch {
 	case len(q.Allowed) > 0:
-		return strings.Join(q.Allowed, " ")
+		return safe.Text(strings.Join(q.Allowed, " "))
 	case q.Key == filter.KeyTemperature:
 		return span(q.Low, q.High, catalog.Celsius)
 	case q.Key == filter.KeyCost:
@@ -74,7 +75,7 @@ func available(c *filter.Check, p *catalog.Part) string {
 	}
 	switch q.Key {
 	case filter.KeyPackage:
-		return strings.Join(p.Packages, " ")
+		return safe.Text(strings.Join(p.Packages, " "))
 	case filter.KeyTech:
 		return string(p.Tech)
 	case filter.KeyLifecycle:
@@ -131,7 +132,10 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			}
 			note := c.Note
 			if note == "" {
-				note = st.Why.Render(c.Req.Why)
+				note = st.Why.Render(safe.Text(c.Req.Why))
+			}
+			if a := c.Aside.Text(); a != "" {
+				note = a + " · " + note
 			}
 			margin := marginText(c.Margin)
 			if c.Status == filter.StatusFail {
@@ -221,7 +225,7 @@ func (p *checksPane) draw(r *filter.Result, focused bool, w, h int) []string {
 		out := []string{paneHeading(st, "CHECKS", focused, w), st.Muted.Render(fit("no candidate selected", w))}
 		return append(out, blank(w, h-2)...)
 	}
-	out := []string{paneHeading(st, "CHECKS · "+r.Part.ID+" — "+r.Part.Name, focused, w), fit(p.summary(r), w)}
+	out := []string{paneHeading(st, "CHECKS · "+safe.Text(r.Part.ID+" — "+r.Part.Name), focused, w), fit(p.summary(r), w)}
 	body := p.lines(r, w)
 	out = append(out, body[0])
 	for i := 1 + p.offset; i < len(body) && len(out) < h; i++ {
@@ -252,7 +256,7 @@ func (p *checksPane) summary(r *filter.Result) string {
 	if !math.IsNaN(r.SupplyCurrent) {
 		fmt.Fprintf(&b, " · Iq %s", catalog.Format(r.SupplyCurrent, catalog.Ampere))
 	}
-	fmt.Fprintf(&b, " · %s · %s", strings.Join(r.Part.Packages, " "), r.Part.Lifecycle)
+	fmt.Fprintf(&b, " · %s · %s", safe.Text(strings.Join(r.Part.Packages, " ")), safe.Text(string(r.Part.Lifecycle)))
 	return b.String()
 }
 

@@ -48,8 +48,8 @@ func TestEndToEnd(t *testing.T) {
 			}
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 			tm.Send(tea.KeyMsg{Type: tea.KeyCtrlU})
-			tm.Type("60 kHz")
-			out.waitFor(t, "60 kHz")
+			tm.Type("250 kHz")
+			out.waitFor(t, "250 kHz")
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 
 			// Failing parts, then two marks in the list.
@@ -91,9 +91,9 @@ func TestEndToEnd(t *testing.T) {
 			}
 			for _, want := range []string{
 				marked[0].Part.ID, marked[1].Part.ID, // the parts
-				fm.design.Title, // the design
-				"2π·60 kHz·5 V", // a requirement with its formula, at the edited frequency
-				"advisory",      // the caution
+				fm.design.Title,     // the design
+				"2π·250 kHz·2.79 V", // a requirement with its formula, at the edited frequency
+				"advisory",          // the caution
 			} {
 				if !strings.Contains(md, want) {
 					t.Errorf("exported Markdown lacks %q:\n%s", want, md)

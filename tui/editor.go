@@ -10,6 +10,17 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 )
 
+// endsOptions reports whether an editor takes "--" to end its options, so
+// that nothing after it is read as an option or a "+command" (vi and its
+// kin, nano: getopt-style command lines).
+func endsOptions(editor string) bool {
+	switch editor {
+	case "vi", "vim", "nvim", "view", "nano":
+		return true
+	}
+	return false
+}
+
 // takesLine reports whether an editor takes "+LINE FILE" to open a file
 // at a line (vi and its kin, nano, emacs, micro, kakoune, joe, mg, ne).
 func takesLine(editor string) bool {
@@ -43,8 +54,15 @@ func (m *Model) openEditor() tea.Cmd {
 	return tea.ExecProcess(cmd, func(err error) tea.Msg { return editorDoneMsg{err: err} })
 }
 
-// editorCommand builds the command that opens file at line.
+// editorCommand builds the command that opens file at line. The file is
+// passed as an absolute path (so a catalog file named "+cmd.toml" or
+// "-x.toml" is never read as an editor command or option), after "--"
+// where the editor takes it; no shell is involved.
 func editorCommand(getenv func(string) string, file string, line int) (*exec.Cmd, error) {
+	abs, err := filepath.Abs(file)
+	if err != nil {
+		return nil, fmt.Errorf("editor: %w", err)
+	}
 	ed := strings.TrimSpace(getenv("VISUAL"))
 	if ed == "" {
 		ed = strings.TrimSpace(getenv("EDITOR"))
@@ -56,10 +74,14 @@ func editorCommand(getenv func(string) string, file string, line int) (*exec.Cmd
 	if _, err := exec.LookPath(args[0]); err != nil {
 		return nil, fmt.Errorf("editor %q not found: set $EDITOR", args[0])
 	}
-	if line > 0 && takesLine(filepath.Base(args[0])) {
+	name := filepath.Base(args[0])
+	if line > 0 && takesLine(name) {
 		args = append(args, "+"+strconv.Itoa(line))
 	}
-	args = append(args, file)
+	if endsOptions(name) {
+		args = append(args, "--")
+	}
+	args = append(args, abs)
 	return exec.Command(args[0], args[1:]...), nil
 }
 

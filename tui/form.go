@@ -8,6 +8,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -181,7 +182,7 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 		case f.editing && i == f.cursor:
 			value = f.input.View() // its width is set by settle
 		case fl.Set:
-			value = st.Value.Render(fit(fl.Raw, valueW))
+			value = st.Value.Render(fit(safe.Text(fl.Raw), valueW))
 		case fl.Default != "":
 			value = st.Default.Render(fit("("+fl.Default+")", valueW))
 		default:
@@ -232,7 +233,7 @@ func (f *form) requirements(out *[]formLine, plan *filter.Plan, stage string, w 
 		r := &reqs[i]
 		*out = append(*out, formLine{fit("  "+requirementText(r), w), -1})
 		if r.Why != "" {
-			for _, l := range wrap(r.Why, w-6) {
+			for _, l := range wrap(safe.Text(r.Why), w-6) {
 				*out = append(*out, formLine{st.Why.Render(fit("      "+l, w)), -1})
 			}
 		}
@@ -252,7 +253,7 @@ func requirementText(r *filter.Requirement) string {
 	}
 	switch {
 	case len(r.Allowed) > 0:
-		return k + " ∈ " + strings.Join(r.Allowed, ", ")
+		return k + " ∈ " + safe.Text(strings.Join(r.Allowed, ", "))
 	case r.Key == filter.KeyTemperature:
 		return k + " covers " + span(r.Low, r.High, catalog.Celsius)
 	case r.Key == filter.KeyCost:
@@ -265,7 +266,7 @@ func requirementText(r *filter.Requirement) string {
 func formTitle(design *filter.Design) string {
 	title := "DESIGN"
 	if design.Title != "" {
-		title += " · " + design.Title
+		title += " · " + safe.Text(design.Title)
 	}
 	return title
 }

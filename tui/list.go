@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -240,8 +241,8 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 	cells := []string{
 		cur + mark,
 		fmt.Sprint(i + 1),
-		r.Part.ID,
-		r.Part.Name,
+		safe.Text(r.Part.ID),
+		safe.Text(r.Part.Name),
 		string(r.Part.Tech),
 		fmt.Sprint(r.Part.Channels),
 		marginCell,

@@ -11,6 +11,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -80,7 +81,10 @@ type Model struct {
 
 	watcher   *watcher
 	reloadSeq int // debounce: only the newest pending reload runs
-	quitting  bool
+	// loadGen numbers catalog reads as they start; loadShown is the newest
+	// whose result was taken, so a slow older read never replaces it.
+	loadGen, loadShown int
+	quitting           bool
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -254,11 +258,11 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 
 // setMessage puts a message on the status line.
 func (m *Model) setMessage(format string, a ...any) {
-	m.message, m.msgErr = fmt.Sprintf(format, a...), false
+	m.message, m.msgErr = safe.Text(fmt.Sprintf(format, a...)), false
 }
 
 // setError puts an error on the status line.
-func (m *Model) setError(err error) { m.message, m.msgErr = err.Error(), true }
+func (m *Model) setError(err error) { m.message, m.msgErr = safe.Text(err.Error()), true }
 
 // firstProblem returns the first of a catalog.Problems (the status line
 // has room for one), its file shown by base name to leave room for what is

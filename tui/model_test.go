@@ -41,10 +41,11 @@ func TestRankingIsTheEngines(t *testing.T) {
 	if got := topIDs(m, 1000); !slices.Equal(got, want) {
 		t.Errorf("list = %v, want the engine's passing order %v", got, want)
 	}
-	// Gain stage: 10 Vpp (Vo = 5 V) at 20 kHz needs SR ≥ 2π·f·Vo = 0.628 V/µs
-	// (full-power bandwidth, Sedra & Smith, Microelectronic Circuits — from memory).
-	if v := designText(m); !strings.Contains(v, "slew ≥ 0.628 V/µs") {
-		t.Errorf("design pane does not show the gain stage's slew need 0.628 V/µs:\n%s", v)
+	// Gain stage: 5.58 Vpp (Vo = 2.79 V) at 24 kHz needs SR ≥ 2π·f·Vo =
+	// 0.421 V/µs (full-power bandwidth, Sedra & Smith, Microelectronic
+	// Circuits — from memory).
+	if v := designText(m); !strings.Contains(v, "slew ≥ 0.421 V/µs") {
+		t.Errorf("design pane does not show the gain stage's slew need 0.421 V/µs:\n%s", v)
 	}
 }
 
@@ -58,22 +59,22 @@ func TestEditFrequencyReranks(t *testing.T) {
 		t.Fatal("no candidate at start")
 	}
 	fmax := top.MinFMax()
-	if math.IsNaN(fmax) || fmax > 60e3 {
-		t.Fatalf("precondition: top part %s has fmax %g, want below 60 kHz", top.Part.ID, fmax)
+	if math.IsNaN(fmax) || fmax > 250e3 {
+		t.Fatalf("precondition: top part %s has fmax %g, want below 250 kHz", top.Part.ID, fmax)
 	}
 	oldTop := top.Part.ID
-	editField(t, m, gainFreq, "60 kHz")
-	if got := m.design.Stage("gain").Value("signal.freq").V; got != 60e3 {
-		t.Fatalf("gain signal.freq in force = %g, want 60e3", got)
+	editField(t, m, gainFreq, "250 kHz")
+	if got := m.design.Stage("gain").Value("signal.freq").V; got != 250e3 {
+		t.Fatalf("gain signal.freq in force = %g, want 250e3", got)
 	}
 	if ids := topIDs(m, 1000); slices.Contains(ids, oldTop) {
-		t.Fatalf("%s (fmax %g Hz) still passes at 60 kHz: %v", oldTop, fmax, ids)
+		t.Fatalf("%s (fmax %g Hz) still passes at 250 kHz: %v", oldTop, fmax, ids)
 	}
 	if r := m.list.selected(m.rank.results); r == nil || r.Part.ID == oldTop {
 		t.Fatalf("selection did not move off the part that dropped out")
 	}
-	// SR ≥ 2π·60 kHz·5 V = 1.885 V/µs (same formula as above, worked by hand).
-	if v := designText(m); !strings.Contains(v, "slew ≥ 1.88 V/µs") || !strings.Contains(v, "2π·60 kHz·5 V") {
+	// SR ≥ 2π·250 kHz·2.79 V = 4.383 V/µs (same formula as above, worked by hand).
+	if v := designText(m); !strings.Contains(v, "slew ≥ 4.38 V/µs") || !strings.Contains(v, "2π·250 kHz·2.79 V") {
 		t.Errorf("design pane does not show the new slew need:\n%s", v)
 	}
 	press(t, m, "f")
@@ -134,8 +135,8 @@ func TestStaleRankingDropped(t *testing.T) {
 	m.focus = paneDesign
 	m.form.cursor = fieldIndex(t, m, gainFreq)
 	press(t, m, "enter", "home")
-	_, cmd1 := m.Update(keyMsg("1")) // 120 kHz
-	_, cmd2 := m.Update(keyMsg("1")) // 1120 kHz: nothing passes
+	_, cmd1 := m.Update(keyMsg("1")) // 124 kHz
+	_, cmd2 := m.Update(keyMsg("1")) // 1124 kHz: nothing passes
 	if cmd1 == nil || cmd2 == nil {
 		t.Fatalf("edits did not start rankings (error %q)", m.form.editErr)
 	}
@@ -147,8 +148,8 @@ func TestStaleRankingDropped(t *testing.T) {
 	if got := topIDs(m, 1000); !slices.Equal(got, want) {
 		t.Errorf("a stale ranking replaced the newer one: %v, want %v", got, want)
 	}
-	if f := m.rank.plan.Stages[1].Freq; math.Abs(f-1120e3) > 1e-6 {
-		t.Errorf("plan freq = %g, want 1120e3", f)
+	if f := m.rank.plan.Stages[0].Freq; math.Abs(f-1124e3) > 1e-6 {
+		t.Errorf("plan freq = %g, want 1124e3", f)
 	}
 }
 
@@ -159,7 +160,7 @@ func TestInlineError(t *testing.T) {
 	tests := []struct {
 		name, text, want string
 	}{
-		{"unknown unit", "20 kHzz", "unknown unit"},
+		{"unknown unit", "24 kHzz", "unknown unit"},
 		{"wrong dimension", "20 V", "want a frequency"},
 		{"not a number", "fast", "want a frequency"},
 	}
@@ -180,14 +181,14 @@ func TestInlineError(t *testing.T) {
 			if !strings.Contains(screen, "✗") || !strings.Contains(strings.Join(strings.Fields(screen), " "), firstWords(m.form.editErr, 3)) {
 				t.Errorf("screen does not show the inline error %q:\n%s", m.form.editErr, screen)
 			}
-			if got := m.design.Stage("gain").Value("signal.freq").V; got != 20e3 {
-				t.Errorf("freq in force = %g, want the last valid 20e3", got)
+			if got := m.design.Stage("gain").Value("signal.freq").V; got != 24e3 {
+				t.Errorf("freq in force = %g, want the last valid 24e3", got)
 			}
 			if got := topIDs(m, 1000); !slices.Equal(got, before) {
 				t.Errorf("ranking changed on an invalid value: %v, want %v", got, before)
 			}
 			press(t, m, "enter")
-			if !strings.Contains(m.message, "kept 20 kHz") {
+			if !strings.Contains(m.message, "kept 24 kHz") {
 				t.Errorf("message = %q, want it to say the value kept", m.message)
 			}
 			if m.mode != modeBrowse || m.form.editErr != "" {
@@ -203,15 +204,15 @@ func TestDeriveErrorInline(t *testing.T) {
 	m := newDemo(t, 120, 40)
 	m.form.cursor = fieldIndex(t, m, "supply.pos")
 	press(t, m, "enter", "ctrl+u")
-	typeText(t, m, "-1 V")
+	typeText(t, m, "-6 V")
 	if !strings.Contains(m.form.editErr, "not above supply.neg") {
 		t.Errorf("inline error = %q, want the derive error", m.form.editErr)
 	}
-	if m.design.Supply.Pos.V != 12 {
-		t.Errorf("V+ in force = %g, want 12", m.design.Supply.Pos.V)
+	if m.design.Supply.Pos.V != 5 {
+		t.Errorf("V+ in force = %g, want 5", m.design.Supply.Pos.V)
 	}
 	press(t, m, "esc")
-	if m.design.Supply.Pos.Raw != "12 V" || m.mode != modeBrowse {
+	if m.design.Supply.Pos.Raw != "5 V" || m.mode != modeBrowse {
 		t.Errorf("after esc: V+ %q, mode %v", m.design.Supply.Pos.Raw, m.mode)
 	}
 }
@@ -448,21 +449,28 @@ func TestEmbeddedPartIsReadOnly(t *testing.T) {
 	}
 }
 
-// TestEditorCommand: vi-like editors get +LINE before the file.
+// TestEditorCommand: vi-like editors get +LINE, then "--", then the file
+// as an absolute path, so a hostile file name such as "+!touch X;.toml"
+// (which vi would run as an ex command) is only ever a file name.
 func TestEditorCommand(t *testing.T) {
+	const hostile = "+!touch X;.toml"
+	abs, err := filepath.Abs(hostile)
+	if err != nil {
+		t.Fatal(err)
+	}
 	tests := []struct {
 		name, visual, editor string
 		want                 []string
 	}{
-		{"vi at line", "", "vi", []string{"vi", "+12", "f.toml"}},
-		{"visual wins", "vi", "nano", []string{"vi", "+12", "f.toml"}},
-		{"flags kept", "", "vi -n", []string{"vi", "-n", "+12", "f.toml"}},
-		{"other editor gets the file only", "", "cat", []string{"cat", "f.toml"}},
+		{"vi at line", "", "vi", []string{"vi", "+12", "--", abs}},
+		{"visual wins", "vi", "nano", []string{"vi", "+12", "--", abs}},
+		{"flags kept", "", "vi -n", []string{"vi", "-n", "+12", "--", abs}},
+		{"other editor gets the file only", "", "cat", []string{"cat", abs}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			env := map[string]string{"VISUAL": tc.visual, "EDITOR": tc.editor}
-			cmd, err := editorCommand(func(k string) string { return env[k] }, "f.toml", 12)
+			cmd, err := editorCommand(func(k string) string { return env[k] }, hostile, 12)
 			if err != nil {
 				t.Skipf("editor not installed: %v", err)
 			}

@@ -11,6 +11,7 @@ import (
 	"github.com/charmbracelet/lipgloss"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/preview"
 	"github.com/opsift/opsift/filter/sim"
@@ -289,7 +290,7 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 		if len(notes) > 1 {
 			more = fmt.Sprintf(" (+%d more notes: opsift preview)", len(notes)-1)
 		}
-		out = append(out, st.Why.Render(fit("note: "+notes[0]+more, w)))
+		out = append(out, st.Why.Render(fit("note: "+safe.Text(notes[0])+more, w)))
 	}
 	if len(out) > h {
 		out = out[:h]

@@ -37,11 +37,11 @@ func TestPreviewToggle(t *testing.T) {
 	top := m.list.selected(m.rank.results).Part.ID
 	openPreviewOn(t, m, top)
 	r := m.prev.res[0]
-	if r.Part.ID != top || r.Stage != "buffer" {
-		t.Fatalf("preview of %s in %s, want %s in the first stage (buffer)", r.Part.ID, r.Stage, top)
+	if r.Part.ID != top || r.Stage != "gain" {
+		t.Fatalf("preview of %s in %s, want %s in the first stage (gain)", r.Part.ID, r.Stage, top)
 	}
 	screen := m.View()
-	for _, want := range []string{"PREVIEW · buffer (follower)", "┤", "└──", " V ┤", "µs", "out ", "ideal", "slewing", "THD", top + " output"} {
+	for _, want := range []string{"PREVIEW · gain (noninverting)", "┤", "└──", " V ┤", "µs", "out ", "ideal", "slewing", "THD", top + " output"} {
 		if !strings.Contains(screen, want) {
 			t.Errorf("preview lacks %q:\n%s", want, screen)
 		}
@@ -52,59 +52,62 @@ func TestPreviewToggle(t *testing.T) {
 	}
 }
 
-// TestPreviewSlewLimited: in the demo's gain stage (10 Vpp at 20 kHz) the
-// obsolete bipolar quad, whose worst-case slew rate is below the
-// 2π·f·Vo = 0.628 V/µs the stage needs, turns the sine into a triangle no
-// taller than SR/(2f) — the fully slew-limited sine (Sedra & Smith,
-// Microelectronic Circuits, slew-rate limiting; from memory) — and the
-// pane says it is slewing.
+// TestPreviewSlewLimited: in the demo's gain stage (5.58 Vpp at 24 kHz)
+// the obsolete bipolar quad, whose worst-case slew rate (0.36 V/µs × 0.7 =
+// 0.252 V/µs) is below the 2π·f·Vo = 0.421 V/µs the stage needs, turns the
+// sine into a triangle no taller than SR/(2f) = 5.25 Vpp — the fully
+// slew-limited sine (Sedra & Smith, Microelectronic Circuits, slew-rate
+// limiting; from memory) — and the pane says it is slewing.
 func TestPreviewSlewLimited(t *testing.T) {
 	m := newDemo(t, 120, 40)
 	openPreviewOn(t, m, obsoleteQuad)
-	press(t, m, "]")
 	r := m.prev.res[0]
 	if r.Stage != "gain" {
-		t.Fatalf("] previews stage %q, want gain", r.Stage)
+		t.Fatalf("the preview opens on stage %q, want gain", r.Stage)
 	}
-	sr, f := r.Amp.SlewRise, 20e3
-	if sr >= 2*math.Pi*f*5 {
-		t.Fatalf("precondition: worst-case slew %g V/s is enough for 10 Vpp at 20 kHz", sr)
+	sr, f := r.Amp.SlewRise, 24e3
+	if sr >= 2*math.Pi*f*2.79 {
+		t.Fatalf("precondition: worst-case slew %g V/s is enough for 5.58 Vpp at 24 kHz", sr)
 	}
 	mt := r.Metrics
 	if limit := sr / (2 * f); mt.OutputPP > limit*1.01 {
 		t.Errorf("output %g Vpp, above the slew-limited triangle's SR/(2f) = %g Vpp", mt.OutputPP, limit)
 	}
-	if math.Abs(mt.IdealPP-10) > 0.05 {
-		t.Errorf("ideal %g Vpp, want 10 Vpp (gain 10 × 1 Vpp)", mt.IdealPP)
+	if math.Abs(mt.IdealPP-5.58) > 0.03 {
+		t.Errorf("ideal %g Vpp, want 5.58 Vpp (gain 6.2 × 0.9 Vpp)", mt.IdealPP)
 	}
-	// At SR/(2π·f·Vo) ≈ 0.56 the output still meets the input briefly
+	// At SR/(2π·f·Vo) ≈ 0.60 the output still meets the input briefly
 	// each half cycle, but slews for most of it.
 	if mt.SlewingFraction < 0.5 || mt.OutputPP >= mt.IdealPP {
 		t.Errorf("slewing fraction %g, output %g Vpp against %g: want slew-limited most of the time and short of the ideal", mt.SlewingFraction, mt.OutputPP, mt.IdealPP)
 	}
-	line := lineWith(t, m.View(), "out ", "pp (ideal 10 V)", "slewing")
+	line := lineWith(t, m.View(), "out ", "pp (ideal 5.58 V)", "slewing")
 	if !strings.Contains(line, percent(mt.SlewingFraction)) {
 		t.Errorf("metrics line %q does not show the slewing fraction %s", line, percent(mt.SlewingFraction))
 	}
-	press(t, m, "[")
+	press(t, m, "]")
 	if m.prev.res[0].Stage != "buffer" {
-		t.Errorf("[ previews %q, want buffer again", m.prev.res[0].Stage)
+		t.Errorf("] previews %q, want buffer", m.prev.res[0].Stage)
+	}
+	press(t, m, "[")
+	if m.prev.res[0].Stage != "gain" {
+		t.Errorf("[ previews %q, want gain again", m.prev.res[0].Stage)
 	}
 }
 
 // TestPreviewOscillator: in a relaxation stage the pane shows the
-// frequency against the ideal astable's. With β = R1/(R1+R2) = 1/3 and
+// frequency against the ideal astable's. With β = R1/(R1+R2) = 10/37 and
 // swing symmetric about the reference, the ideal period is
-// 2RC·ln((1+β)/(1−β)) = 2RC·ln 2 (Horowitz & Hill, The Art of
-// Electronics, op-amp relaxation oscillator; from memory): 4.81 kHz for
-// 15 kΩ and 10 nF. The worst-case swing need not be quite symmetric, so
+// 2RC·ln((1+β)/(1−β)) = 2RC·ln(47/27) (Horowitz & Hill, The Art of
+// Electronics, op-amp relaxation oscillator; from memory): 2.73 kHz for
+// 33 kΩ and 10 nF. The worst-case swing need not be quite symmetric, so
 // the check allows 10 %.
 func TestPreviewOscillator(t *testing.T) {
-	b, err := fs.ReadFile(data.Designs, "mixed-templates.toml")
+	b, err := fs.ReadFile(data.Designs, "pickup-counter-6v.toml")
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := filter.DecodeDesign("mixed-templates.toml", b)
+	d, err := filter.DecodeDesign("pickup-counter-6v.toml", b)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -122,7 +125,7 @@ func TestPreviewOscillator(t *testing.T) {
 	if mt.Frequency == nil || mt.IdealFrequency == nil {
 		t.Fatal("oscillator metrics without frequencies")
 	}
-	want := 1 / (2 * 15e3 * 10e-9 * math.Ln2)
+	want := 1 / (2 * 33e3 * 10e-9 * math.Log(47.0/27))
 	if got := *mt.IdealFrequency; math.Abs(got/want-1) > 0.10 {
 		t.Errorf("ideal frequency %g Hz, want about %g Hz", got, want)
 	}

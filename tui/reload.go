@@ -13,11 +13,13 @@ import (
 	"github.com/opsift/opsift/catalog"
 )
 
-// reloadedMsg carries a re-read catalog; why says what caused the reload.
+// reloadedMsg carries a re-read catalog; why says what caused the reload,
+// gen which read it was (Model.loadGen when it started).
 type reloadedMsg struct {
 	cat *catalog.Catalog
 	err error
 	why string
+	gen int
 }
 
 // fileChangedMsg says a watched catalog file changed on disk.
@@ -36,6 +38,10 @@ type editorDoneMsg struct{ err error }
 // directories (editors replace files by renaming, which a watch on the
 // file itself would lose), so for a source that is a file the events of
 // its directory are filtered down to that file.
+//
+// A source directory's parent is watched too, so that when the directory
+// is moved away or deleted and made again, the new one is watched and
+// read: the watch survives the directory being replaced.
 type watcher struct {
 	w     *fsnotify.Watcher
 	dirs  map[string]bool // source directories: any *.toml inside counts
@@ -62,6 +68,7 @@ func startWatcher(paths []string) *watcher {
 		case st.IsDir():
 			w.dirs[abs] = true
 			_ = fw.Add(abs)
+			_ = fw.Add(filepath.Dir(abs))
 		default:
 			w.files[abs] = true
 			_ = fw.Add(filepath.Dir(abs))
@@ -81,11 +88,25 @@ func (w *watcher) relevant(ev fsnotify.Event) bool {
 		return false
 	}
 	name := filepath.Clean(ev.Name)
+	if w.dirs[name] {
+		return true // the source directory itself came, went or moved
+	}
 	base := filepath.Base(name)
-	if strings.HasPrefix(base, ".") || !strings.HasSuffix(base, ".toml") {
+	if strings.HasPrefix(base, ".") || !catalog.IsCatalogName(base) {
 		return w.files[name]
 	}
 	return w.files[name] || w.dirs[filepath.Dir(name)]
+}
+
+// rewatch watches a source directory again when ev says it was made
+// anew (after being moved away or deleted): the old watch followed the
+// old directory or died with it.
+func (w *watcher) rewatch(ev fsnotify.Event) {
+	name := filepath.Clean(ev.Name)
+	if w.dirs[name] && ev.Has(fsnotify.Create) {
+		_ = w.w.Remove(name)
+		_ = w.w.Add(name)
+	}
 }
 
 // waitForChange waits for the next relevant event of w.
@@ -98,6 +119,7 @@ func waitForChange(w *watcher) tea.Cmd {
 					return nil
 				}
 				if w.relevant(ev) {
+					w.rewatch(ev)
 					return fileChangedMsg{name: ev.Name}
 				}
 			case err, ok := <-w.w.Errors:
@@ -146,9 +168,11 @@ func (m *Model) reload(why string) tea.Cmd {
 		return nil
 	}
 	load := m.cfg.Load
+	m.loadGen++
+	gen := m.loadGen
 	return func() tea.Msg {
 		c, err := load()
-		return reloadedMsg{cat: c, err: err, why: why}
+		return reloadedMsg{cat: c, err: err, why: why, gen: gen}
 	}
 }
 
@@ -156,7 +180,15 @@ func (m *Model) reload(why string) tea.Cmd {
 // shortlist (marks of parts that are gone are dropped and counted). A
 // catalog with problems is not taken: the one in force stays, so a typo
 // being typed in an editor does not empty the list.
+//
+// Reads can overlap (a slow file system, a key pressed during a watched
+// reload): the newest read wins, and the result of one older than the
+// catalog on screen is dropped.
 func (m *Model) adoptCatalog(r reloadedMsg) tea.Cmd {
+	if r.gen < m.loadShown {
+		return nil
+	}
+	m.loadShown = r.gen
 	if r.err != nil {
 		m.setError(fmt.Errorf("kept the previous catalog: %w", firstProblem(r.err)))
 		return nil

@@ -268,7 +268,7 @@ func designCell(f *replace.Fit) string {
 
 // regressionSummary is a candidate's regressions in one cell: how many,
 // then the first two reasons without their consequence ("▼3 lower maximum
-// supply: 16 V against 32 V; slew rate worse: …"), and how many figures
+// supply: 18 V against 26 V; slew rate worse: …"), and how many figures
 // it lacks. "none" when nothing is worse or missing.
 func regressionSummary(c *replace.Candidate) string {
 	var parts []string

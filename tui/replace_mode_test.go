@@ -92,7 +92,7 @@ func TestReplaceModeFlow(t *testing.T) {
 	}
 	// The comparison flags the worse supply maximum by word and symbol.
 	sup := lineWith(t, screen, "supply_max")
-	for _, want := range []string{"▼ worse", "16 V", "30 V"} {
+	for _, want := range []string{"▼ worse", "18 V", "26 V"} {
 		if !strings.Contains(sup, want) {
 			t.Errorf("supply_max row lacks %q: %q", want, sup)
 		}

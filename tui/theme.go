@@ -52,6 +52,7 @@ type Styles struct {
 	Muted       lipgloss.Style
 	Sep         lipgloss.Style // the line between panes
 	Status      lipgloss.Style
+	Caution     lipgloss.Style // the advisory note at the right of the status line
 	Message     lipgloss.Style
 	Prompt      lipgloss.Style
 	Overlay     lipgloss.Style // the help overlay's frame
@@ -85,6 +86,7 @@ func NewStyles(r *lipgloss.Renderer, t Theme) Styles {
 		Muted:       s().Foreground(t.Muted),
 		Sep:         s().Foreground(t.Muted),
 		Status:      s(),
+		Caution:     s().Foreground(t.Muted).Italic(true),
 		Message:     s().Foreground(t.Accent),
 		Prompt:      s().Bold(true).Foreground(t.Accent),
 		Overlay:     s().Border(lipgloss.RoundedBorder()).BorderForeground(t.Accent).Padding(0, 1),

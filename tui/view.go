@@ -6,6 +6,9 @@ import (
 
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
+
+	"github.com/opsift/opsift/catalog/safe"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // View draws the whole screen: exactly height lines of width cells, so
@@ -59,15 +62,18 @@ func (m *Model) View() string {
 	default:
 		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
 	}
-	return strings.Join(lines, "\n")
+	// Data strings are escaped where they are drawn; safe.Styled is the
+	// net under that: nothing but the program's own styling reaches the
+	// terminal.
+	return safe.Styled(strings.Join(lines, "\n"))
 }
 
 // titleView is the top line: the program, the design file and the sources.
 func (m *Model) titleView(w int) string {
 	st := &m.ui.st
-	design := m.cfg.DesignFile
+	design := safe.Text(m.cfg.DesignFile)
 	if design == "" {
-		design = m.design.Name + " (demo design)"
+		design = safe.Text(m.design.Name) + " (demo design)"
 	}
 	right := " ? keys "
 	left := st.Title.Render(" opsift") + st.Muted.Render(" · design "+design+" · catalog "+sourceName(m.cat.Sources))
@@ -86,16 +92,31 @@ func (m *Model) statusView(w int) string {
 	if m.rank.running {
 		b.WriteString(" · ranking…")
 	}
-	head := st.Status.Render(b.String())
-	if m.message == "" {
-		return fit(head, w)
+	left := st.Status.Render(b.String())
+	if m.message != "" {
+		msg := st.Message.Render(m.message)
+		if m.msgErr {
+			msg = st.Error.Render("! " + m.message)
+		}
+		left += st.Muted.Render(" │ ") + msg
 	}
-	msg := st.Message.Render(m.message)
-	if m.msgErr {
-		msg = st.Error.Render("! " + m.message)
+	// The caution stays on every result screen: the long form when it fits
+	// beside the counts and the message, else the short one, which the
+	// message gives way to.
+	note := cautionStatus
+	if ansi.StringWidth(left)+1+len([]rune(note))+1 > w {
+		note = cautionStatusShort
 	}
-	return fit(head+st.Muted.Render(" │ ")+msg, w)
+	right := " " + st.Caution.Render(note) + " "
+	return fit(left, max(0, w-ansi.StringWidth(right))) + right
 }
+
+// cautionStatus and cautionStatusShort are the status line's reminder;
+// the ? overlay shows the full caution (report.Caution).
+const (
+	cautionStatus      = "advisory: verify every figure against the current datasheet"
+	cautionStatusShort = "advisory: verify datasheets"
+)
 
 // helpLine is the short key help of the current mode.
 func (m *Model) helpLine() string {
@@ -131,10 +152,10 @@ func (m *Model) helpOverlay(w, h int) []string {
 		"g typical figure read off a datasheet graph",
 		"margin: spare at worst case, ≥ 0 passes; fmax: highest sine frequency at",
 		"the stage's amplitude at which slew and gbw still pass",
-		"Advisory only: verify every figure against the current datasheet.",
 	}, "\n")
+	legend += "\n" + strings.Join(wrap("Caution: "+report.Caution, 76), "\n")
 	full := m.help.FullHelpView(m.ui.keys.FullHelp())
-	content := st.Section.Render("Keys") + st.Muted.Render("  (any key closes this)") + "\n" + full + "\n\n" +
+	content := st.Section.Render("Keys") + st.Muted.Render("  (any key closes this)") + "\n" + full + "\n" +
 		st.Section.Render("Markers") + "\n" + legend
 	inner := min(w-4, lipgloss.Width(content))
 	boxed := st.Overlay.Width(inner + 2).Render(content)

@@ -5,10 +5,12 @@
 // inline tables, dotted and quoted keys, table and array-of-tables headers —
 // and records the first position of every key path.
 //
-//	document text ──► Scan ──► Index: "stage.1.signal.freq" → line 14, column 1
+//	document text ──► Scan ──► Index ──► Line("stage.1.signal.freq") = 14
+//	                                └──► Elements("part"): each [[part]] and its keys, line and column
 //
 // Paths are the dotted keys as the decoder sees them, unquoted (a quoted
-// key holding a dot cannot be named by a path; Line then finds its parent). The n-th
+// key holding a dot cannot be named by a path; Line then finds its
+// parent). The n-th
 // element (from 0) of an array of tables, or of an array value, is a
 // numbered segment: the second [[part]] is "part.1", its key slew.typ is
 // "part.1.slew.typ"; x = [{a = 1}] gives "x.0.a". The scanner never fails:
@@ -116,16 +118,6 @@ func (ix *Index) Value(path string) (Span, bool) {
 func (ix *Index) Line(path string) int {
 	n, _ := ix.find(path)
 	return int(ix.nodes[n].line)
-}
-
-// Count returns how many elements the array (of tables, or a value) at
-// path holds: the number of [[path]] tables.
-func (ix *Index) Count(path string) int {
-	n, ok := ix.find(path)
-	if !ok {
-		return 0
-	}
-	return len(ix.nodes[n].elems)
 }
 
 // Keys returns the keys written directly under the table at path ("" is

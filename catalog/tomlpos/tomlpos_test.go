@@ -76,7 +76,7 @@ func TestScan(t *testing.T) {
 			}
 			ix := Scan(tc.text)
 			for path, line := range tc.want {
-				if p, ok := ix.Pos(path); !ok || p.Line != line {
+				if p, ok := posOf(ix, path); !ok || p.Line != line {
 					t.Errorf("%s at %+v (found %v), want line %d", path, p, ok, line)
 				}
 			}
@@ -87,8 +87,10 @@ func TestScan(t *testing.T) {
 func TestIndexQueries(t *testing.T) {
 	text := "top = 1\n[[part]]\nid = \"a\"\n  gbw = { typ = \"1 MHz\" }\n[[part]]\nid = \"é\" ; x = 1\n"
 	ix := Scan(text)
-	if n := ix.Count("part"); n != 2 {
-		t.Errorf("Count(part) = %d, want 2", n)
+	n := 0
+	ix.Elements("part", func(i int, at Pos, keys []Entry) { n++ })
+	if n != 2 {
+		t.Errorf("Elements(part) gave %d parts, want 2", n)
 	}
 	if got, want := ix.Keys(""), []string{"top", "part"}; !slices.Equal(got, want) {
 		t.Errorf("Keys(\"\") = %q, want %q", got, want)
@@ -96,10 +98,10 @@ func TestIndexQueries(t *testing.T) {
 	if got, want := ix.Keys("part.0"), []string{"id", "gbw"}; !slices.Equal(got, want) {
 		t.Errorf("Keys(part.0) = %q, want %q", got, want)
 	}
-	if p, _ := ix.Pos("part.0.gbw"); p.Line != 4 || p.Col != 3 || text[p.Offset:p.Offset+3] != "gbw" {
+	if p, _ := posOf(ix, "part.0.gbw"); p.Line != 4 || p.Col != 3 || text[p.Offset:p.Offset+3] != "gbw" {
 		t.Errorf("gbw at %+v, want line 4 column 3 at the key", p)
 	}
-	if p, _ := ix.Pos("part.1"); text[p.Offset:p.Offset+8] != "[[part]]" {
+	if p, _ := posOf(ix, "part.1"); text[p.Offset:p.Offset+8] != "[[part]]" {
 		t.Errorf("second header offset %d does not point at its '['", p.Offset)
 	}
 	if l := ix.Line("part.0.gbw.max"); l != 4 {
@@ -203,4 +205,13 @@ func paths(ix *Index) map[string]Pos {
 	}
 	walk(0, "")
 	return out
+}
+
+// posOf returns the position of path, and whether it was written.
+func posOf(ix *Index, path string) (Pos, bool) {
+	n, ok := ix.find(path)
+	if !ok || n == 0 {
+		return Pos{}, false
+	}
+	return ix.nodes[n].pos(), true
 }

@@ -7,15 +7,19 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 const checkUsage = `Usage: opsift check [--catalog PATH]...
 
-Read every catalog source, check every part (units, keys, limits, ids) and
-print a summary and every problem found, one per line as FILE:LINE: part
-"ID": field "KEY": what is wrong. Without --catalog it checks the catalog
-the other commands would use: the user's catalog directory, else the
-embedded demo. Exit status 1 when there is any problem, 0 when clean.
+Read every catalog source, check every part (units, keys, limits, ids,
+plausible ranges, text a terminal would act on) and print a summary and
+the problems found, one per line as FILE:LINE: part "ID": field "KEY":
+what is wrong, at most 50 per file. Files other than regular files, over
+4 MiB, or nested or dotted too deeply are refused before decoding.
+Without --catalog it checks the catalog the other commands would use: the
+user's catalog directory, else the embedded demo. Exit status 1 when there
+is any problem, 0 when clean.
 
 Options:
 `
@@ -35,7 +39,12 @@ func runCheck(e *env, args []string) error {
 	if err != nil && !errors.As(err, &probs) {
 		return inputError(err) // not a catalog problem: cannot happen with Load today
 	}
-	writeCheckReport(e.stdout, c, probs)
+	var buf strings.Builder
+	writeCheckReport(&buf, c, probs)
+	// Problems and file names are escaped where they are made; this is the net.
+	if _, err := io.WriteString(e.stdout, safe.Lines(buf.String())); err != nil {
+		return err
+	}
 	if len(probs) > 0 {
 		return problemsFound()
 	}
@@ -73,7 +82,7 @@ func writeCheckReport(w io.Writer, c *catalog.Catalog, probs catalog.Problems) {
 		fmt.Fprintln(w, "no problems found")
 		return
 	}
-	fmt.Fprintf(w, "%s found:\n", plural(len(probs), "problem"))
+	fmt.Fprintf(w, "%s found:\n", plural(probs.Count(), "problem"))
 	for _, p := range probs {
 		fmt.Fprintln(w, p.Error())
 	}

@@ -3,8 +3,9 @@ package main
 import (
 	"fmt"
 	"io/fs"
-	"os"
 
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/report"
@@ -52,10 +53,10 @@ func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
 		name = data.DefaultDesign
 		b, err = fs.ReadFile(data.Designs, data.DefaultDesign)
 	} else {
-		b, err = os.ReadFile(path)
+		b, err = catalog.ReadFile(path)
 	}
 	if err != nil {
-		return nil, nil, fmt.Errorf("design: %w", err)
+		return nil, nil, fmt.Errorf("design %s: %w", safe.Text(name), err)
 	}
 	d, err := filter.DecodeDesign(name, b)
 	if err != nil {

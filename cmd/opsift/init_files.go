@@ -1,5 +1,7 @@
 package main
 
+import "strings"
+
 // The files opsift init writes. The parts are invented examples of their
 // class, not any manufacturer's data; the starter catalog must pass
 // opsift check (init_test.go checks it does).
@@ -23,7 +25,10 @@ const starterCatalog = `# opsift catalog: op-amp parameter sets, one [[part]] ta
 #   "0.5 V/us"  "1.2 MHz"  "250 nA"  "10 kOhm"  "100 pF"  "-40 C"
 #   "35 nV/rtHz"  "0.1 pA/rtHz"  "7 uV/K"  "100 dB"  (or "100 V/mV" for aol)
 # A bare number where a unit belongs is an error, so a figure can never be
-# read in the wrong unit.
+# read in the wrong unit. A value far outside what any op-amp has (a GBW of
+# "5 mHz", a slew of "10 MV/us") is an error naming the plausible range, and
+# text holding control characters (escape sequences) is refused: catalogs
+# are shared, so opsift never passes such text to a terminal.
 #
 # FIGURES (gbw, slew, aol, vos, vos_drift, ib, ios, en, in, iq, iout) are
 # inline tables with any of:
@@ -48,31 +53,32 @@ channels = 2                     # op-amps per package
 packages = ["soic8", "dip8"]     # the packages you can buy it in
 pinout = "dual-a"                # pin-compatibility family: equal value = drop-in footprint
 lifecycle = "active"             # active | nrnd (not for new designs) | obsolete
-unit_cost = 0.25                 # plain number, in your catalog's currency
+unit_cost = 0.24                 # plain number, in your catalog's currency
 temp = ["-40 C", "85 C"]         # rated ambient range
 
 # supply: total span V+ minus V- the part is rated for.
-supply = { min = "3 V", max = "30 V" }
+supply = { min = "3.2 V", max = "27 V" }
 # input_cm: common-mode range, from (V- + low) to (V+ + high). This one works
-# down to the negative rail and stops 1.5 V short of the positive one.
-input_cm = { low = "0 V", high = "-1.5 V" }
+# down to the negative rail and stops 1.6 V short of the positive one.
+input_cm = { low = "0 V", high = "-1.6 V" }
 # output: swing from (V- + low) to (V+ + high) at the stated load.
-output = { low = "0.02 V", high = "-1.5 V", load = "10 kOhm" }
+output = { low = "0.04 V", high = "-1.3 V", load = "10 kOhm" }
 
-gbw = { typ = "1 MHz", min = "0.7 MHz" }            # gain-bandwidth product
-slew = { typ = "0.5 V/us", source = "graph" }       # slew rate, read off a curve
-aol = { typ = "100 dB", min = "88 dB" }             # open-loop gain
-vos = { typ = "2 mV", max = "5 mV", max_ot = "7 mV" } # offset voltage, a magnitude
-vos_drift = { typ = "7 uV/K" }                      # offset drift
-ib = { typ = "20 nA", max = "150 nA" }              # input bias current, a magnitude
-ios = { typ = "2 nA", max = "30 nA" }               # input offset current
-en = { typ = "35 nV/rtHz" }                         # voltage noise density, flat band
-in = { typ = "0.1 pA/rtHz" }                        # current noise density
-iq = { typ = "0.35 mA", max = "0.6 mA" }            # quiescent current PER CHANNEL
-iout = { typ = "30 mA", min = "10 mA" }             # output (short-circuit) current
-vdiff_max = "30 V"               # largest allowed differential input voltage
-cload = "100 pF"                 # largest capacitive load it stays stable with
-cin = "3 pF"                     # input capacitance
+gbw = { typ = "0.95 MHz", min = "0.6 MHz" }         # gain-bandwidth product
+slew = { typ = "0.45 V/us", source = "graph" }      # slew rate, read off a curve
+aol = { typ = "98 dB", min = "86 dB" }              # open-loop gain
+vos = { typ = "1.8 mV", max = "5.6 mV", max_ot = "7.3 mV" } # offset voltage, a magnitude
+vos_drift = { typ = "6.5 uV/K" }                    # offset drift
+ib = { typ = "26 nA", max = "165 nA" }              # input bias current, a magnitude
+ios = { typ = "2.7 nA", max = "33 nA" }             # input offset current
+en = { typ = "41 nV/rtHz" }                         # voltage noise density, flat band
+in = { typ = "0.08 pA/rtHz" }                       # current noise density
+iq = { typ = "0.29 mA", max = "0.48 mA" }           # quiescent current PER CHANNEL
+iout = { typ = "27 mA", min = "14 mA" }             # output (short-circuit) current
+vdiff_max = "27 V"               # largest allowed differential input voltage
+cload = "130 pF"                 # largest capacitive load it stays stable with
+cin = "3.5 pF"                     # input capacitance
+en_corner = "180 Hz"             # 1/f corner of en (optional)
 datasheet = "https://example.invalid/ex-gp2.pdf"
 notes = "Invented example. Replace with a real part's datasheet figures."
 
@@ -83,25 +89,25 @@ tech = "cmos"
 channels = 1
 packages = ["sot23-5"]
 lifecycle = "active"
-unit_cost = 0.40
+unit_cost = 0.42
 temp = ["-40 C", "125 C"]
-supply = { min = "1.8 V", max = "5.5 V" }
+supply = { min = "2.1 V", max = "5.5 V" }
 # A rail-to-rail input goes a little beyond both rails: low < 0, high > 0.
-input_cm = { low = "-0.1 V", high = "0.1 V" }
-output = { low = "0.015 V", high = "-0.015 V", load = "10 kOhm" }
-gbw = { typ = "10 MHz", min = "7 MHz" }
-slew = { typ = "6 V/us", min = "4 V/us" }
-aol = { typ = "110 dB", min = "95 dB" }
-vos = { typ = "0.3 mV", max = "1.5 mV", max_ot = "2.5 mV" }
-vos_drift = { typ = "1.5 uV/K" }
+input_cm = { low = "-0.1 V", high = "0.15 V" }
+output = { low = "0.02 V", high = "-0.017 V", load = "10 kOhm" }
+gbw = { typ = "8.5 MHz", min = "6.1 MHz" }
+slew = { typ = "5.2 V/us", min = "3.6 V/us" }
+aol = { typ = "108 dB", min = "96 dB" }
+vos = { typ = "0.4 mV", max = "1.7 mV", max_ot = "2.3 mV" }
+vos_drift = { typ = "1.4 uV/K" }
 # A CMOS input's bias current is gate leakage: tiny at 25 C, doubling every
 # 10 K above it; the worst case takes that into account.
-ib = { typ = "1 pA", max = "10 pA", max_ot = "1 nA" }
-en = { typ = "12 nV/rtHz" }
-iq = { typ = "0.9 mA", max = "1.3 mA" }
-iout = { typ = "50 mA" }
-cload = "500 pF"
-cin = "5 pF"
+ib = { typ = "0.6 pA", max = "9 pA", max_ot = "0.7 nA" }
+en = { typ = "13 nV/rtHz" }
+iq = { typ = "0.74 mA", max = "1.07 mA" }
+iout = { typ = "46 mA" }
+cload = "420 pF"
+cin = "4.5 pF"
 notes = "Invented example."
 
 [[part]]
@@ -111,34 +117,39 @@ tech = "jfet"
 channels = 4
 packages = ["soic14"]
 lifecycle = "nrnd"
-unit_cost = 1.10
-temp = ["0 C", "70 C"]
-supply = { min = "10 V", max = "36 V" }
+unit_cost = 1.15
+temp = ["-20 C", "75 C"]
+supply = { min = "9.5 V", max = "33 V" }
 # A JFET input often cannot reach its negative rail: low > 0.
-input_cm = { low = "4 V", high = "-1 V" }
-output = { low = "1.5 V", high = "-1.5 V", load = "2 kOhm" }
-gbw = { typ = "4 MHz", min = "2.5 MHz" }
-slew = { typ = "13 V/us", min = "8 V/us" }
-aol = { typ = "200 V/mV", min = "50 V/mV" }   # a ratio, read as dB
-vos = { typ = "3 mV", max = "10 mV" }
-ib = { typ = "30 pA", max = "200 pA" }
-en = { typ = "18 nV/rtHz" }
-in = { typ = "0.01 pA/rtHz" }
-iq = { typ = "1.4 mA", max = "2.5 mA" }
-iout = { typ = "40 mA", source = "estimate" }
-vdiff_max = "30 V"
+input_cm = { low = "3.3 V", high = "-0.7 V" }
+output = { low = "1.3 V", high = "-1.4 V", load = "2 kOhm" }
+gbw = { typ = "4.6 MHz", min = "2.9 MHz" }
+slew = { typ = "12 V/us", min = "7.4 V/us" }
+aol = { typ = "170 V/mV", min = "45 V/mV" }   # a ratio, read as dB
+vos = { typ = "2.1 mV", max = "7.8 mV" }
+ib = { typ = "22 pA", max = "145 pA" }
+en = { typ = "16 nV/rtHz" }
+in = { typ = "0.011 pA/rtHz" }
+iq = { typ = "1.3 mA", max = "2.05 mA" }
+iout = { typ = "34 mA", source = "estimate" }
+vdiff_max = "29 V"
 notes = "Invented example; nrnd shows a part you would not pick for a new design."
 `
 
-// starterDesign is DIR/design.toml.
-const starterDesign = `# opsift design: what the circuit needs from the op-amp.
+// cautionComment is the full caution as TOML comment lines of at most 78
+// columns, for the head of the design file.
+var cautionComment = commentLines("CAUTION: "+caution, 76)
+
+// starterDesign is DIR/design.toml. It carries the full caution.
+var starterDesign = `# opsift design: what the circuit needs from the op-amp.
 #
 #     opsift derive --design design.toml            the requirements, with formulas
 #     opsift rank   --design design.toml --catalog catalog.d
 #     opsift --catalog catalog.d --design design.toml   the interactive selector
 #
-# Values are strings with units, as in the catalog. Results are advisory:
-# verify every figure against the current manufacturer datasheet.
+# Values are strings with units, as in the catalog.
+#
+` + cautionComment + `
 
 title = "Sensor amplifier, single 3.3 V supply"
 
@@ -171,3 +182,24 @@ load_r = "10 kOhm"         # load on the output
 gain_error = "1 %"         # allowed gain error at the signal frequency
 dc_error = "50 mV"         # allowed output-referred DC error
 `
+
+// commentLines wraps text at spaces into "# " comment lines of at most
+// width characters of text each.
+func commentLines(text string, width int) string {
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(text) {
+		if line != "" && len(line)+1+len(w) > width {
+			lines = append(lines, "# "+line)
+			line = ""
+		}
+		if line != "" {
+			line += " "
+		}
+		line += w
+	}
+	if line != "" {
+		lines = append(lines, "# "+line)
+	}
+	return strings.Join(lines, "\n")
+}

@@ -161,3 +161,25 @@ func TestWriteNewFile(t *testing.T) {
 		t.Errorf("%d entries in dir, want 1 (no temporary left)", len(ents))
 	}
 }
+
+// TestInitDesignCaution: the design file init writes carries the whole
+// caution (in comment lines), not only its first sentence.
+func TestInitDesignCaution(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "proj")
+	if r := runOpsift(t, nil, "init", dir); r.code != 0 {
+		t.Fatalf("init exit %d: %s", r.code, r.stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "design.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text []string
+	for _, l := range strings.Split(string(b), "\n") {
+		if strings.HasPrefix(l, "# ") {
+			text = append(text, strings.TrimPrefix(l, "# "))
+		}
+	}
+	if joined := strings.Join(text, " "); !strings.Contains(joined, "CAUTION: "+caution) {
+		t.Errorf("design.toml comments lack the caution %q:\n%s", caution, b)
+	}
+}

@@ -9,6 +9,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+
+	"github.com/opsift/opsift/catalog/safe"
 )
 
 // version is set at build time with -ldflags "-X main.version=…".
@@ -19,7 +21,8 @@ func main() {
 }
 
 // exitCode prints err once, as "opsift: …", and maps it to the exit status
-// the command line contract promises.
+// the command line contract promises. Error text may quote input files, so
+// it passes through the sanitiser (line breaks between problems are kept).
 func exitCode(err error, stderr io.Writer) int {
 	if err == nil {
 		return 0
@@ -27,10 +30,10 @@ func exitCode(err error, stderr io.Writer) int {
 	var ex *exitError
 	if errors.As(err, &ex) {
 		if ex.err != nil {
-			fmt.Fprintf(stderr, "opsift: %v\n", ex.err)
+			fmt.Fprintf(stderr, "opsift: %s\n", safe.Lines(ex.err.Error()))
 		}
 		return ex.code
 	}
-	fmt.Fprintf(stderr, "opsift: %v\n", err)
+	fmt.Fprintf(stderr, "opsift: %s\n", safe.Lines(err.Error()))
 	return 2
 }

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/preview"
 	"github.com/opsift/opsift/filter/replace"
@@ -47,6 +48,11 @@ type previewFlags struct {
 const (
 	previewDefaultWidth  = 80
 	previewDefaultHeight = 16
+	// The largest plot and sample count accepted: far past any screen,
+	// small enough that a typo cannot exhaust memory.
+	previewMaxWidth  = 1000
+	previewMaxHeight = 500
+	previewMaxPoints = 100000
 )
 
 func runPreview(e *env, args []string) error {
@@ -71,15 +77,15 @@ func runPreview(e *env, args []string) error {
 		return usageError("preview: one PART-ID expected, got %d: %s", len(pos), strings.Join(pos, " "))
 	case f.format != "text" && f.format != "json":
 		return usageError("preview: --format %q: want text or json", f.format)
-	case f.width < 0 || (f.width > 0 && f.width < 20):
-		return usageError("preview: --width %d: want 20 columns or more", f.width)
-	case f.height < 4:
-		return usageError("preview: --height %d: want 4 lines or more", f.height)
-	case f.points < 0 || f.points == 1:
-		return usageError("preview: --points %d: want 2 or more", f.points)
+	case f.width < 0 || (f.width > 0 && f.width < 20) || f.width > previewMaxWidth:
+		return usageError("preview: --width %d: want 20 to %d columns", f.width, previewMaxWidth)
+	case f.height < 4 || f.height > previewMaxHeight:
+		return usageError("preview: --height %d: want 4 to %d lines", f.height, previewMaxHeight)
+	case f.points < 0 || f.points == 1 || f.points > previewMaxPoints:
+		return usageError("preview: --points %d: want 2 to %d", f.points, previewMaxPoints)
 	}
 	if f.width == 0 {
-		f.width = e.columns(previewDefaultWidth)
+		f.width = min(max(e.columns(previewDefaultWidth), 20), previewMaxWidth)
 	}
 
 	cat, err := loadCatalog(e, f.catalogs)
@@ -98,10 +104,10 @@ func runPreview(e *env, args []string) error {
 	if stage == "" {
 		var ok bool
 		if stage, ok = preview.FirstStage(plan); !ok {
-			return usageError("preview: design %s has no stage with a waveform (direct and rail_splitter stages have none)", design.Name)
+			return usageError("preview: design %s has no stage with a waveform (direct and rail_splitter stages have none)", safe.Text(design.Name))
 		}
 	} else if err := previewCheckStage(plan, stage); err != nil {
-		return usageError("preview: design %s: %w", design.Name, err)
+		return usageError("preview: design %s: %w", safe.Text(design.Name), err)
 	}
 	res, err := preview.Run(plan, stage, part, preview.Options{Typical: f.typical, Sim: sim.Options{MaxPoints: f.points}})
 	if err != nil {
@@ -190,7 +196,7 @@ func writePreviewJSON(w io.Writer, r *preview.Result, meta report.JSONMeta) erro
 	if err != nil {
 		return err
 	}
-	_, err = w.Write(append(b, '\n'))
+	_, err = w.Write(append(safe.JSON(b), '\n'))
 	return err
 }
 
@@ -199,7 +205,7 @@ func writePreviewText(w io.Writer, d *filter.Design, r *preview.Result, width, h
 	if r.Basis == preview.Typical {
 		basis = "typical figures, nominal rails"
 	}
-	fmt.Fprintf(w, "%s in stage %q (%s) of %s\n", r.Part.ID, r.Stage, r.Kind, d.Name)
+	fmt.Fprintf(w, "%s in stage %q (%s) of %s\n", r.Part.ID, r.Stage, r.Kind, safe.Text(d.Name))
 	fmt.Fprintf(w, "basis: %s\n", basis)
 	for _, f := range r.Figures {
 		fmt.Fprintf(w, "  %s\n", f)

@@ -8,7 +8,7 @@ import (
 	"testing"
 )
 
-const previewMixed = "../../data/designs/mixed-templates.toml"
+const previewMixed = "../../data/designs/pickup-counter-6v.toml"
 
 func TestPreviewGolden(t *testing.T) {
 	tests := []struct {
@@ -35,8 +35,8 @@ func TestPreviewGolden(t *testing.T) {
 }
 
 // TestPreviewJSONFields pins the contract's field names and SI values: the
-// demo gain stage is 10 Vpp at 20 kHz, so ideal_pp is 10 (V) and the
-// arrays cover whole periods of 50 µs.
+// demo gain stage is 5.58 Vpp at 24 kHz, so ideal_pp is 5.58 (V) and the
+// arrays cover whole periods of 41.7 µs.
 func TestPreviewJSONFields(t *testing.T) {
 	r := runOpsift(t, nil, "preview", "gp4-bip", "--stage", "gain", "--format", "json")
 	if r.code != 0 {
@@ -62,15 +62,17 @@ func TestPreviewJSONFields(t *testing.T) {
 			t.Errorf("metrics have %q, which does not apply to an amplifier or is not in the contract", k)
 		}
 	}
-	if v := m["ideal_pp"].(float64); v < 9.99 || v > 10.01 {
-		t.Errorf("ideal_pp = %g, want 10 (V)", v)
+	// 2 × 6.2 × 0.45 V = 5.58 V by hand from the default design.
+	if v := m["ideal_pp"].(float64); v < 5.575 || v > 5.585 {
+		t.Errorf("ideal_pp = %g, want 5.58 (V)", v)
 	}
 	ts := got["t"].([]any)
 	if n := len(ts); n < 100 || len(got["out"].([]any)) != n || len(got["ideal"].([]any)) != n || len(got["in"].([]any)) != n {
 		t.Errorf("arrays of %d samples, want equal lengths ≥ 100", n)
 	}
-	if span := ts[len(ts)-1].(float64); span < 240e-6 || span > 250e-6 {
-		t.Errorf("t ends at %g s, want just under 5 periods of 50 µs", span)
+	// 5 periods of 1/24 kHz = 208.3 µs.
+	if span := ts[len(ts)-1].(float64); span < 200e-6 || span > 5/24e3 {
+		t.Errorf("t ends at %g s, want just under 5 periods of 41.7 µs", span)
 	}
 	if got["basis"] != "worst_case" || got["part"] != "gp4-bip" || got["stage"] != "gain" {
 		t.Errorf("part %v, stage %v, basis %v", got["part"], got["stage"], got["basis"])
@@ -92,12 +94,14 @@ func TestPreviewErrors(t *testing.T) {
 		{"no part", nil, 2, "missing PART-ID"},
 		{"two parts", []string{"a", "b"}, 2, "one PART-ID expected"},
 		{"unknown part", []string{"gp4-bi"}, 2, `no part with id "gp4-bi" in the catalog; did you mean one of "gp4-bip"`},
-		{"unknown stage", []string{"gp4-bip", "--stage", "gian"}, 2, `--stage "gian": no such stage, want one of "buffer", "gain"`},
-		{"no waveform", []string{"gp4-bip", "--design", previewMixed, "--stage", "midrail"}, 2, "stage kind rail_splitter has no waveform preview"},
+		{"unknown stage", []string{"gp4-bip", "--stage", "gian"}, 2, `--stage "gian": no such stage, want one of "gain", "buffer"`},
+		{"no waveform", []string{"gp4-bip", "--design", "../../data/designs/turbidity-5v.toml", "--stage", "pedestal"}, 2, "stage kind rail_splitter has no waveform preview"},
 		{"missing design", []string{"gp4-bip", "--design", filepath.Join(dir, "none.toml")}, 2, "none.toml: no such file"},
 		{"broken design", []string{"gp4-bip", "--design", broken}, 2, `broken.toml:7: stage "a": field "signal.freq": "fast"`},
 		{"bad format", []string{"gp4-bip", "--format", "xml"}, 2, "want text or json"},
-		{"bad width", []string{"gp4-bip", "--width", "3"}, 2, "want 20 columns or more"},
+		{"bad width", []string{"gp4-bip", "--width", "3"}, 2, "want 20 to 1000 columns"},
+		{"huge height", []string{"gp4-bip", "--height", "100000000"}, 2, "want 4 to 500 lines"},
+		{"huge points", []string{"gp4-bip", "--points", "1000000000"}, 2, "want 2 to 100000"},
 		{"bad flag", []string{"gp4-bip", "--nope"}, 2, "flag provided but not defined"},
 		{"bad catalog", []string{"gp4-bip", "--catalog", filepath.Join(dir, "none")}, 2, "cannot read catalog"},
 	}

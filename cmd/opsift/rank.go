@@ -8,14 +8,17 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [-o FILE]
+                  [--all] [--top N] [--sort KEY] [--strict] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
 is named). With --all the failing parts follow, each with the checks it
-fails and by how much. Formats: table (terminal), csv, json (SI units), md
-(a shortlist for design review), toml (the ranked parts as a catalog file).
-Sort keys: margin (default), cost, supply_current, fmax, id.
+fails and by how much. Formats: table (terminal), csv (the caution in the
+last column of every row), json (SI units), md (a shortlist for design
+review), toml (the ranked parts as a catalog file). Sort keys: margin
+(default), cost, supply_current, fmax, id. -o writes atomically: a
+symlink's target is replaced, devices and FIFOs are refused (except
+/dev/stdout), a read-only file only with --force.
 
 Options:
 `
@@ -29,7 +32,7 @@ type rankFlags struct {
 	top      int
 	sort     string
 	strict   bool
-	out      string
+	output   outputFlags
 }
 
 func runRank(e *env, args []string) error {
@@ -42,7 +45,7 @@ func runRank(e *env, args []string) error {
 	fset.IntVar(&f.top, "top", 0, "list at most N candidates (0: all)")
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
-	fset.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
+	f.output.register(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -73,17 +76,10 @@ func runRank(e *env, args []string) error {
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
 		Sources: cat.Sources, Width: e.columns(report.DefaultWidth), Meta: meta(e, f.design, d, cat, f.strict)}
 	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
-	doc.Color = f.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
+	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {
 		return err
 	}
-	if f.out != "" {
-		if err := report.WriteFile(f.out, buf.Bytes()); err != nil {
-			return inputError(err)
-		}
-		return nil
-	}
-	_, err = e.stdout.Write(buf.Bytes())
-	return err
+	return f.output.emit(e, buf.Bytes())
 }

@@ -5,10 +5,10 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/replace"
 	"github.com/opsift/opsift/filter/report"
@@ -18,12 +18,13 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE]
+                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
 a footprint change. Each candidate is compared figure by figure with the
 original; "strict" means no figure the original gives is worse or missing.
+The csv format ends every row with the caution in a "caution" column.
 With --design, every candidate is also evaluated in the circuit at worst
 case and the passing ones are ranked by their smallest margin; regressions
 are then warnings.
@@ -40,7 +41,7 @@ type replaceFlags struct {
 	obsolete bool
 	overTemp bool
 	strict   bool
-	out      string
+	output   outputFlags
 }
 
 func runReplace(e *env, args []string) error {
@@ -53,7 +54,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.obsolete, "obsolete", false, "list obsolete parts as candidates too")
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
-	fs.StringVar(&f.out, "o", "", "write the output to FILE (atomically) instead of stdout")
+	f.output.register(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
 		return err
@@ -81,7 +82,7 @@ func runReplace(e *env, args []string) error {
 	var design *filter.Design
 	var plan *filter.Plan
 	if f.design != "" {
-		design, plan, err = replaceLoadDesign(f.design)
+		design, plan, err = deriveDesign(f.design)
 		if err != nil {
 			return inputError(err)
 		}
@@ -98,18 +99,11 @@ func runReplace(e *env, args []string) error {
 	}
 
 	var buf bytes.Buffer
-	v.color = f.out == "" && f.format == "table" && e.isTTY && e.getenv("NO_COLOR") == ""
+	v.color = f.output.out == "" && f.format == "table" && e.isTTY && e.getenv("NO_COLOR") == ""
 	if err := v.write(&buf, f.format); err != nil {
 		return err
 	}
-	if f.out != "" {
-		if err := report.WriteFile(f.out, buf.Bytes()); err != nil {
-			return inputError(err)
-		}
-		return nil
-	}
-	_, err = e.stdout.Write(buf.Bytes())
-	return err
+	return f.output.emit(e, buf.Bytes())
 }
 
 // replaceParseArgs parses flags that may come before and after the
@@ -142,23 +136,6 @@ func replaceOneOf(s string, set []string) bool {
 	return false
 }
 
-// replaceLoadDesign reads, decodes and derives the design at path.
-func replaceLoadDesign(path string) (*filter.Design, *filter.Plan, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, nil, fmt.Errorf("design: %w", err)
-	}
-	d, err := filter.DecodeDesign(path, data)
-	if err != nil {
-		return nil, nil, err
-	}
-	plan, err := filter.Derive(d)
-	if err != nil {
-		return nil, nil, err
-	}
-	return d, plan, nil
-}
-
 // replaceView is what the writers show of a Result: the candidates listed
 // (with a design and without --all, only those that pass) and what was
 // left out.
@@ -185,14 +162,28 @@ func newReplaceView(res replace.Result, all bool) *replaceView {
 	return v
 }
 
+// write renders the view in format. Only the table carries styling of
+// its own (its data strings are escaped where they are written); every
+// other format passes whole through the sanitiser.
 func (v *replaceView) write(w io.Writer, format string) error {
+	var buf bytes.Buffer
 	switch format {
 	case "json":
-		return v.writeJSON(w)
-	case "csv":
-		return v.writeCSV(w)
-	case "md":
-		return v.writeMarkdown(w)
+		if err := v.writeJSON(&buf); err != nil {
+			return err
+		}
+		_, err := w.Write(safe.JSON(buf.Bytes()))
+		return err
+	case "csv", "md":
+		write := v.writeCSV
+		if format == "md" {
+			write = v.writeMarkdown
+		}
+		if err := write(&buf); err != nil {
+			return err
+		}
+		_, err := io.WriteString(w, safe.Lines(buf.String()))
+		return err
 	}
 	return v.writeTable(w)
 }
@@ -205,7 +196,7 @@ func replacePartLine(p *catalog.Part) string {
 	} else {
 		pin = "pinout " + pin
 	}
-	return fmt.Sprintf("%s, %s, %s, %d channel%s", p.Lifecycle, pin, strings.Join(p.Packages, "/"), p.Channels, replacePlural(p.Channels))
+	return safe.Text(fmt.Sprintf("%s, %s, %s, %d channel%s", p.Lifecycle, pin, strings.Join(p.Packages, "/"), p.Channels, replacePlural(p.Channels)))
 }
 
 func replacePlural(n int) string {

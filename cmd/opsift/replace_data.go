@@ -152,10 +152,11 @@ func replaceNonNil(xs []string) []string {
 }
 
 // replaceCSVHeader is the header row of the CSV: one row per candidate and
-// field, numbers in SI units (the unit column names them).
+// field, numbers in SI units (the unit column names them). The last column,
+// caution, carries the caution on every row (see report.CautionColumn).
 var replaceCSVHeader = []string{
 	"rank", "part", "drop_in", "strict", "design_pass", "worst_margin",
-	"key", "original", "original_basis", "candidate", "candidate_basis", "unit", "verdict",
+	"key", "original", "original_basis", "candidate", "candidate_basis", "unit", "verdict", report.CautionColumn,
 }
 
 func (v *replaceView) writeCSV(w io.Writer) error {
@@ -173,7 +174,7 @@ func (v *replaceView) writeCSV(w io.Writer) error {
 			cw.Write([]string{
 				strconv.Itoa(i + 1), c.Part.ID, strconv.FormatBool(c.DropIn), strconv.FormatBool(c.Strict), pass, margin,
 				f.Key, replaceValueText(f.Original), string(f.Original.Basis), replaceValueText(f.Candidate), string(f.Candidate.Basis),
-				f.Unit(), string(f.Verdict),
+				f.Unit(), string(f.Verdict), caution,
 			})
 		}
 	}

@@ -5,6 +5,7 @@ import (
 	"io"
 	"strings"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
@@ -32,10 +33,10 @@ func (v *replaceView) paint(style, s string) string {
 func (v *replaceView) writeTable(w io.Writer) error {
 	o := v.res.Original
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s %s — %s\n", v.paint(replaceBold, "Replacing"), v.paint(replaceBold, o.ID), o.Name)
+	fmt.Fprintf(&b, "%s %s — %s\n", v.paint(replaceBold, "Replacing"), v.paint(replaceBold, o.ID), safe.Text(o.Name))
 	fmt.Fprintf(&b, "  %s\n", replacePartLine(o))
 	if v.res.Designed {
-		fmt.Fprintf(&b, "  design: %s (%s)\n", v.designTitle, v.designFile)
+		fmt.Fprintf(&b, "  design: %s (%s)\n", safe.Text(v.designTitle), safe.Text(v.designFile))
 	}
 	b.WriteString("  " + replaceBasisNote + "\n\n")
 
@@ -75,7 +76,7 @@ func (v *replaceView) writeTable(w io.Writer) error {
 		}
 	}
 	for i, c := range v.list {
-		fmt.Fprintf(&b, "\n%d. %s — %s\n", i+1, v.paint(replaceBold, c.Part.ID), c.Part.Name)
+		fmt.Fprintf(&b, "\n%d. %s — %s\n", i+1, v.paint(replaceBold, c.Part.ID), safe.Text(c.Part.Name))
 		fmt.Fprintf(&b, "   %s\n", replacePartLine(c.Part))
 		fmt.Fprintf(&b, "   %s\n", c.Footprint)
 		if c.Design != nil {

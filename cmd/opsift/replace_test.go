@@ -12,7 +12,7 @@ import (
 
 const (
 	replaceCat    = "testdata/replace_quads.toml"
-	replaceDesign = "testdata/replace_rail12.toml"
+	replaceDesign = "testdata/replace_split5.toml"
 )
 
 // TestReplaceGolden pins every output format, with and without a design.
@@ -154,15 +154,15 @@ func TestReplaceJSONContract(t *testing.T) {
 		t.Errorf("design %+v, want pass with a worst margin and binding", c.Design)
 	}
 	for _, f := range c.Fields {
-		if f.Key == "slew" && (f.Unit != "V/s" || f.Candidate == nil || *f.Candidate != 5e6 || f.Verdict != "better") {
-			t.Errorf("slew field %+v, want 5e6 V/s better", f)
+		if f.Key == "slew" && (f.Unit != "V/s" || f.Candidate == nil || *f.Candidate != 5.4e6 || f.Verdict != "better") {
+			t.Errorf("slew field %+v, want 5.4e6 V/s better", f)
 		}
-		if f.Key == "supply_max" && (f.Unit != "V" || *f.Original != 32 || *f.Candidate != 16 || f.Verdict != "worse") {
+		if f.Key == "supply_max" && (f.Unit != "V" || *f.Original != 30 || *f.Candidate != 17 || f.Verdict != "worse") {
 			t.Errorf("supply_max field %+v", f)
 		}
 	}
-	if len(c.Fields) != 21 {
-		t.Errorf("%d fields, want 21", len(c.Fields))
+	if len(c.Fields) != 23 {
+		t.Errorf("%d fields, want 23", len(c.Fields))
 	}
 }
 
@@ -195,7 +195,7 @@ func TestReplaceOutputFile(t *testing.T) {
 
 // TestReplaceDemoObsoletePart is the issue's "done when" on the embedded
 // demo catalog and design: the obsolete bipolar quad's drop-ins are listed
-// with their regressions, and with the demo design the 16 V CMOS quad
+// with their regressions, and with the demo design the 18 V CMOS quad
 // passes while its lower maximum supply shows as a warning.
 func TestReplaceDemoObsoletePart(t *testing.T) {
 	r := runCLI(t, false, nil, "replace", "gp4-bip-old", "--format", "json")
@@ -205,7 +205,7 @@ func TestReplaceDemoObsoletePart(t *testing.T) {
 	if !strings.Contains(r.stdout, `"id": "rr4-cmos"`) || !strings.Contains(r.stdout, `"key": "supply_max"`) {
 		t.Errorf("demo: rr4-cmos with a supply_max regression not listed:\n%s", r.stdout)
 	}
-	d := runCLI(t, false, nil, "replace", "gp4-bip-old", "--design", "../../data/designs/signal-chain-12v.toml", "--format", "json")
+	d := runCLI(t, false, nil, "replace", "gp4-bip-old", "--design", "../../data/designs/vibration-monitor-5v.toml", "--format", "json")
 	if d.code != 0 {
 		t.Fatalf("with the demo design: exit %d: %s", d.code, d.stderr)
 	}

@@ -48,7 +48,7 @@ func runSelector(e *env, args []string) error {
 		return inputError(err)
 	}
 	layers := catalogLayers(e, catalogs)
-	cat, err := loadCatalog(e, catalogs)
+	cat, err := openCatalog(e, catalogs)
 	if err != nil {
 		return err
 	}

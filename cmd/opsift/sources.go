@@ -42,8 +42,27 @@ func catalogLayers(e *env, paths []string) []catalog.Layer {
 
 // loadCatalog loads the catalog a command reads parts from. An unreadable
 // or invalid catalog is an input error (exit status 2), printed one
-// problem per line.
+// problem per line. The catalog's notes (a part overriding one of an
+// earlier source, a source without files) go to stderr as "opsift: note:
+// …", at most maxShown of them, so that stdout stays the document.
 func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
+	c, err := openCatalog(e, paths)
+	if err != nil {
+		return nil, err
+	}
+	for i, n := range c.Notes {
+		if i == maxShown {
+			fmt.Fprintf(e.stderr, "opsift: note: … and %d more notes (see %s)\n", len(c.Notes)-maxShown, checkHint(paths))
+			break
+		}
+		fmt.Fprintf(e.stderr, "opsift: note: %s\n", n)
+	}
+	return c, nil
+}
+
+// openCatalog is loadCatalog without the notes, for the selector, which
+// shows the catalog itself.
+func openCatalog(e *env, paths []string) (*catalog.Catalog, error) {
 	c, err := catalog.Load(catalogLayers(e, paths)...)
 	if err != nil {
 		return nil, inputError(newCatalogError(err, paths))
@@ -73,7 +92,7 @@ func (c *catalogError) Error() string {
 	lines := make([]string, 0, maxShown+1)
 	for i, p := range ps {
 		if i == maxShown {
-			lines = append(lines, fmt.Sprintf("… and %d more catalog problems (see %s)", len(ps)-maxShown, checkHint(c.paths)))
+			lines = append(lines, fmt.Sprintf("… and %d more catalog problems (see %s)", ps.Count()-maxShown, checkHint(c.paths)))
 			break
 		}
 		lines = append(lines, p.Error())

@@ -109,3 +109,23 @@ func TestAolForGainError(t *testing.T) {
 }
 
 func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
+
+func TestRegenerationTimeConstant(t *testing.T) {
+	// 1/(2π·1 MHz·0.5) = 318.31 ns (by hand).
+	assertRel(t, "tau", RegenerationTimeConstant(1e6, 0.5), 318.3099e-9, 1e-6)
+}
+
+func TestMaxFreqForGainError(t *testing.T) {
+	// Inverse of GBWForGainError: 1 MHz in NG 10 at 1 % reaches
+	// 1e6/(10·7.0179) = 14.249 kHz (by hand, 7.0179 = 1/√(1/0.99² − 1)).
+	f, err := MaxFreqForGainError(1e6, 10, 0.01)
+	if err != nil {
+		t.Fatal(err)
+	}
+	assertRel(t, "fmax", f, 14249.4, 1e-4)
+	g, _ := GBWForGainError(10, f, 0.01)
+	assertRel(t, "round trip", g, 1e6, 1e-12)
+	if _, err := MaxFreqForGainError(1e6, 10, 0); err == nil {
+		t.Error("eps 0: no error")
+	}
+}

@@ -44,15 +44,25 @@ func bisectDown(g func(float64) float64, level, lo, hi float64) float64 {
 
 func TestTIA(t *testing.T) {
 	// Graeme, Photodiode Amplifiers (from memory), worked numbers computed
-	// independently in python: Rf 1 MΩ, Cin 100 pF, 100 kHz wanted →
-	// GBW = 2π·1e6·1e-10·1e10 = 6.2832 MHz; flat Cf = 2.25065 pF; Graeme's
-	// 45° Cf = √(Cin/(2π·Rf·GBW)) = 1.59155 pF.
+	// independently in python: Rf 1 MΩ, Cin 100 pF, 100 kHz wanted. The
+	// shortcut 2π·Rf·Cin·f² = 6.2832 MHz neglects Cf; with its flat Cf =
+	// 2.25065 pF the nodal −3 dB bandwidth is only 98.8933 kHz. The
+	// requirement solves the flat response with Cf in the loop instead, so
+	// nodal analysis at the required GBW and its flat Cf gives exactly f.
 	const rf, cin, f = 1e6, 100e-12, 100e3
+	shortcut := 2 * math.Pi * rf * cin * f * f
+	assertRel(t, "shortcut", shortcut, 6283185.307, 1e-9)
 	gbw := GBWForTIA(rf, cin, f)
-	assertRel(t, "gbw", gbw, 6283185.307, 1e-9)
-	assertRel(t, "bandwidth inverse", BandwidthTIA(rf, cin, gbw), f, 1e-12)
+	assertRel(t, "bandwidth inverse", BandwidthTIA(rf, cin, gbw), f, 1e-9)
+	cfReq := FeedbackCapForTIAFlat(rf, cin, gbw)
+	f3req := bisectDown(func(x float64) float64 { return cmplx.Abs(tiaNodal(rf, cin, cfReq, gbw, x)) }, rf/math.Sqrt2, 1e3, 1e8)
+	assertRel(t, "nodal f3 at the required GBW", f3req, f, 1e-6)
+	if gbw <= shortcut {
+		t.Errorf("GBW with Cf %g Hz is not above the shortcut %g Hz", gbw, shortcut)
+	}
 
 	t.Run("maximally flat", func(t *testing.T) {
+		gbw := shortcut
 		cf := FeedbackCapForTIAFlat(rf, cin, gbw)
 		assertRel(t, "flat Cf", cf, 2.2506482529e-12, 1e-8)
 		assertRel(t, "flat Cf ≈ √(Cin/(π·Rf·GBW))", cf, math.Sqrt(cin/(math.Pi*rf*gbw)), 1e-3)
@@ -61,17 +71,18 @@ func TestTIA(t *testing.T) {
 		h0 := tiaNodal(rf, cin, cf, gbw, f0)
 		assertRel(t, "|Z(f0)|/Rf by nodal analysis", cmplx.Abs(h0)/rf, q, 1e-9)
 		f3 := bisectDown(func(x float64) float64 { return cmplx.Abs(tiaNodal(rf, cin, cf, gbw, x)) }, rf/math.Sqrt2, 1e3, 1e8)
-		// python: 98.8933 kHz = f·√(Cin/(Cin + Cf)); GBWForTIA neglects Cf.
+		// python: 98.8933 kHz = f·√(Cin/(Cin + Cf)): the shortcut falls short.
 		assertRel(t, "f3 by nodal analysis", f3, 98893.3218, 1e-6)
-		assertRel(t, "f3 ≈ wanted bandwidth", f3, f, 0.015)
 		assertRel(t, "f3 from f0 and Q", LowPass2Bandwidth(f0, q), f3, 1e-6)
+		assertRel(t, "BandwidthTIA", BandwidthTIA(rf, cin, gbw), f3, 1e-6)
 	})
 
 	t.Run("45 degree choice", func(t *testing.T) {
+		gbw := shortcut
 		cf := FeedbackCapForTIA(rf, cin, gbw)
 		assertRel(t, "45° Cf", cf, 1.5915494309e-12, 1e-8)
 		// Graeme: the feedback pole sits at the bandwidth.
-		assertRel(t, "feedback pole", 1/(2*math.Pi*rf*cf), BandwidthTIA(rf, cin, gbw), 1e-12)
+		assertRel(t, "feedback pole", 1/(2*math.Pi*rf*cf), math.Sqrt(gbw/(2*math.Pi*rf*cin)), 1e-12)
 		// Phase margin from the loop gain, found numerically: 45° is Graeme's
 		// straight-line Bode construction; the exact loop gives about 52°
 		// (the crossover sits above the feedback zero), consistent with Q ≈ 1.
@@ -104,4 +115,12 @@ func TestTIA(t *testing.T) {
 			t.Errorf("flat Cf = %g F, want 0", cf)
 		}
 	})
+}
+
+func TestGBWForTIANoCf(t *testing.T) {
+	// 2π·1 MΩ·100 pF·(100 kHz)² = 6.2832 MHz (by hand), below the need with Cf.
+	assertRel(t, "shortcut", GBWForTIANoCf(1e6, 100e-12, 100e3), 6283185.307, 1e-9)
+	if GBWForTIA(1e6, 100e-12, 100e3) <= GBWForTIANoCf(1e6, 100e-12, 100e3) {
+		t.Error("need with Cf not above the shortcut")
+	}
 }

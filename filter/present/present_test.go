@@ -8,6 +8,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	_ "github.com/opsift/opsift/internal/golden" // takes -update, so go test ./... -update runs here too
 )
 
 // The margin is available/required − 1 (DESIGN.md "Worst case and

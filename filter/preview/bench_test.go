@@ -20,7 +20,7 @@ func BenchmarkRunGain(b *testing.B) {
 
 // BenchmarkRunClock is one preview of the relaxation oscillator.
 func BenchmarkRunClock(b *testing.B) {
-	plan := demoPlan(b, "mixed-templates.toml")
+	plan := demoPlan(b, "pickup-counter-6v.toml")
 	p := demoPart(b, "gp4-bip")
 	for b.Loop() {
 		if _, err := Run(plan, "clock", p, Options{}); err != nil {

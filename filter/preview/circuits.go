@@ -2,10 +2,10 @@ package preview
 
 import (
 	"fmt"
-	"math"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/circuit"
 	"github.com/opsift/opsift/filter/sim"
 )
 
@@ -149,9 +149,19 @@ func (r *reader) comparator() (stageBuild, error) {
 	if err != nil {
 		return stageBuild{}, err
 	}
+	vol, err := r.need("out_low")
+	if err != nil {
+		return stageBuild{}, err
+	}
+	voh, err := r.need("out_high")
+	if err != nil {
+		return stageBuild{}, err
+	}
 	f := 1 / (comparatorPeriodTransitions * r.sp.Rise)
 	return stageBuild{
-		circuit: sim.Comparator{Threshold: th},
+		// The edge is timed between the stage's levels, as its slew
+		// requirement counts it.
+		circuit: sim.Comparator{Threshold: th, Low: vol, High: voh},
 		input:   sim.Input{Shape: sim.Sine, Peak: (hi - lo) / 2, Offset: (hi + lo) / 2, Freq: f},
 		notes: []string{fmt.Sprintf("driven by a sine over the input range %s … %s at %s (the design gives no frequency; a period of %d allowed transition times)",
 			catalog.Format(lo, catalog.Volt), catalog.Format(hi, catalog.Volt), catalog.Format(f, catalog.Hertz), comparatorPeriodTransitions)},
@@ -189,7 +199,7 @@ func (r *reader) sallenKey() (stageBuild, error) {
 		if c.C2, err = r.need("c2"); err != nil {
 			return stageBuild{}, err
 		}
-		f0 = 1 / (2 * math.Pi * math.Sqrt(c.R1*c.R2*c.C1*c.C2))
+		f0 = circuit.SallenKeyF0(c.R1, c.R2, c.C1, c.C2)
 	} else {
 		var err error
 		if f0, err = r.need("f0"); err != nil {
@@ -198,12 +208,9 @@ func (r *reader) sallenKey() (stageBuild, error) {
 		if q, err = r.need("q"); err != nil {
 			return stageBuild{}, err
 		}
-		// Equal resistors: C1 = 2Q/(ω0·R), C2 = 1/(2Q·ω0·R) give
-		// f0 = 1/(2π·R·√(C1C2)) and Q = √(C1/C2)/2 (Sallen & Key, 1955;
-		// from memory).
-		w0 := 2 * math.Pi * f0
+		// Equal resistors (circuit.SallenKeyEqualR).
 		c.R1, c.R2 = defaultR, defaultR
-		c.C1, c.C2 = 2*q/(w0*defaultR), 1/(2*q*w0*defaultR)
+		c.C1, c.C2 = circuit.SallenKeyEqualR(defaultR, f0, q)
 	}
 	b := stageBuild{circuit: c,
 		input: sim.Input{Shape: sim.Sine, Peak: r.sp.Peak, Freq: f0, Offset: r.ref()},
@@ -247,7 +254,7 @@ func (r *reader) transimpedance(part *catalog.Part, worst *filter.PartFigures) (
 	// A light step, shown over a fixed number of the design's rise times
 	// so that parts share one time axis and a slow part is seen not to
 	// settle in time.
-	rise := 0.35 / bw
+	rise := circuit.RiseBandwidth / bw
 	dur := tiaStepRises * rise
 	return stageBuild{
 		circuit:  sim.Transimpedance{Rf: rf, Cf: cf, Cin: cin, Ref: r.ref()},

@@ -48,14 +48,14 @@ func loadPlan(t *testing.T, name string) *filter.Plan {
 	return plan
 }
 
-// TestCMOSQuadPassesOn12V is the design half of the trade fact (common
-// practice, no source): on a 12 V rail the 16 V CMOS quad is a drop-in
+// TestCMOSQuadPassesOnSplit5V is the design half of the trade fact (common
+// practice, no source): on ±5 V rails the 17 V CMOS quad is a drop-in
 // that passes, its lower maximum supply only a warning, while the bipolar
-// quads fail on slew (0.5 V/µs typical < 0.628 V/µs needed, see
-// testdata/rail12.toml) and the 5 V CMOS quad fails on supply.
-func TestCMOSQuadPassesOn12V(t *testing.T) {
+// quads fail on slew (0.44 V/µs typical × 0.7 = 0.308 V/µs < 0.421 V/µs
+// needed, see testdata/split5.toml) and the 5 V CMOS quad fails on supply.
+func TestCMOSQuadPassesOnSplit5V(t *testing.T) {
 	parts, by := loadQuads(t)
-	plan := loadPlan(t, "rail12.toml")
+	plan := loadPlan(t, "split5.toml")
 	res := Find(by["bq4-old"], parts, Options{Plan: plan})
 	if !res.Designed {
 		t.Fatal("result not marked as designed")
@@ -93,7 +93,7 @@ func TestCMOSQuadPassesOn12V(t *testing.T) {
 // the over-temperature limits where both parts give them.
 func TestOverTemperatureFromPlan(t *testing.T) {
 	parts, by := loadQuads(t)
-	res := Find(by["cq4-cmos"], parts, Options{Plan: loadPlan(t, "rail12.toml")})
+	res := Find(by["cq4-cmos"], parts, Options{Plan: loadPlan(t, "split5.toml")})
 	f := field(t, byID(res, "cq2-cmos").Fields, "vos")
 	if f.Original.Limit != LimitMaxOT || f.Candidate.Limit != LimitMaxOT {
 		t.Errorf("vos limits %s/%s, want max_ot on both", f.Original.Limit, f.Candidate.Limit)

@@ -54,7 +54,7 @@ func TestGolden(t *testing.T) {
 	}{
 		{"catalog_only", func() Options { return Options{} }},
 		{"obsolete_included", func() Options { return Options{IncludeObsolete: true} }},
-		{"design_rail12", func() Options { return Options{Plan: loadPlan(t, "rail12.toml")} }},
+		{"design_split5", func() Options { return Options{Plan: loadPlan(t, "split5.toml")} }},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -186,6 +186,8 @@ var fieldDefs = [...]def{
 	{"ios", "input offset current", catalog.Ampere, Lower, tolRel, true, spec(Lower, func(p *catalog.Part) catalog.Spec { return p.Ios })},
 	{"en", "voltage noise", catalog.VoltNoise, Lower, tolRel, false, spec(Lower, func(p *catalog.Part) catalog.Spec { return p.En })},
 	{"in", "current noise", catalog.CurrentNoise, Lower, tolRel, false, spec(Lower, func(p *catalog.Part) catalog.Spec { return p.In })},
+	{"en_corner", "voltage noise 1/f corner", catalog.Hertz, Lower, tolRel, false, rating(func(p *catalog.Part) catalog.Opt { return p.EnCorner })},
+	{"in_corner", "current noise 1/f corner", catalog.Hertz, Lower, tolRel, false, rating(func(p *catalog.Part) catalog.Opt { return p.InCorner })},
 	{"iq", "quiescent current", catalog.Ampere, Lower, tolRel, false, spec(Lower, func(p *catalog.Part) catalog.Spec { return p.Iq })},
 	{"iout", "output current", catalog.Ampere, Higher, tolRel, false, spec(Higher, func(p *catalog.Part) catalog.Spec { return p.Iout })},
 	{"temp_low", "lowest rated temperature", catalog.Celsius, Lower, tolTemp, false, rating(func(p *catalog.Part) catalog.Opt { return p.Temp[0] })},

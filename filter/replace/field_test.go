@@ -55,6 +55,10 @@ func setTyp(p *catalog.Part, key string, v float64) {
 		p.VdiffMax = o
 	case "cload":
 		p.CLoad = o
+	case "en_corner":
+		p.EnCorner = o
+	case "in_corner":
+		p.InCorner = o
 	default:
 		panic("setTyp: unknown key " + key)
 	}
@@ -118,6 +122,8 @@ func TestVerdictRules(t *testing.T) {
 		{"temp_high", 125, 85, Worse},
 		{"vdiff_max", 32, 0.7, Worse},
 		{"vdiff_max", 0.7, 32, Better},
+		{"en_corner", 100, 1e3, Worse}, // a higher 1/f corner is more low-frequency noise
+		{"in_corner", 1e3, 100, Better},
 		{"cload", 100e-12, 1e-9, Better},
 		{"cload", 1e-9, 100e-12, Worse},
 	}

@@ -4,17 +4,28 @@ import (
 	"encoding/csv"
 	"io"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
 
+// CautionColumn is the header of the last column of every CSV opsift
+// writes; each data row carries Caution in it. A column rather than a
+// leading "# ..." line: CSV has no comment syntax, and spreadsheet importers
+// read such a line as the first row (taking it for the header), while a
+// column keeps the header in row 1 and the caution on every row that is
+// filtered, sorted or pasted elsewhere.
+const CautionColumn = "caution"
+
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
 // figures (SI units, plain numbers; empty when unknown), then for every
-// numeric requirement the part's worst-case figure and the margin. The
-// failing column lists "check:margin" pairs separated by ";".
+// numeric requirement the part's worst-case figure and the margin, and last
+// the caution. The failing column lists "check:margin" pairs separated by
+// ";".
 func WriteCSV(w io.Writer, doc *Doc) error {
 	cw := csv.NewWriter(w)
 	reqs := doc.Plan.Requirements()
@@ -30,6 +41,10 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 			head = append(head, name+" margin")
 		}
 	}
+	for i := range head {
+		head[i] = csvText(head[i])
+	}
+	head = append(head, CautionColumn)
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -50,10 +65,10 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 		if w := present.Worst(r); w != nil {
 			reason = present.Reason(w)
 		}
-		row := []string{rank, r.Part.ID, r.Part.Name, strconv.FormatBool(r.Pass), csvNum(present.ShownMargin(r)),
-			present.RowMargin(r), binding, reason,
+		row := []string{rank, csvText(r.Part.ID), csvText(r.Part.Name), strconv.FormatBool(r.Pass), csvNum(present.ShownMargin(r)),
+			csvMargin(present.RowMargin(r)), csvText(binding), csvText(reason),
 			strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
-			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), strings.Join(failing, ";")}
+			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), csvText(strings.Join(failing, ";"))}
 		for j := range r.Checks {
 			c := &r.Checks[j]
 			switch c.Req.Bound {
@@ -63,12 +78,42 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 				row = append(row, csvNum(c.Margin))
 			}
 		}
+		row = append(row, Caution)
 		if err := cw.Write(row); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvText makes a text cell safe to open in a spreadsheet: unsafe runes
+// are escaped (safe.Text), and a cell a spreadsheet would read as a
+// formula (starting with =, +, -, @, tab or CR) gets a leading apostrophe,
+// the usual neutralisation. Only text cells pass through here: numeric
+// cells (csvNum) are numbers, so -0.5 stays -0.5.
+func csvText(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		s = "'" + s
+	}
+	return safe.Text(s)
+}
+
+// shownMargin is the grammar of a percentage present.Margin writes
+// ("+3.2 %", "-44 %"); the ratio ("×17") and None start with no formula
+// character.
+var shownMargin = regexp.MustCompile(`^[+-][0-9]+(\.[0-9])? %$`)
+
+// csvMargin writes the margin_shown cell. A signed percentage of
+// present.Margin starts with + or -, which csvText would take for a
+// formula; it is the program's own figure and a spreadsheet reads it as
+// that percentage, so it is written as it is. Anything else goes through
+// csvText.
+func csvMargin(s string) string {
+	if shownMargin.MatchString(s) {
+		return s
+	}
+	return csvText(s)
 }
 
 // csvNum writes a number with 12 significant digits, "" for NaN.

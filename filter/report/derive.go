@@ -2,9 +2,11 @@ package report
 
 import (
 	"bufio"
+	"bytes"
 	"fmt"
 	"io"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -23,9 +25,11 @@ func WriteDerive(w io.Writer, format string, p *filter.Plan, m *Meta) error {
 }
 
 // writeDeriveText writes the summary, the design's warnings and every
-// requirement grouped by stage.
+// requirement grouped by stage; every line passes through the sanitiser,
+// since the design's strings (title, package lists) are in it.
 func writeDeriveText(w io.Writer, p *filter.Plan) error {
-	b := bufio.NewWriter(w)
+	var buf bytes.Buffer
+	b := bufio.NewWriter(&buf)
 	fmt.Fprintln(b, oneLine(p.Title))
 	for _, l := range summaryLines(p) {
 		fmt.Fprintln(b, "  "+l)
@@ -53,7 +57,11 @@ func writeDeriveText(w io.Writer, p *filter.Plan) error {
 		fmt.Fprintf(b, "  %-15s %-6s %-22s %s\n", q.Key, q.Bound, Need(q), q.Why)
 	}
 	fmt.Fprintf(b, "\nCaution: %s\n", Caution)
-	return b.Flush()
+	if err := b.Flush(); err != nil {
+		return err
+	}
+	_, err := io.WriteString(w, safe.Lines(buf.String()))
+	return err
 }
 
 type jsonStage struct {

@@ -1,11 +1,13 @@
 package report
 
 import (
+	"bytes"
 	"encoding/json"
 	"io"
 	"math"
 	"strconv"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -77,6 +79,12 @@ type jsonCheck struct {
 	Status        string  `json:"status"`
 	Basis         string  `json:"basis,omitempty"`
 	Note          string  `json:"note,omitempty"`
+	// Cf is the feedback capacitor a transimpedance gbw check needs on
+	// this part, F (DESIGN.md "Contract additions").
+	Cf *num `json:"cf,omitempty"`
+	// PredictedFreq is the frequency a relaxation stage runs at on this
+	// part (its gbw check), Hz.
+	PredictedFreq *num `json:"predicted_freq,omitempty"`
 }
 
 // num is a float64 written with at most 12 significant digits.
@@ -161,6 +169,12 @@ func jsonChecks(r *filter.Result) []jsonCheck {
 				j.Have = Has(c, r.Part)
 			}
 		}
+		switch c.Aside.Kind {
+		case filter.AsideCf:
+			j.Cf = val(c.Aside.V)
+		case filter.AsidePredictedFreq:
+			j.PredictedFreq = val(c.Aside.V)
+		}
 		out = append(out, j)
 	}
 	return out
@@ -191,9 +205,17 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 	return encodeJSON(w, out)
 }
 
+// encodeJSON writes v indented; the unsafe runes encoding/json leaves
+// alone are written as \u escapes (safe.JSON), so the document decodes to
+// the same strings but cannot act on a terminal it is shown in.
 func encodeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(v)
+	if err := enc.Encode(v); err != nil {
+		return err
+	}
+	_, err := w.Write(safe.JSON(buf.Bytes()))
+	return err
 }

@@ -2,11 +2,14 @@ package report
 
 import (
 	"bufio"
+	"bytes"
 	"fmt"
 	"io"
+	"net/url"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -14,7 +17,20 @@ import (
 // WriteMarkdown writes a shortlist document for design review: the design
 // summary, every requirement with its formula, the ranked table, one check
 // table per listed candidate and the caution.
+//
+// The document is safe to render: every data string is HTML-escaped and
+// stripped of Markdown markup, unsafe runes are escaped (safe.Lines), and
+// a datasheet link is written only when it is http or https.
 func WriteMarkdown(w io.Writer, doc *Doc) error {
+	var buf bytes.Buffer
+	if err := writeMarkdown(&buf, doc); err != nil {
+		return err
+	}
+	_, err := io.WriteString(w, safe.Lines(buf.String()))
+	return err
+}
+
+func writeMarkdown(w io.Writer, doc *Doc) error {
 	b := bufio.NewWriter(w)
 	p := doc.Plan
 	fmt.Fprintf(b, "# Op-amp shortlist: %s\n\n", mdText(oneLine(p.Title)))
@@ -57,8 +73,12 @@ func WriteMarkdown(w io.Writer, doc *Doc) error {
 		fmt.Fprintf(b, "\n### `%s` — %s\n\n", r.Part.ID, mdText(r.Part.Name))
 		facts := []string{"tech " + orUnknown(string(r.Part.Tech)), fmt.Sprintf("%d channel(s)", r.Part.Channels),
 			"packages " + strings.Join(r.Part.Packages, ", "), "lifecycle " + orUnknown(string(r.Part.Lifecycle))}
-		if r.Part.Datasheet != "" {
-			facts = append(facts, "datasheet "+r.Part.Datasheet)
+		if ds := r.Part.Datasheet; ds != "" {
+			if webLink(ds) {
+				facts = append(facts, "datasheet "+ds)
+			} else {
+				facts = append(facts, "datasheet link left out (not http or https)")
+			}
 		}
 		fmt.Fprintf(b, "%s.\n\n", mdText(strings.Join(facts, "; ")))
 		if !r.Pass {
@@ -83,10 +103,19 @@ func stageOrDesign(s string) string {
 	return s
 }
 
-// mdText escapes the characters that would break a Markdown table cell.
+// mdText escapes the characters that would break a Markdown table cell
+// or be read as HTML, and every unsafe rune (CR and LF included).
 func mdText(s string) string {
-	r := strings.NewReplacer("|", `\|`, "\n", " ", "*", `\*`, "_", `\_`, "`", "'")
-	return r.Replace(s)
+	r := strings.NewReplacer("|", `\|`, "\n", " ", "*", `\*`, "_", `\_`, "`", "'",
+		"&", "&amp;", "<", "&lt;", ">", "&gt;", "[", `\[`, "]", `\]`)
+	return safe.Text(r.Replace(s))
+}
+
+// webLink reports whether s is an absolute http or https URL, the only
+// links a shortlist carries (no javascript:, data: or file: links).
+func webLink(s string) bool {
+	u, err := url.Parse(s)
+	return err == nil && (u.Scheme == "http" || u.Scheme == "https") && u.Host != "" && safe.Clean(s)
 }
 
 // summaryLines describes the design in a few lines: supply, ambient,

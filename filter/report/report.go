@@ -5,7 +5,7 @@
 // command line and the TUI's shortlist export share it.
 //
 //	filter.Plan + ranked []filter.Result ─► Doc ─► Write(w, format, doc)
-//	filter.Plan ─────────────────────────────────► WriteDerive(w, format, plan)
+//	filter.Plan ─────────────────────────────────► WriteDerive(w, format, plan, meta)
 package report
 
 import (
@@ -15,6 +15,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -142,7 +143,7 @@ func sortName(k filter.SortKey) string {
 	return string(k)
 }
 
-func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+func oneLine(s string) string { return safe.Text(strings.Join(strings.Fields(s), " ")) }
 
 // Need renders what a requirement asks: "≥ 0.628 V/µs", "≤ 250 mV",
 // "1 V … 11 V", or the hard filter's wording.
@@ -174,6 +175,9 @@ func Has(c *filter.Check, p *catalog.Part) string {
 	case filter.BoundMin, filter.BoundMax:
 		if math.IsNaN(c.Available) {
 			return "?"
+		}
+		if c.Aside.Kind != filter.AsideNone {
+			return catalog.Format(c.Available, q.Dim) + " (" + c.Aside.Text() + ")"
 		}
 		return catalog.Format(c.Available, q.Dim)
 	case filter.BoundRange:

@@ -2,7 +2,6 @@ package report_test
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -177,16 +176,72 @@ func TestJSONContract(t *testing.T) {
 // CSV is RFC 4180: every row has the header's field count.
 func TestCSVShape(t *testing.T) {
 	p, rs := fixture(t, "audio-split.toml", false)
-	var b bytes.Buffer
-	if err := report.WriteCSV(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := csv.NewReader(&b).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := csvRows(t, &report.Doc{Plan: p, Results: rs, All: true})
 	if len(rows) != 6 {
 		t.Errorf("%d rows, want header + 5", len(rows))
+	}
+}
+
+// TestCautionInEveryFormat fails when any output of rank or derive loses
+// the caution. Line-wrapped formats are compared with their comment marks,
+// quote marks and line breaks folded into single spaces.
+func TestCautionInEveryFormat(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	for _, f := range report.Formats() {
+		t.Run(string(f), func(t *testing.T) {
+			var b bytes.Buffer
+			doc := &report.Doc{Plan: p, Results: rs, All: true, Width: 100}
+			if err := report.Write(&b, f, doc); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(folded(b.String()), report.Caution) {
+				t.Errorf("%s output lacks the caution:\n%s", f, b.String())
+			}
+		})
+	}
+	for _, f := range []string{"text", "json"} {
+		t.Run("derive "+f, func(t *testing.T) {
+			var b bytes.Buffer
+			if err := report.WriteDerive(&b, f, p, nil); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(folded(b.String()), report.Caution) {
+				t.Errorf("derive %s lacks the caution:\n%s", f, b.String())
+			}
+		})
+	}
+}
+
+// folded joins wrapped lines: "# " and "> " marks and line breaks become
+// single spaces, "**Caution.**"-style emphasis is kept as text.
+func folded(s string) string {
+	var words []string
+	for _, l := range strings.Split(s, "\n") {
+		l = strings.TrimLeft(l, "#> ")
+		words = append(words, strings.Fields(l)...)
+	}
+	return strings.Join(words, " ")
+}
+
+// TestCSVCautionColumn: the CSV carries the caution as its last column, on
+// the header row and on every data row, so a spreadsheet import keeps the
+// header in row 1 (RFC 4180 has no comment lines; common practice, no
+// source) and every row keeps the caution however it is sorted or cut.
+func TestCSVCautionColumn(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	// csvRows reads with FieldsPerRecord 0: every row must match the header's count.
+	rows := csvRows(t, &report.Doc{Plan: p, Results: rs, All: true})
+	if rows[0][0] != "rank" {
+		t.Errorf("first header cell %q, want rank (no line before the header)", rows[0][0])
+	}
+	last := len(rows[0]) - 1
+	if rows[0][last] != report.CautionColumn {
+		t.Errorf("last header cell %q, want %q", rows[0][last], report.CautionColumn)
+	}
+	for i, row := range rows[1:] {
+		if row[last] != report.Caution {
+			t.Errorf("row %d: caution cell %q, want the caution", i+1, row[last])
+		}
 	}
 }
 

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -79,7 +80,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	if ws := Warnings(doc.Meta, p); len(ws) > 0 {
 		b.WriteByte('\n')
 		for _, w := range ws {
-			line := present.Wrap("⚠ "+w.String(), width, "  ")
+			line := present.Wrap("⚠ "+safe.Text(w.String()), width, "  ")
 			for _, l := range line {
 				if doc.Color {
 					l = ansiRed + l + ansiReset
@@ -100,7 +101,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	for i, r := range listed {
 		rows[i] = make([]string, len(cols))
 		for j, c := range cols {
-			rows[i][j] = c.cell(i+1, r)
+			rows[i][j] = safe.Text(c.cell(i+1, r))
 		}
 	}
 	widths := make([]int, len(cols))
@@ -132,7 +133,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		writeRow(b, cols, widths, rows[i], doc.Color, colour)
 		if !r.Pass {
 			for _, c := range failingOrUnknown(r, doc.Strict) {
-				for _, line := range present.Wrap("✗ "+missText(c, r.Part), width-6, "  ") {
+				for _, line := range present.Wrap("✗ "+safe.Text(missText(c, r.Part)), width-6, "  ") {
 					line = "      " + line
 					if doc.Color {
 						line = ansiDim + line + ansiReset

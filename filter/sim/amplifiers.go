@@ -1,5 +1,10 @@
 package sim
 
+import (
+	"fmt"
+	"math"
+)
+
 // Follower is a unity-gain buffer: the input drives the non-inverting
 // input, the output is tied to the inverting input.
 type Follower struct{}
@@ -84,6 +89,12 @@ func (c Inverting) stage(a *ampParams) (*stage, error) {
 // the input is above the threshold.
 type Comparator struct {
 	Threshold float64 // V
+	// Low and High are the levels the transition time is measured
+	// between: the 10 % and 90 % points of High − Low, the definition the
+	// comparator's slew requirement uses (0.8·(VOH − VOL)/transition with
+	// the stage's out_low and out_high). Both 0: the amp's own swing. They
+	// are held within the swing.
+	Low, High float64
 }
 
 // Kind names the stage.
@@ -94,6 +105,13 @@ func (c Comparator) stage(a *ampParams) (*stage, error) {
 		return nil, err
 	}
 	s := &stage{kind: kindComparator, inUnit: "V", timeScale: (a.voh-a.vol)/a.slowSlew() + closedLoopTime(a, 1)}
+	s.edgeLo, s.edgeHi = a.vol, a.voh
+	if c.Low != 0 || c.High != 0 {
+		if !(c.Low < c.High) {
+			return nil, fmt.Errorf("comparator: low %g V is not below high %g V", c.Low, c.High)
+		}
+		s.edgeLo, s.edgeHi = math.Max(c.Low, a.vol), math.Min(c.High, a.voh)
+	}
 	s.sys = system{n: 1}
 	s.sys.d = inputs{1, -c.Threshold}
 	s.sys.plus.d = inputs{1, 0}

@@ -45,6 +45,10 @@ type stage struct {
 	// timeScale is the stage's slowest time constant, s: the default run
 	// after a Step is stepTimeConstants of it.
 	timeScale float64
+
+	// edgeLo, edgeHi are the levels a comparator's transition time is
+	// measured between (10–90 % of edgeHi − edgeLo), V.
+	edgeLo, edgeHi float64
 }
 
 // astable is the ideal relaxation oscillator: infinite slew rate and GBW,

@@ -2,6 +2,7 @@ package sim
 
 import (
 	"math"
+	"math/cmplx"
 	"testing"
 )
 
@@ -77,5 +78,42 @@ func TestStepConvergence(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestAdaptiveGrid: the default grid refines until the metrics change less
+// than 1e-5 between two grids. Against the closed-loop amplitude of the
+// linear model (textbook single-pole loop, from memory): a follower with
+// A(s) = Aol/(1 + s/ωp), ωp = 2π·GBW/Aol, passes |A/(1 + A)| at jω; at
+// 200 kHz on 1 MHz that is 0.98058 (by hand: 1/√(1 + 0.2²) ≈ 0.98058 for
+// Aol → ∞). The fixed 400-point grid reads the peak low by more than the
+// adaptive one.
+func TestAdaptiveGrid(t *testing.T) {
+	amp := Amp{Aol: 1e5, GBW: 1e6, SlewRise: 1e9, VOL: -5, VOH: 5}
+	in := Input{Shape: Sine, Peak: 1, Freq: 200e3}
+	w := 2 * math.Pi * in.Freq
+	wp := 2 * math.Pi * amp.GBW / amp.Aol
+	a := complex(amp.Aol, 0) / (1 + complex(0, w/wp))
+	want := 2 * in.Peak * cmplx.Abs(a/(1+a))
+	if math.Abs(want/2-0.98058) > 1e-4 {
+		t.Fatalf("closed-loop gain %g, want ≈ 0.98058 by hand", want/2)
+	}
+	adaptive, err := Run(Follower{}, amp, in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fixed, err := Run(Follower{}, amp, in, Options{PointsPerPeriod: 400})
+	if err != nil {
+		t.Fatal(err)
+	}
+	errA := math.Abs(adaptive.Metrics.OutputPP/want - 1)
+	errF := math.Abs(fixed.Metrics.OutputPP/want - 1)
+	t.Logf("400 points: %.3g, adaptive (%d points): %.3g", errF, adaptive.Metrics.PointsPerPeriod, errA)
+	if errA > 2e-5 {
+		t.Errorf("adaptive output_pp off by %.3g, want ≤ 2e-5", errA)
+	}
+	if adaptive.Metrics.PointsPerPeriod <= 400 || errA >= errF {
+		t.Errorf("adaptive grid %d points, error %.3g against %.3g at 400: want a finer, better grid",
+			adaptive.Metrics.PointsPerPeriod, errA, errF)
 	}
 }

@@ -43,6 +43,8 @@ type Metrics struct {
 	// Notes are messages for the user: clipping, common-mode excursions,
 	// an output that has not settled, an oscillator that does not start.
 	Notes []string
+	// PointsPerPeriod is the grid the metrics were measured on.
+	PointsPerPeriod int
 }
 
 func ptr(v float64) *float64 { return &v }
@@ -88,7 +90,7 @@ func measureDriven(st *stage, ap *ampParams, r *runner, ideal []float64, in Inpu
 	edges := false
 	switch {
 	case st.kind == kindComparator:
-		eLo, eHi, edges = ap.vol, ap.voh, true
+		eLo, eHi, edges = st.edgeLo, st.edgeHi, true
 	case in.Shape == Square:
 		n := opt.PointsPerPeriod
 		a, b := 0.0, 0.0

@@ -10,7 +10,9 @@ import (
 type Options struct {
 	// PointsPerPeriod sets the grid step h = T/PointsPerPeriod (rounded
 	// up to a multiple of 4 so the quarter periods of a sine fall on the
-	// grid). Default 400; at least 16.
+	// grid); at least 16. Default: adaptive — 400, doubled until no metric
+	// changes by more than convergeTolerance between two grids (at most
+	// maxAdaptivePoints); Metrics.PointsPerPeriod reports the grid used.
 	PointsPerPeriod int
 	// SettlePeriods are run before the metrics window: periods of the
 	// input, or rising output edges of an oscillator. Default 20, or 3 for
@@ -119,25 +121,76 @@ func Run(c Circuit, a Amp, in Input, opt Options) (*Waveform, error) {
 	if err != nil {
 		return nil, err
 	}
+	adaptive := opt.PointsPerPeriod == 0
 	opt, err = opt.withDefaults(st.kind == kindOscillator)
 	if err != nil {
 		return nil, err
 	}
-	var w *Waveform
-	if st.kind == kindOscillator {
-		w, err = runOscillator(st, &ap, opt)
-	} else {
+	if st.kind != kindOscillator {
 		if err := in.validate(); err != nil {
 			return nil, err
 		}
-		w, err = runDriven(st, &ap, in, opt)
+	}
+	w, err := runOnce(c, st, &ap, in, opt)
+	for adaptive && err == nil && opt.PointsPerPeriod < maxAdaptivePoints {
+		// Each run builds its own stage: runs keep state in it.
+		if st, err = c.stage(&ap); err != nil {
+			return nil, err
+		}
+		opt.PointsPerPeriod *= 2
+		fine, ferr := runOnce(c, st, &ap, in, opt)
+		if ferr != nil {
+			break // keep the converged-so-far coarser result
+		}
+		done := metricsConverged(&w.Metrics, &fine.Metrics)
+		w = fine
+		if done {
+			break
+		}
+	}
+	return w, err
+}
+
+// runOnce is one Run on one grid.
+func runOnce(c Circuit, st *stage, ap *ampParams, in Input, opt Options) (*Waveform, error) {
+	var w *Waveform
+	var err error
+	if st.kind == kindOscillator {
+		w, err = runOscillator(st, ap, opt)
+	} else {
+		w, err = runDriven(st, ap, in, opt)
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", c.Kind(), err)
 	}
 	w.Kind = c.Kind()
 	w.InUnit = st.inUnit
+	w.Metrics.PointsPerPeriod = opt.PointsPerPeriod
 	return w, nil
+}
+
+// metricsConverged reports whether every metric of two runs on successive
+// grids agrees within convergeTolerance, relative to the figure's scale:
+// the output peak-to-peak for voltages, 1 for fractions, the figure itself
+// for times and frequencies.
+func metricsConverged(a, b *Metrics) bool {
+	pp := math.Max(a.OutputPP, b.OutputPP)
+	close := func(x, y, scale float64) bool {
+		return math.Abs(x-y) <= convergeTolerance*math.Max(scale, math.Max(math.Abs(x), math.Abs(y)))
+	}
+	opt := func(x, y *float64, scale float64) bool {
+		if (x == nil) != (y == nil) {
+			return false
+		}
+		return x == nil || close(*x, *y, scale)
+	}
+	return close(a.OutputPP, b.OutputPP, 0) &&
+		close(a.SlewingFraction, b.SlewingFraction, 1) &&
+		opt(a.PeakError, b.PeakError, pp) &&
+		opt(a.THD, b.THD, thdFloor) &&
+		opt(a.Frequency, b.Frequency, 0) &&
+		opt(a.Duty, b.Duty, 1) &&
+		opt(a.TransitionTime, b.TransitionTime, 0)
 }
 
 // window is the part of a run the metrics and arrays cover: grid points

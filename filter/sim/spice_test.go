@@ -59,6 +59,14 @@ func spiceCases() []spiceCase {
 		{"relax-sr0.5", osc, slow, Input{}},
 		{"relax-sr5", osc, Amp{Aol: 1e5, GBW: 10e6, SlewRise: 5e6, VOL: -5, VOH: 5}, Input{}},
 		{"relax-sr1000", osc, Amp{Aol: 1e5, GBW: 100e6, SlewRise: 1000e6, VOL: -5, VOH: 5}, Input{}},
+		// GBW-limited: fast slew, 1 MHz; the regeneration after each switch
+		// sets the period (ideal 45.51 kHz).
+		{"relax-gbw1M-sr1000", Relaxation{R: 10e3, C: 1e-9, R1: 10e3, R2: 10e3},
+			Amp{Aol: 1e5, GBW: 1e6, SlewRise: 1000e6, VOL: -5, VOH: 5}, Input{}},
+		// The demo clock (R 15 kΩ, C 10 nF, β = 1/3, 12 V swing, shifted to
+		// ±6 V) at its derived gbw requirement: it should run 5 % slow.
+		{"relax-clock-gbw600k", Relaxation{R: 15e3, C: 10e-9, R1: 10e3, R2: 20e3},
+			Amp{Aol: 1e5, GBW: 599822, SlewRise: 1000e6, VOL: -6, VOH: 6}, Input{}},
 	}
 }
 
