@@ -8,6 +8,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // checksPane shows every check of the selected candidate, grouped by stage
@@ -137,7 +138,7 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			if a := c.Aside.Text(); a != "" {
 				note = a + " · " + note
 			}
-			margin := marginText(c.Margin)
+			margin := present.Margin(c.Margin)
 			if c.Status == filter.StatusFail {
 				margin = st.Fail.Render(margin)
 			}
@@ -166,7 +167,7 @@ func (p *checksPane) groupLine(r *filter.Result, stage string, w int) string {
 		case filter.StatusFail:
 			f := string(c.Req.Key)
 			if c.HasMargin() {
-				f += " " + marginText(c.Margin)
+				f += " " + present.Margin(c.Margin)
 			}
 			fails = append(fails, f)
 		case filter.StatusUnknown:
@@ -241,7 +242,7 @@ func (p *checksPane) summary(r *filter.Result) string {
 	if r.Pass {
 		b.WriteString(st.Pass.Render("✓ passes"))
 		if !math.IsNaN(r.WorstMargin) {
-			fmt.Fprintf(&b, " · worst %s at %s", marginText(r.WorstMargin), checkName(r.Binding.Stage, r.Binding.Key))
+			fmt.Fprintf(&b, " · worst %s at %s", present.Margin(r.WorstMargin), present.CheckName(r.Binding.Stage, r.Binding.Key))
 		}
 	} else {
 		b.WriteString(st.Fail.Render(fmt.Sprintf("✗ fails %d check(s)", r.Failed)))

@@ -8,6 +8,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // list is the candidate pane: the rows the narrowing lets through, in
@@ -88,7 +89,7 @@ func listColumns(idW int) []column {
 		{title: "name", width: 12, prio: 1, flex: true},
 		{title: "tech", width: 7, prio: 3},
 		{title: "ch", width: 2, prio: 2, right: true},
-		{title: "margin", width: 6, prio: 92, right: true},
+		{title: "margin", width: 7, prio: 92, right: true},
 		{title: "", width: barCells, prio: 4},
 		{title: "binding", width: 20, prio: 80},
 		{title: "fmax", width: 9, prio: 5, right: true},
@@ -264,39 +265,31 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 }
 
 // marginCells are a result's margin (with its basis marker) and binding
-// cells. For a failing part they name the worst failing check, by how far
-// it misses, and how many more fail.
+// cells, written by filter/present like every front end. For a failing
+// part they name the worst failing check, by how far it misses, or the
+// hard filter it fails by its reason ("package not offered"), and how many
+// more fail; a failing part never shows a positive margin.
 func marginCells(r *filter.Result) (margin, binding string) {
 	if r.Pass {
-		c := bindingCheck(r)
+		if math.IsNaN(r.WorstMargin) {
+			return present.None, ""
+		}
 		mk := ""
-		if c != nil {
+		if c := bindingCheck(r); c != nil {
 			mk = basisMark(c.Basis)
 		}
-		if math.IsNaN(r.WorstMargin) {
-			return "—", ""
-		}
-		return marginText(r.WorstMargin) + mk, checkName(r.Binding.Stage, r.Binding.Key)
+		return present.Margin(r.WorstMargin) + mk, present.CheckName(r.Binding.Stage, r.Binding.Key)
 	}
-	fails := r.Failing()
-	var worst *filter.Check
-	for _, c := range fails {
-		switch {
-		case worst == nil:
-			worst = c
-		case c.HasMargin() && (!worst.HasMargin() || c.Margin < worst.Margin):
-			worst = c
-		}
-	}
+	worst := present.Worst(r)
 	if worst == nil { // strict: failing on unknown figures only
-		return "—", fmt.Sprintf("? %d unknown", r.Unknown)
+		return present.None, fmt.Sprintf("? %d unknown", r.Unknown)
 	}
-	binding = "✗ " + checkName(worst.Req.Stage, worst.Req.Key)
-	if len(fails) > 1 {
-		binding += fmt.Sprintf(" +%d", len(fails)-1)
+	binding = "✗ " + present.Reason(worst)
+	if n := len(r.Failing()); n > 1 {
+		binding += fmt.Sprintf(" +%d", n-1)
 	}
 	if !worst.HasMargin() {
 		return "✗", binding
 	}
-	return marginText(worst.Margin) + basisMark(worst.Basis), binding
+	return present.Margin(worst.Margin) + basisMark(worst.Basis), binding
 }

@@ -89,8 +89,8 @@ func TestEditFrequencyReranks(t *testing.T) {
 	}
 	explain(m.rank.resPlan, old, false)
 	_, binding := marginCells(old)
-	if !strings.Contains(binding, "gain.slew") && !strings.Contains(binding, "gain.gbw") {
-		t.Errorf("%s fails on %q, want gain.slew or gain.gbw", oldTop, binding)
+	if !strings.Contains(binding, "gain/slew") && !strings.Contains(binding, "gain/gbw") {
+		t.Errorf("%s fails on %q, want gain/slew or gain/gbw", oldTop, binding)
 	}
 }
 
