@@ -262,9 +262,13 @@ func requirementText(r *filter.Requirement) string {
 	return k
 }
 
-// title is the pane's heading for design.
-func formTitle(design *filter.Design) string {
+// formTitle is the pane's heading for design; edited says how many inputs
+// differ from the file.
+func formTitle(design *filter.Design, edited int) string {
 	title := "DESIGN"
+	if edited > 0 {
+		title += " · modified"
+	}
 	if design.Title != "" {
 		title += " · " + safe.Text(design.Title)
 	}
@@ -307,10 +311,10 @@ func (f *form) settle(plan *filter.Plan, design *filter.Design, w, h int) {
 
 // draw draws the pane into h lines of w cells, the first being the title;
 // the offset is settled in Update.
-func (f *form) draw(plan *filter.Plan, design *filter.Design, focused bool, w, h int) []string {
+func (f *form) draw(plan *filter.Plan, design *filter.Design, edited int, focused bool, w, h int) []string {
 	lines := f.lines(plan, design.Name, w)
 	out := make([]string, 0, h)
-	out = append(out, paneHeading(&f.u.st, formTitle(design), focused, w))
+	out = append(out, paneHeading(&f.u.st, formTitle(design, edited), focused, w))
 	for i := f.offset; i < len(lines) && len(out) < h; i++ {
 		out = append(out, lines[i].text)
 	}

@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -20,8 +21,14 @@ type Config struct {
 	// Design is the design to edit; the selector edits a clone of it.
 	Design *filter.Design
 	// DesignFile is the file Design was read from, "" for the embedded demo.
-	// It is the default path when saving.
+	// It is the default path when saving, and watched for changes.
 	DesignFile string
+	// DesignText is the text Design was decoded from: a save edits it in
+	// place, keeping the user's comments and layout. Nil: the design's
+	// encoding (filter.EncodeDesign) is the base.
+	DesignText []byte
+	// Version is the program version exports record.
+	Version string
 	// Catalog is the loaded catalog; CatalogErr the problems loading it
 	// reported (parts with problems are left out), shown on the status line.
 	Catalog    *catalog.Catalog
@@ -85,6 +92,16 @@ type Model struct {
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
 	quitting           bool
+
+	// Keeping the user's work (keep.go).
+	saved         savedState // the design as on disk: base of saves and of edits
+	edits         []string   // inputs edited since saved, in form order
+	undo          []undoStep // newest last
+	ask           ask        // the open question (modeAsk)
+	quitAfterSave bool       // the save was asked for at q
+	lastDir       string     // directory of the last file written
+	designWatch   *watcher   // follows the design file
+	designSeq     int        // debounce of design file changes
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -128,6 +145,13 @@ func New(cfg Config) *Model {
 	m.form = newForm(u)
 	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
 	m.design = cfg.Design.Clone()
+	m.saved = savedState{path: cfg.DesignFile, text: cfg.DesignText, design: cfg.Design.Clone()}
+	if m.saved.text == nil {
+		var b bytes.Buffer
+		if err := filter.EncodeDesign(&b, cfg.Design); err == nil {
+			m.saved.text = b.Bytes()
+		}
+	}
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
@@ -149,11 +173,17 @@ func (m *Model) Init() tea.Cmd {
 	if m.watcher != nil {
 		cmds = append(cmds, waitForChange(m.watcher))
 	}
+	if m.cfg.Watch {
+		cmds = append(cmds, m.watchDesign())
+	}
 	return tea.Batch(cmds...)
 }
 
-// Close releases the file watcher. Call it after the program ends.
+// Close releases the file watchers. Call it after the program ends.
 func (m *Model) Close() error {
+	if m.designWatch != nil {
+		_ = m.designWatch.Close()
+	}
 	if m.watcher != nil {
 		return m.watcher.Close()
 	}
@@ -188,8 +218,10 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		m.prev.adopt(msg)
 		return nil
 	case writtenMsg:
-		m.adoptWritten(msg)
-		return nil
+		return m.adoptWritten(msg)
+	}
+	if cmd, ok := m.updateDesignJobs(msg); ok {
+		return cmd
 	}
 	return m.updateJobs(msg)
 }
@@ -207,6 +239,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateHelp(k)
 	case modeReplace:
 		return m.updateReplace(k)
+	case modeAsk:
+		return m.updateAsk(k)
 	}
 	return m.updateBrowse(k)
 }

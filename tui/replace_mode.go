@@ -486,8 +486,7 @@ func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 	m.repl, act = m.repl.update(k, replaceListRows(m.ui.height-3))
 	switch act {
 	case replaceQuit:
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case replaceBack:
 		m.mode = modeBrowse
 		m.setMessage("back from replacement mode")

@@ -11,8 +11,7 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	keys := &m.ui.keys
 	switch {
 	case key.Matches(k, keys.Quit):
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case key.Matches(k, keys.Help):
 		m.mode = modeHelp
 	case key.Matches(k, keys.Focus):
@@ -74,13 +73,11 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 			m.setMessage("mark parts with space first; x exports the marked ones")
 			return nil
 		}
-		return m.openPrompt(promptExport, "shortlist.md")
+		return m.openPrompt(promptExport, m.inLastDir("shortlist.md"))
 	case key.Matches(k, keys.Save):
-		path := m.cfg.DesignFile
-		if path == "" {
-			path = "design.toml"
-		}
-		return m.openPrompt(promptSave, path)
+		return m.openSave()
+	case key.Matches(k, keys.Undo):
+		return m.undoLast()
 	case key.Matches(k, keys.Reload):
 		return m.reload("reloaded")
 	case key.Matches(k, keys.Open):
@@ -149,8 +146,7 @@ func (m *Model) pageRows() int {
 // updateHelp closes the help overlay on any key but ctrl+c, which quits.
 func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
 	if k.String() == "ctrl+c" {
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	}
 	m.mode = modeBrowse
 	return nil

@@ -28,7 +28,7 @@ func (m *Model) View() string {
 
 	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
-		return m.form.draw(m.rank.plan, m.design, m.focus == paneDesign, l.design.w, l.design.h)
+		return m.form.draw(m.rank.plan, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
 	}
 	switch {
 	case l.stacked && m.focus == paneDesign:
@@ -48,12 +48,22 @@ func (m *Model) View() string {
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
 	}
+	var bottom []string
+	switch m.mode {
+	case modePrompt:
+		bottom = m.prompt.draw(u, m.marks.len(), u.width)
+	case modeAsk:
+		a, b := m.drawAsk(u.width)
+		bottom = []string{a, b}
+	}
+	if extra := len(bottom) - 2; extra > 0 {
+		body = body[:max(0, len(body)-extra)] // a wrapped prompt error takes body lines
+	}
 	lines = append(lines, body...)
 
 	switch m.mode {
-	case modePrompt:
-		a, b := m.prompt.draw(u, m.marks.len(), u.width)
-		lines = append(lines, a, b)
+	case modePrompt, modeAsk:
+		lines = append(lines, bottom...)
 	case modeFind:
 		in := m.prompt.input
 		in.Width = max(10, u.width-8)
@@ -68,15 +78,21 @@ func (m *Model) View() string {
 	return safe.Styled(strings.Join(lines, "\n"))
 }
 
-// titleView is the top line: the program, the design file and the sources.
+// titleView is the top line: the program, whether the design has unsaved
+// edits (first, so a narrow screen keeps it), the design file and the
+// sources.
 func (m *Model) titleView(w int) string {
 	st := &m.ui.st
-	design := safe.Text(m.cfg.DesignFile)
+	design := safe.Text(m.saved.path)
 	if design == "" {
 		design = safe.Text(m.design.Name) + " (demo design)"
 	}
 	right := " ? keys "
-	left := st.Title.Render(" opsift") + st.Muted.Render(" · design "+design+" · catalog "+sourceName(m.cat.Sources))
+	left := st.Title.Render(" opsift")
+	if m.modified() {
+		left += " " + st.Modified.Render(fmt.Sprintf("● modified (%s, w saves)", plural(len(m.edits), "input")))
+	}
+	left += st.Muted.Render(" · design " + design + " · catalog " + sourceName(m.cat.Sources))
 	return fit(left, w-len(right)) + st.Muted.Render(right)
 }
 

@@ -44,6 +44,20 @@ func runDerive(e *env, args []string) error {
 // deriveDesign reads, decodes and derives the design at path, or the
 // embedded demo design when path is "".
 func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
+	d, _, err := readDesign(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := filter.Derive(d)
+	if err != nil {
+		return nil, nil, err
+	}
+	return d, p, nil
+}
+
+// readDesign reads and decodes the design at path ("" for the embedded
+// demo) and returns it with the text it was decoded from.
+func readDesign(path string) (*filter.Design, []byte, error) {
 	var (
 		b    []byte
 		err  error
@@ -62,9 +76,5 @@ func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	p, err := filter.Derive(d)
-	if err != nil {
-		return nil, nil, err
-	}
-	return d, p, nil
+	return d, b, nil
 }

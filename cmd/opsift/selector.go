@@ -10,6 +10,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/tui"
 )
 
@@ -43,7 +44,10 @@ func runSelector(e *env, args []string) error {
 	if fset.NArg() > 0 {
 		return usageError("unexpected argument %q (see opsift --help)", fset.Arg(0))
 	}
-	d, _, err := deriveDesign(design)
+	d, text, err := readDesign(design)
+	if err == nil {
+		_, err = filter.Derive(d)
+	}
 	if err != nil {
 		return inputError(err)
 	}
@@ -77,6 +81,8 @@ func runSelector(e *env, args []string) error {
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
+		DesignText: text,
+		Version:    version,
 		Catalog:    cat,
 		Load:       func() (*catalog.Catalog, error) { return catalog.Load(layers...) },
 		OnDisk:     onDisk,

@@ -1,0 +1,310 @@
+package tui
+
+import (
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
+)
+
+// newOnFile copies the demo design (31 comment lines) to a file in a
+// temporary directory and opens the selector on it, as opsift --design
+// FILE does. It returns the model and the file.
+func newOnFile(t *testing.T, w, h int) (*Model, string) {
+	t.Helper()
+	text, err := fs.ReadFile(data.Designs, data.DefaultDesign)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "monitor.toml")
+	if err := os.WriteFile(path, text, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	d, err := filter.DecodeDesign(path, text)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := New(Config{Design: d, DesignFile: path, DesignText: text, Catalog: demoCatalog(t), Renderer: asciiRenderer()})
+	m.Update(tea.WindowSizeMsg{Width: w, Height: h})
+	run(t, m, m.Init())
+	return m, path
+}
+
+// commentLines are the lines of text that hold a comment.
+func commentLines(text string) []string {
+	var out []string
+	for _, l := range strings.Split(text, "\n") {
+		if i := strings.Index(l, "#"); i >= 0 {
+			out = append(out, strings.TrimSpace(l[i:]))
+		}
+	}
+	return out
+}
+
+// TestModifiedAndQuit: an edit shows "modified" in the header and the
+// design pane; q then asks (esc goes back, d quits without writing); with
+// no edit, or with the edit undone, q quits at once.
+func TestModifiedAndQuit(t *testing.T) {
+	m, path := newOnFile(t, 120, 40)
+	before, _ := os.ReadFile(path)
+	if strings.Contains(m.View(), "modified") {
+		t.Fatal("a fresh design shows modified")
+	}
+	editField(t, m, "supply.pos", "15 V")
+	screen := m.View()
+	for _, want := range []string{"● modified (1 input, w saves)", "DESIGN · modified"} {
+		if !strings.Contains(screen, want) {
+			t.Errorf("after an edit the screen lacks %q:\n%s", want, screen)
+		}
+	}
+	press(t, m, "q")
+	if m.quitting || m.mode != modeAsk {
+		t.Fatalf("q with unsaved edits: quitting %v, mode %v; want a question", m.quitting, m.mode)
+	}
+	if s := m.View(); !strings.Contains(s, "monitor.toml has 1 edited input not saved") || !strings.Contains(s, "d discard and quit") {
+		t.Errorf("the question is not on screen:\n%s", s)
+	}
+	press(t, m, "esc")
+	if m.quitting || m.mode != modeBrowse {
+		t.Fatalf("esc: quitting %v, mode %v; want back to browsing", m.quitting, m.mode)
+	}
+	press(t, m, "q", "d")
+	if !m.quitting {
+		t.Fatal("d did not quit")
+	}
+	if after, _ := os.ReadFile(path); string(after) != string(before) {
+		t.Error("discarding wrote the file")
+	}
+
+	m, _ = newOnFile(t, 120, 40)
+	editField(t, m, "supply.pos", "15 V")
+	press(t, m, "u")
+	if m.modified() {
+		t.Errorf("after undoing the only edit the design is still modified: %v", m.edits)
+	}
+	press(t, m, "q")
+	if !m.quitting {
+		t.Error("q without unsaved edits did not quit at once")
+	}
+}
+
+// TestSaveInPlaceKeepsComments: w on the design file writes the edited
+// value into the user's text: every comment stays, the new value is in
+// place, the file reads back as the design in force, and the header is
+// no longer modified. q with the save asked for at quit saves, then quits.
+func TestSaveInPlaceKeepsComments(t *testing.T) {
+	m, path := newOnFile(t, 120, 40)
+	orig, _ := os.ReadFile(path)
+	editField(t, m, "supply.pos", "15 V")
+	editField(t, m, "stage.gain.gain", "20")
+	press(t, m, "w")
+	if m.mode != modePrompt || m.prompt.input.Value() != path {
+		t.Fatalf("w: mode %v, path %q; want the save prompt on %s", m.mode, m.prompt.input.Value(), path)
+	}
+	press(t, m, "enter")
+	if m.mode != modeBrowse {
+		t.Fatalf("saving the design file asked something: %s", m.View())
+	}
+	got, _ := os.ReadFile(path)
+	if c0, c1 := commentLines(string(orig)), commentLines(string(got)); strings.Join(c0, "\n") != strings.Join(c1, "\n") {
+		t.Errorf("comments changed:\nbefore %q\nafter  %q", c0, c1)
+	}
+	for _, want := range []string{`pos = "15 V"         # charge-pump rails`, "gain = 20"} {
+		if !strings.Contains(string(got), want) {
+			t.Errorf("saved file lacks %q:\n%s", want, got)
+		}
+	}
+	d, err := filter.DecodeDesign(path, got)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ch := changedInputs(d, m.design); len(ch) > 0 {
+		t.Errorf("the saved file differs from the design in force in %v", ch)
+	}
+	if m.modified() || strings.Contains(m.View(), "modified") {
+		t.Error("still modified after saving")
+	}
+
+	editField(t, m, "supply.neg", "-15 V")
+	press(t, m, "q", "s", "enter")
+	if !m.quitting {
+		t.Fatal("s, enter at the quit question did not quit after saving")
+	}
+	if got, _ := os.ReadFile(path); !strings.Contains(string(got), `neg = "-15 V"`) {
+		t.Errorf("the save at quit was not written:\n%s", got)
+	}
+}
+
+// TestSaveErrorStaysInPrompt: a save into a missing directory shows the
+// error in the prompt, which stays open with the path to correct; a good
+// path then writes, and the next prompt starts in that directory.
+func TestSaveErrorStaysInPrompt(t *testing.T) {
+	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+		m := newDemo(t, sz[0], sz[1])
+		dir := t.TempDir()
+		editField(t, m, "supply.pos", "6 V")
+		press(t, m, "w", "ctrl+u")
+		typeText(t, m, filepath.Join(dir, "no-such-dir", "d.toml"))
+		press(t, m, "enter")
+		if m.mode != modePrompt {
+			t.Fatalf("%v: the prompt closed on a failed save", sz)
+		}
+		screen := m.View()
+		if !strings.Contains(screen, "! save design: write d.toml") || !strings.Contains(screen, "such file or directory") {
+			t.Errorf("%v: the error is not in the prompt:\n%s", sz, screen)
+		}
+		if strings.Contains(screen, "…") && strings.Contains(lines(screen)[len(lines(screen))-1], "…") {
+			t.Errorf("%v: the error is cut:\n%s", sz, screen)
+		}
+		press(t, m, "ctrl+u")
+		good := filepath.Join(dir, "d.toml")
+		typeText(t, m, good)
+		press(t, m, "enter")
+		if m.mode != modeBrowse {
+			t.Fatalf("%v: the good path did not save: %s", sz, m.View())
+		}
+		if _, err := os.Stat(good); err != nil {
+			t.Fatal(err)
+		}
+		press(t, m, "m", "x")
+		if got := m.prompt.input.Value(); got != filepath.Join(dir, "shortlist.md") {
+			t.Errorf("%v: the export prompt suggests %q, want the last directory's shortlist.md", sz, got)
+		}
+		press(t, m, "esc")
+	}
+}
+
+// TestDiskChange: the design file changed on disk is taken at once when
+// there are no edits; under unsaved edits the user is asked, r reloads
+// the disk version and k keeps the edits, which w then writes over it
+// (keeping the disk version's own comments). A save without the watcher
+// still notices the change and asks first.
+func TestDiskChange(t *testing.T) {
+	diskEdit := func(t *testing.T, path, old, new string) []byte {
+		t.Helper()
+		b, _ := os.ReadFile(path)
+		nb := []byte(strings.Replace(string(b), old, new, 1))
+		if string(nb) == string(b) {
+			t.Fatalf("%q not in the file", old)
+		}
+		if err := os.WriteFile(path, nb, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return nb
+	}
+	posText := func(m *Model) string {
+		for _, f := range m.design.Fields() {
+			if f.Path == "supply.pos" {
+				return f.Raw
+			}
+		}
+		return ""
+	}
+
+	t.Run("no edits: reloaded", func(t *testing.T) {
+		m, path := newOnFile(t, 120, 40)
+		text := diskEdit(t, path, `pos = "5 V"`, `pos = "6 V"`)
+		m.Update(designReadMsg{path: path, text: text})
+		if posText(m) != "6 V" || m.mode != modeBrowse || !strings.Contains(m.message, "changed on disk; reloaded") {
+			t.Errorf("V+ %q, mode %v, message %q", posText(m), m.mode, m.message)
+		}
+	})
+	t.Run("own save: nothing", func(t *testing.T) {
+		m, path := newOnFile(t, 120, 40)
+		editField(t, m, "supply.pos", "7 V")
+		press(t, m, "w", "enter")
+		text, _ := os.ReadFile(path)
+		m.message = ""
+		m.Update(designReadMsg{path: path, text: text})
+		if m.mode != modeBrowse || m.message != "" {
+			t.Errorf("its own save came back as a change: mode %v, %q", m.mode, m.message)
+		}
+	})
+	t.Run("edits: reload", func(t *testing.T) {
+		m, path := newOnFile(t, 120, 40)
+		editField(t, m, "supply.neg", "-6 V")
+		text := diskEdit(t, path, `pos = "5 V"`, `pos = "6 V"`)
+		m.Update(designReadMsg{path: path, text: text})
+		if m.mode != modeAsk || !strings.Contains(m.View(), "changed on disk while you have unsaved edits") {
+			t.Fatalf("no question under unsaved edits:\n%s", m.View())
+		}
+		press(t, m, "r")
+		if posText(m) != "6 V" || m.modified() {
+			t.Errorf("r: V+ %q, modified %v; want the disk version, unmodified", posText(m), m.modified())
+		}
+	})
+	t.Run("edits: keep mine", func(t *testing.T) {
+		m, path := newOnFile(t, 120, 40)
+		editField(t, m, "supply.neg", "-6 V")
+		text := diskEdit(t, path, `tolerance = "5 %"`, `tolerance = "5 %" # checked with the pump loaded`)
+		m.Update(designReadMsg{path: path, text: text})
+		press(t, m, "k")
+		if !m.modified() {
+			t.Fatal("k dropped the edits")
+		}
+		press(t, m, "w", "enter")
+		got, _ := os.ReadFile(path)
+		for _, want := range []string{`neg = "-6 V"`, "# checked with the pump loaded"} {
+			if !strings.Contains(string(got), want) {
+				t.Errorf("saved file lacks %q:\n%s", want, got)
+			}
+		}
+	})
+	t.Run("save notices without the watcher", func(t *testing.T) {
+		m, path := newOnFile(t, 120, 40)
+		editField(t, m, "supply.neg", "-6 V")
+		diskEdit(t, path, `pos = "5 V"`, `pos = "6 V"`)
+		press(t, m, "w", "enter")
+		if !m.prompt.confirm || !strings.Contains(m.View(), "changed on disk since it was read") {
+			t.Fatalf("the save did not ask about the disk change:\n%s", m.View())
+		}
+		press(t, m, "n", "esc")
+		if got, _ := os.ReadFile(path); strings.Contains(string(got), `neg = "-6 V"`) {
+			t.Error("n still wrote the file")
+		}
+	})
+}
+
+// TestUndoPerField: u takes back edits newest first, each field getting
+// its earlier text back, down to the file's own.
+func TestUndoPerField(t *testing.T) {
+	m, _ := newOnFile(t, 120, 40)
+	editField(t, m, "supply.pos", "6 V")
+	editField(t, m, "supply.pos", "7 V")
+	editField(t, m, "stage.gain.gain", "8")
+	raw := func(path string) string {
+		for _, f := range m.design.Fields() {
+			if f.Path == path {
+				return f.Raw
+			}
+		}
+		return "?"
+	}
+	steps := []struct{ path, want string }{
+		{"stage.gain.gain", "6.2"},
+		{"supply.pos", "6 V"},
+		{"supply.pos", "5 V"},
+	}
+	for _, s := range steps {
+		press(t, m, "u")
+		if got := raw(s.path); got != s.want {
+			t.Errorf("after u: %s = %q, want %q", s.path, got, s.want)
+		}
+		if m.form.path() != s.path {
+			t.Errorf("after u the cursor is on %s, want %s", m.form.path(), s.path)
+		}
+	}
+	if m.modified() {
+		t.Errorf("every edit undone, still modified: %v", m.edits)
+	}
+	press(t, m, "u")
+	if m.message != "nothing to undo" {
+		t.Errorf("u with nothing left: %q", m.message)
+	}
+}
