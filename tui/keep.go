@@ -175,13 +175,13 @@ func (m *Model) updateAsk(k tea.KeyMsg) tea.Cmd {
 			m.setMessage("reloaded the design from disk; your edits were dropped")
 			return m.rerank()
 		case "k", "esc":
-			// The disk version becomes the base of the next save in place:
-			// w then writes the edits over it, and "modified" is measured
-			// against it.
-			m.saved.text, m.saved.design = m.ask.diskText, m.ask.diskDesign
-			m.refreshEdits()
+			// The disk version becomes the base: the edits are laid over it
+			// (inputs edited here keep their text here, the others take the
+			// disk's), w writes them into its text, and "modified" is
+			// measured against it.
+			m.keepEdits(m.ask.diskText, m.ask.diskDesign)
 			m.mode = modeBrowse
-			m.setMessage("kept your edits; w writes them over the version on disk")
+			return m.rerank()
 		}
 	}
 	return nil
@@ -365,6 +365,37 @@ func (m *Model) designRead(r designReadMsg) tea.Cmd {
 	m.ask = ask{kind: askDisk, diskText: r.text, diskDesign: d}
 	m.mode = modeAsk
 	return nil
+}
+
+// keepEdits makes the disk version the base and lays the edits in force
+// over it. When an edit no longer applies (the disk version changed the
+// stages), the design in force stays whole.
+func (m *Model) keepEdits(text []byte, disk *filter.Design) {
+	merged := disk.Clone()
+	mine := map[string]string{}
+	for _, f := range m.design.Fields() {
+		if f.Set {
+			mine[f.Path] = f.Raw
+		}
+	}
+	ok := true
+	for _, path := range m.edits {
+		if err := merged.Set(path, mine[path]); err != nil {
+			ok = false
+			break
+		}
+	}
+	plan, err := filter.Derive(merged)
+	m.saved.text, m.saved.design = text, disk
+	if ok && err == nil {
+		n := len(m.edits)
+		m.design, m.rank.plan, m.planErr = merged, plan, nil
+		m.form.refresh(m.design)
+		m.setMessage("kept your %s over the version on disk (its other changes taken); w writes them", plural(n, "edit"))
+	} else {
+		m.setMessage("kept your design whole (the disk version changed its stages); w writes it over the file")
+	}
+	m.refreshEdits()
 }
 
 // adoptDiskDesign puts the design read from disk in force, dropping edits

@@ -242,15 +242,19 @@ func TestDiskChange(t *testing.T) {
 	t.Run("edits: keep mine", func(t *testing.T) {
 		m, path := newOnFile(t, 120, 40)
 		editField(t, m, "supply.neg", "-6 V")
-		text := diskEdit(t, path, `tolerance = "5 %"`, `tolerance = "5 %" # checked with the pump loaded`)
+		diskEdit(t, path, `tolerance = "5 %"`, `tolerance = "5 %" # checked with the pump loaded`)
+		text := diskEdit(t, path, `pos = "5 V"`, `pos = "6 V"`)
 		m.Update(designReadMsg{path: path, text: text})
 		press(t, m, "k")
 		if !m.modified() {
 			t.Fatal("k dropped the edits")
 		}
+		if posText(m) != "6 V" {
+			t.Errorf("k: V+ %q; want the disk's 6 V under the edit of V−", posText(m))
+		}
 		press(t, m, "w", "enter")
 		got, _ := os.ReadFile(path)
-		for _, want := range []string{`neg = "-6 V"`, "# checked with the pump loaded"} {
+		for _, want := range []string{`neg = "-6 V"`, `pos = "6 V"`, "# checked with the pump loaded"} {
 			if !strings.Contains(string(got), want) {
 				t.Errorf("saved file lacks %q:\n%s", want, got)
 			}
@@ -306,5 +310,53 @@ func TestUndoPerField(t *testing.T) {
 	press(t, m, "u")
 	if m.message != "nothing to undo" {
 		t.Errorf("u with nothing left: %q", m.message)
+	}
+}
+
+// TestEveryKeyDiscoverable: at 80×24 and 120×40 the footer holds every
+// key of the short help whole (wrapped, never cut with "…"), and the ?
+// overlay, page by page, shows every key of the full help with its
+// description, each page inside the screen.
+func TestEveryKeyDiscoverable(t *testing.T) {
+	for _, sz := range [][2]int{{80, 24}, {120, 40}} {
+		m := newDemo(t, sz[0], sz[1])
+		foot := strings.Join(m.footLines(), "\n")
+		if strings.Contains(foot, "…") {
+			t.Errorf("%v: the footer is cut:\n%s", sz, foot)
+		}
+		for _, b := range m.ui.keys.ShortHelp() {
+			if h := b.Help(); !strings.Contains(foot, h.Key+" "+h.Desc) {
+				t.Errorf("%v: the footer lacks %q:\n%s", sz, h.Key+" "+h.Desc, foot)
+			}
+		}
+		press(t, m, "?")
+		var seen strings.Builder
+		for page := 0; m.mode == modeHelp; page++ {
+			if page > 10 {
+				t.Fatal("the overlay never ends")
+			}
+			screen := m.View()
+			if n := len(lines(screen)); n != sz[1] {
+				t.Errorf("%v: page %d is %d lines", sz, page, n)
+			}
+			for _, l := range lines(screen)[1 : sz[1]-2] {
+				if strings.Contains(l, "…") {
+					t.Errorf("%v: page %d cuts a line: %q", sz, page, l)
+				}
+			}
+			seen.WriteString(screen)
+			press(t, m, "pgdown")
+		}
+		for _, col := range m.ui.keys.FullHelp() {
+			for _, b := range col {
+				h := b.Help()
+				if !strings.Contains(seen.String(), h.Key) || !strings.Contains(seen.String(), h.Desc) {
+					t.Errorf("%v: the overlay never shows %q %q", sz, h.Key, h.Desc)
+				}
+			}
+		}
+		if !strings.Contains(seen.String(), "Caution") {
+			t.Errorf("%v: the overlay lacks the caution", sz)
+		}
 	}
 }

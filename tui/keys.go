@@ -2,7 +2,7 @@ package tui
 
 import "github.com/charmbracelet/bubbles/key"
 
-// KeyMap is every key the selector answers to. It feeds bubbles/help: the
+// KeyMap is every key the selector answers to. It feeds the key help: the
 // short line at the bottom and the full overlay behind "?".
 type KeyMap struct {
 	Up, Down       key.Binding

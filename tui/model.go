@@ -7,7 +7,6 @@ import (
 	"io"
 	"path/filepath"
 
-	"github.com/charmbracelet/bubbles/help"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
@@ -81,7 +80,8 @@ type Model struct {
 	prompt prompt
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
-	help   help.Model
+
+	helpPage int // the help overlay's page
 
 	message string // last message for the status line
 	msgErr  bool   // message is an error
@@ -141,7 +141,6 @@ func New(cfg Config) *Model {
 	}
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
 	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
-	m.help = newHelp(u)
 	m.form = newForm(u)
 	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
 	m.design = cfg.Design.Clone()
@@ -204,7 +203,6 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.ui.width, m.ui.height = msg.Width, msg.Height
-		m.help.Width = msg.Width - 1 // the help line starts with a space
 		m.list.scrollTo(m.listRows())
 		return nil
 	case tea.KeyMsg:
@@ -312,20 +310,4 @@ func firstProblem(err error) error {
 		return p
 	}
 	return err
-}
-
-// newHelp builds the key-help line with the selector's styles.
-func newHelp(u *ui) help.Model {
-	h := help.New()
-	h.Width = u.width - 1 // the help line starts with a space
-	h.Styles = help.Styles{
-		Ellipsis:       u.st.HelpSep,
-		ShortKey:       u.st.HelpKey,
-		ShortDesc:      u.st.HelpDesc,
-		ShortSeparator: u.st.HelpSep,
-		FullKey:        u.st.HelpKey,
-		FullDesc:       u.st.HelpDesc,
-		FullSeparator:  u.st.HelpSep,
-	}
-	return h
 }

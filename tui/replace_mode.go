@@ -483,7 +483,7 @@ func (m *Model) openReplace() tea.Cmd {
 // updateReplace handles a key in replacement mode.
 func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 	var act replaceAction
-	m.repl, act = m.repl.update(k, replaceListRows(m.ui.height-3))
+	m.repl, act = m.repl.update(k, replaceListRows(m.bodyH()))
 	switch act {
 	case replaceQuit:
 		return m.requestQuit()

@@ -7,6 +7,7 @@ package tui
 // the text inputs. View only reads what settle leaves, so drawing never
 // changes the model.
 func (m *Model) settle() {
+	m.ui.footH = len(m.footLines())
 	if m.ui.tooSmall() {
 		return
 	}
@@ -18,7 +19,7 @@ func (m *Model) settle() {
 	}
 	switch m.mode {
 	case modeReplace:
-		m.repl.settle(m.ui.width, m.ui.height-3)
+		m.repl.settle(m.ui.width, m.bodyH())
 	case modePrompt:
 		m.prompt.settle(m.marks.len(), m.ui.width)
 	}

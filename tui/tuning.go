@@ -43,4 +43,7 @@ const (
 	// under the prompt: an OS error with a long path wraps to three at 80
 	// columns.
 	maxPromptErrLines = 3
+	// maxFootLines is how many lines the key help at the bottom may wrap
+	// to: two hold every browsing key at 80 columns.
+	maxFootLines = 2
 )

@@ -13,7 +13,7 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Quit):
 		return m.requestQuit()
 	case key.Matches(k, keys.Help):
-		m.mode = modeHelp
+		m.mode, m.helpPage = modeHelp, 0
 	case key.Matches(k, keys.Focus):
 		m.focus = (m.focus + 1) % paneCount
 	case key.Matches(k, keys.FocusBack):
@@ -143,11 +143,24 @@ func (m *Model) pageRows() int {
 	return m.listRows()
 }
 
-// updateHelp closes the help overlay on any key but ctrl+c, which quits.
+// updateHelp pages the help overlay with pgdn/pgup (space and the arrows
+// too) and closes it on any other key; ctrl+c quits.
 func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
-	if k.String() == "ctrl+c" {
+	n := len(m.helpPages(m.ui.width, m.bodyH()))
+	switch k.String() {
+	case "ctrl+c":
 		return m.requestQuit()
+	case "pgdown", " ", "down", "j":
+		if m.helpPage < n-1 {
+			m.helpPage++
+			return nil
+		}
+	case "pgup", "up", "k":
+		if m.helpPage > 0 {
+			m.helpPage--
+		}
+		return nil
 	}
-	m.mode = modeBrowse
+	m.mode, m.helpPage = modeBrowse, 0
 	return nil
 }
