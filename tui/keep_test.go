@@ -360,3 +360,37 @@ func TestEveryKeyDiscoverable(t *testing.T) {
 		}
 	}
 }
+
+// TestWarningsShown: an edit that makes the design impossible (gain 20 on
+// the 0.45 V peak: Vo = G·Vp = 9 V, beyond the ±5 V rails) and a package
+// the catalog does not hold each show as a warning atop the design pane
+// (wrapped, not cut) and are counted on the status line; a package typed
+// with other case and separators (soic-8) matches and does not warn; the
+// empty list points at the warnings.
+func TestWarningsShown(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	if strings.Contains(m.View(), "⚠") {
+		t.Fatalf("the demo design warns:\n%s", m.View())
+	}
+	editField(t, m, "stage.gain.gain", "20") // Vo = 20 × 0.45 V = 9 V > 4.75 V
+	editField(t, m, "choose.packages", "soic-8, sop99")
+	m.focus = paneDesign
+	m.form.cursor, m.form.offset = 0, 0
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	screen := m.View()
+	for _, want := range []string{
+		`⚠ stage "gain": the output must`, "reach -9 V … 9 V, beyond the rails",
+		`⚠ package "sop99" is not in the`,
+		"⚠ 2 warnings",
+	} {
+		if !strings.Contains(screen, want) {
+			t.Errorf("the screen lacks %q:\n%s", want, screen)
+		}
+	}
+	if strings.Contains(screen, `"soic-8"`) {
+		t.Errorf("soic-8 warns, though the catalog holds soic8:\n%s", screen)
+	}
+	if !strings.Contains(screen, "see the warnings atop the design pane") {
+		t.Errorf("the empty list does not point at the warnings:\n%s", screen)
+	}
+}

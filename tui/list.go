@@ -142,7 +142,11 @@ func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focuse
 	case len(l.view) == 0 && rs.running:
 		out = append(out, st.Muted.Render(fit("ranking…", w)))
 	case len(l.view) == 0:
-		out = append(out, st.Muted.Render(fit(emptyHint(n), w)))
+		hint := emptyHint(n)
+		if len(rs.warnings) > 0 {
+			hint += " · ⚠ see the warnings atop the design pane"
+		}
+		out = append(out, st.Muted.Render(fit(hint, w)))
 	}
 	from, to := l.visible(listRowsIn(h))
 	for i := from; i < to; i++ {

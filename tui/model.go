@@ -111,6 +111,8 @@ type ranking struct {
 	plan    *filter.Plan    // derived from the design in force; nil when it cannot be
 	resPlan *filter.Plan    // the plan results were ranked with
 	results []filter.Result // in rank order; checks filled in for drawn rows by settle
+	// warnings about the design and its filters, from the ranking's plan.
+	warnings []filter.Warning
 	nPass   int             // passing results
 	gen     uint64          // generation of the newest rankJob
 	running bool            // a rankJob is running
@@ -247,7 +249,7 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 func (m *Model) rerank() tea.Cmd {
 	m.rank.gen++
 	if m.rank.plan == nil || m.cat.Catalog == nil {
-		m.rank.results, m.rank.resPlan, m.rank.running = nil, nil, false
+		m.rank.results, m.rank.resPlan, m.rank.running, m.rank.warnings = nil, nil, false, nil
 		m.applyNarrowing()
 		return nil
 	}
@@ -263,7 +265,7 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		return // stale: an edit came after this job started
 	}
 	m.rank.running = false
-	m.rank.results, m.rank.resPlan = r.results, r.plan
+	m.rank.results, m.rank.resPlan, m.rank.warnings = r.results, r.plan, r.warnings
 	m.rank.nPass = 0
 	for i := range m.rank.results {
 		if m.rank.results[i].Pass {

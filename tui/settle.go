@@ -15,7 +15,7 @@ func (m *Model) settle() {
 	m.list.explainVisible(&m.rank, listRowsIn(l.list.h))
 	m.checks.follow(m.list.selected(m.rank.results), l.detail.w, l.detail.h)
 	if !l.stacked || m.focus == paneDesign {
-		m.form.settle(m.rank.plan, m.design, l.design.w, l.design.h)
+		m.form.settle(m.rank.plan, m.rank.warnings, l.design.w, l.design.h)
 	}
 	switch m.mode {
 	case modeReplace:

@@ -29,7 +29,7 @@ func (m *Model) View() string {
 
 	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
-		return m.form.draw(m.rank.plan, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
+		return m.form.draw(m.rank.plan, m.rank.warnings, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
 	}
 	switch {
 	case l.stacked && m.focus == paneDesign:
@@ -115,6 +115,9 @@ func (m *Model) statusView(w int) string {
 	}
 	if m.rank.running {
 		b.WriteString(" · ranking…")
+	}
+	if n := len(m.rank.warnings); n > 0 {
+		b.WriteString(" · " + st.Warning.Render("⚠ "+plural(n, "warning")))
 	}
 	left := st.Status.Render(b.String())
 	if m.message != "" {
