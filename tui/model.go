@@ -113,10 +113,10 @@ type ranking struct {
 	results []filter.Result // in rank order; checks filled in for drawn rows by settle
 	// warnings about the design and its filters, from the ranking's plan.
 	warnings []filter.Warning
-	nPass   int             // passing results
-	gen     uint64          // generation of the newest rankJob
-	running bool            // a rankJob is running
-	strict  bool            // unknown checks fail
+	nPass    int    // passing results
+	gen      uint64 // generation of the newest rankJob
+	running  bool   // a rankJob is running
+	strict   bool   // unknown checks fail
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
