@@ -394,3 +394,27 @@ func TestWarningsShown(t *testing.T) {
 		t.Errorf("the empty list does not point at the warnings:\n%s", screen)
 	}
 }
+
+// TestSelectionPinnedFromStart: the part selected on the first frame stays
+// selected across a re-sort without the user having moved; when an edit
+// makes it fail it leaves the list with a note saying why, and the cursor
+// goes back to it when f shows the failing parts.
+func TestSelectionPinnedFromStart(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	first := m.list.selected(m.rank.results).Part.ID
+	press(t, m, "tab", "s", "s")
+	if got := m.list.selected(m.rank.results).Part.ID; got != first {
+		t.Errorf("after re-sorting to %s the selection is %s, want %s", m.narrow.sortKey(), got, first)
+	}
+	editField(t, m, gainFreq, "250 kHz")
+	if r := m.list.selected(m.rank.results); r != nil && r.Part.ID == first {
+		t.Fatalf("%s still listed after the frequency edit", first)
+	}
+	if want := first + " no longer passes and left the list"; !strings.Contains(m.message, want) {
+		t.Errorf("message %q, want it to say %q", m.message, want)
+	}
+	press(t, m, "f")
+	if got := m.list.selected(m.rank.results).Part.ID; got != first {
+		t.Errorf("with failing parts shown the selection is %s, want %s back", got, first)
+	}
+}

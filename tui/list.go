@@ -18,11 +18,14 @@ type list struct {
 	view   []int // indices into ranking.results
 	cursor int   // index into view
 	offset int   // first row on screen
-	// selID is the part the user chose (by moving or clicking). It
-	// survives re-rankings and filters that hide it: while it is not shown
+	// selID is the part selected: the first row of the first ranking,
+	// then the part the user chose (by moving or clicking). It survives
+	// re-rankings, re-sorts and filters that hide it: while it is not shown
 	// the cursor stays at the same position, and when it shows again the
 	// cursor goes back to it.
 	selID string
+	// gone is selID while it is not shown (its drop-out was reported).
+	gone string
 }
 
 // selected returns the result under the cursor, or nil.
@@ -34,15 +37,21 @@ func (l *list) selected(results []filter.Result) *filter.Result {
 }
 
 // setRows shows rows (indices into results) and puts the cursor back on
-// the chosen part; rows is how many fit on screen.
-func (l *list) setRows(view []int, results []filter.Result, rows int) {
+// the selected part; rows is how many fit on screen. It returns the id of
+// the selected part when it has just dropped out of the rows, else "".
+func (l *list) setRows(view []int, results []filter.Result, rows int) (dropped string) {
 	l.view = view
-	l.reselect(results, rows)
+	return l.reselect(results, rows)
 }
 
-// reselect puts the cursor back on the chosen part (by id) after the
-// rows changed; while that part is not shown the cursor keeps its position.
-func (l *list) reselect(results []filter.Result, rows int) {
+// reselect puts the cursor back on the selected part (by id) after the
+// rows changed; while that part is not shown the cursor keeps its
+// position. The first rows shown pin their first part. It returns the
+// selected part's id when it has just dropped out.
+func (l *list) reselect(results []filter.Result, rows int) (dropped string) {
+	if l.selID == "" && len(l.view) > 0 {
+		l.selID = results[l.view[0]].Part.ID
+	}
 	found := false
 	if l.selID != "" {
 		for i, ri := range l.view {
@@ -52,10 +61,17 @@ func (l *list) reselect(results []filter.Result, rows int) {
 			}
 		}
 	}
+	switch {
+	case found:
+		l.gone = ""
+	case l.selID != "" && l.gone != l.selID && len(results) > 0:
+		l.gone, dropped = l.selID, l.selID
+	}
 	if !found {
 		l.cursor = max(0, min(l.cursor, len(l.view)-1))
 	}
 	l.scrollTo(rows)
+	return dropped
 }
 
 // move moves the cursor by n rows and remembers the part it lands on.
@@ -64,7 +80,7 @@ func (l *list) move(n int, results []filter.Result, rows int) {
 		return
 	}
 	l.cursor = max(0, min(len(l.view)-1, l.cursor+n))
-	l.selID = results[l.view[l.cursor]].Part.ID
+	l.selID, l.gone = results[l.view[l.cursor]].Part.ID, ""
 	l.scrollTo(rows)
 }
 
