@@ -33,6 +33,10 @@ func checkColumns() []column {
 	}
 }
 
+// noteIndent is where a check's note starts on its detail lines: under
+// the check's key.
+const noteIndent = 12
+
 // outcome is a check's result in words, with a symbol, never colour alone.
 func outcome(c *filter.Check) string {
 	switch c.Status {
@@ -131,19 +135,29 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			if basis == "" {
 				basis = "—"
 			}
-			note := c.Note
+			note := safe.Text(c.Note)
 			if note == "" {
-				note = st.Why.Render(safe.Text(c.Req.Why))
+				note = safe.Text(c.Req.Why)
 			}
 			if a := c.Aside.Text(); a != "" {
-				note = a + " · " + note
+				note = safe.Text(a) + " · " + note
+			}
+			// A note longer than its column is read in full on detail lines
+			// under the row, wrapped, rather than cut.
+			var detail []string
+			if nw := widths[len(widths)-1]; present.Width(note) > nw {
+				detail = wrap(note, max(10, w-noteIndent))
+				note = ""
 			}
 			margin := present.Margin(c.Margin)
 			if c.Status == filter.StatusFail {
 				margin = st.Fail.Render(margin)
 			}
-			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, note}
+			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, st.Why.Render(note)}
 			out = append(out, fit(row(cols, widths, cells), w))
+			for _, l := range detail {
+				out = append(out, st.Why.Render(fit(strings.Repeat(" ", noteIndent)+l, w)))
+			}
 		}
 	}
 	return out

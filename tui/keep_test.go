@@ -418,3 +418,46 @@ func TestSelectionPinnedFromStart(t *testing.T) {
 		t.Errorf("with failing parts shown the selection is %s, want %s back", got, first)
 	}
 }
+
+// TestCheckNotesReadable: at 120×40 and 80×24 every check's note (its
+// formula or worst-case rule, with the aside such as a predicted
+// frequency or a TIA's Cf) can be read in full in the checks pane: wrapped
+// onto detail lines, never cut.
+func TestCheckNotesReadable(t *testing.T) {
+	squash := func(s string) string { return strings.Join(strings.Fields(s), " ") }
+	for _, name := range []string{data.DefaultDesign, "turbidity-5v.toml"} {
+		b, err := fs.ReadFile(data.Designs, name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, err := filter.DecodeDesign(name, b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+			m := New(Config{Design: d, Catalog: demoCatalog(t), Renderer: asciiRenderer()})
+			m.Update(tea.WindowSizeMsg{Width: sz[0], Height: sz[1]})
+			run(t, m, m.Init())
+			press(t, m, "f")
+			r := m.list.selected(m.rank.results)
+			if r == nil {
+				t.Fatalf("%s: nothing selected", name)
+			}
+			l := m.ui.layout()
+			text := squash(strings.Join(m.checks.lines(r, l.detail.w), " "))
+			for i := range r.Checks {
+				c := &r.Checks[i]
+				note := c.Note
+				if note == "" {
+					note = c.Req.Why
+				}
+				if a := c.Aside.Text(); a != "" {
+					note = a + " · " + note
+				}
+				if !strings.Contains(text, squash(note)) {
+					t.Errorf("%s %v: the note of %s/%s is not readable in full: %q", name, sz, c.Req.Stage, c.Req.Key, note)
+				}
+			}
+		}
+	}
+}
