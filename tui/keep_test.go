@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"encoding/json"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -459,5 +460,63 @@ func TestCheckNotesReadable(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestJSONExportRecordsInputs: a JSON export from the selector carries the
+// block every JSON output of the command line opens with: the version,
+// the date, the design file and that it was modified, the edited input's
+// text in force, and every catalog source with its SHA-256.
+func TestJSONExportRecordsInputs(t *testing.T) {
+	m, path := newOnFile(t, 120, 40)
+	m.cfg.Version = "9.9.9-test"
+	editField(t, m, "supply.pos", "6 V")
+	out := filepath.Join(filepath.Dir(path), "short.json")
+	press(t, m, "tab", "space", "x", "ctrl+u")
+	typeText(t, m, out)
+	press(t, m, "enter")
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatalf("%v; screen:\n%s", err, m.View())
+	}
+	var doc struct {
+		Version   string `json:"version"`
+		Generated string `json:"generated"`
+		Title     string `json:"title"`
+		Design    struct {
+			File     string `json:"file"`
+			Modified bool   `json:"modified"`
+			Inputs   []struct {
+				Path, Text string
+				Given      bool
+			} `json:"inputs"`
+		} `json:"design"`
+		Catalog struct {
+			Sources []struct {
+				Path, SHA256 string
+				Parts        int
+			} `json:"sources"`
+		} `json:"catalog"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Version != "9.9.9-test" || doc.Generated == "" || doc.Design.File != path || !doc.Design.Modified {
+		t.Errorf("version %q, generated %q, file %q, modified %v", doc.Version, doc.Generated, doc.Design.File, doc.Design.Modified)
+	}
+	if !strings.Contains(doc.Title, "edited: supply.pos = 6 V") {
+		t.Errorf("title %q does not name the edit", doc.Title)
+	}
+	found := false
+	for _, in := range doc.Design.Inputs {
+		if in.Path == "supply.pos" {
+			found = in.Text == "6 V" && in.Given
+		}
+	}
+	if !found {
+		t.Errorf("the inputs lack supply.pos = 6 V: %+v", doc.Design.Inputs)
+	}
+	if len(doc.Catalog.Sources) == 0 || len(doc.Catalog.Sources[0].SHA256) != 64 || doc.Catalog.Sources[0].Parts == 0 {
+		t.Errorf("catalog sources: %+v", doc.Catalog.Sources)
 	}
 }
