@@ -520,3 +520,34 @@ func TestJSONExportRecordsInputs(t *testing.T) {
 		t.Errorf("catalog sources: %+v", doc.Catalog.Sources)
 	}
 }
+
+// TestSmokeListsEveryHelpKey: .ci/tmux-smoke asserts at 80×24 that every
+// key of the help overlay is visible; its list of descriptions must be the
+// overlay's, so a key added to the KeyMap is checked there too.
+func TestSmokeListsEveryHelpKey(t *testing.T) {
+	b, err := os.ReadFile("../.ci/tmux-smoke")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := string(b)
+	start := strings.Index(s, "help_keys=(")
+	if start < 0 {
+		t.Fatal("tmux-smoke has no help_keys list")
+	}
+	end := strings.Index(s[start:], ")\n")
+	list := s[start : start+end]
+	var want []string
+	for _, col := range DefaultKeyMap().FullHelp() {
+		for _, k := range col {
+			want = append(want, `"`+k.Help().Desc+`"`)
+		}
+	}
+	for _, w := range want {
+		if !strings.Contains(list, w) {
+			t.Errorf("tmux-smoke's help_keys lacks %s", w)
+		}
+	}
+	if n := strings.Count(list, `"`) / 2; n != len(want) {
+		t.Errorf("tmux-smoke's help_keys has %d entries, the overlay %d keys", n, len(want))
+	}
+}
