@@ -18,9 +18,11 @@ const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--stri
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
-Mark parts for a shortlist and export it (md, csv, json, toml); save the
-edited design; R finds replacements for a part, v shows its waveform.
-Press ? inside for every key.
+Mark parts for a shortlist and export it (md, csv, json, toml); w saves
+the edited design in place, keeping its comments; q asks before unsaved
+edits are lost, and a change to the design file on disk is offered, never
+overwritten unasked. R finds replacements for a part, v shows its
+waveform. Press ? inside for every key.
 
 Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
 
