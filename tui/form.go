@@ -24,6 +24,10 @@ type form struct {
 	offset int
 	follow bool
 
+	// edited holds the paths of the inputs that differ from the file,
+	// marked "*" beside their label; the root sets it when it settles.
+	edited map[string]bool
+
 	input   textinput.Model
 	editing bool
 	before  string // the field's text when editing began (esc restores it)
@@ -189,6 +193,9 @@ func (f *form) lines(plan *filter.Plan, warns []filter.Warning, w int) []formLin
 		mark := "  "
 		if i == f.cursor {
 			mark = "▸ "
+		}
+		if f.edited[fl.Path] {
+			mark = mark[:len(mark)-1] + "*"
 		}
 		var value string
 		switch {

@@ -391,9 +391,9 @@ func (m *Model) keepEdits(text []byte, disk *filter.Design) {
 		n := len(m.edits)
 		m.design, m.rank.plan, m.planErr = merged, plan, nil
 		m.form.refresh(m.design)
-		m.setMessage("kept your %s over the version on disk (its other changes taken); w writes them", plural(n, "edit"))
+		m.setMessage("kept %s over the disk version", plural(n, "edit"))
 	} else {
-		m.setMessage("kept your design whole (the disk version changed its stages); w writes it over the file")
+		m.setMessage("kept your design whole: the disk version changed its stages")
 	}
 	m.refreshEdits()
 }

@@ -59,7 +59,7 @@ func TestModifiedAndQuit(t *testing.T) {
 	}
 	editField(t, m, "supply.pos", "15 V")
 	screen := m.View()
-	for _, want := range []string{"● modified (1 input, w saves)", "DESIGN · modified"} {
+	for _, want := range []string{"● modified (1 input, w saves)", "DESIGN · modified", "▸*V+ rail"} {
 		if !strings.Contains(screen, want) {
 			t.Errorf("after an edit the screen lacks %q:\n%s", want, screen)
 		}

@@ -190,7 +190,7 @@ func replaceColumns(idW int, designed bool) []column {
 		{title: "strict", width: 6, prio: 96},
 	}
 	if designed {
-		cols = append(cols, column{title: "design", width: 20, prio: 98})
+		cols = append(cols, column{title: "design", width: 27, prio: 98})
 	}
 	return append(cols,
 		column{title: "worse than the original", width: 20, prio: 95, flex: true},

@@ -8,6 +8,10 @@ package tui
 // changes the model.
 func (m *Model) settle() {
 	m.ui.footH = len(m.footLines())
+	m.form.edited = make(map[string]bool, len(m.edits))
+	for _, p := range m.edits {
+		m.form.edited[p] = true
+	}
 	if m.ui.tooSmall() {
 		return
 	}

@@ -157,7 +157,7 @@ func (m *Model) footLines() []string {
 		bs = append(k.replaceKeys(), k.Quit)
 	case modeEdit:
 		bs = k.editKeys()
-		tail = "↑/↓ next field · u undo · units: 20 kHz, 4.7 kOhm, 0.5 V/us"
+		tail = "↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us"
 	case modeFind:
 		bs = k.editKeys()
 	default:
