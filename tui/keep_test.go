@@ -2,7 +2,6 @@ package tui
 
 import (
 	"encoding/json"
-	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -19,10 +18,7 @@ import (
 // FILE does. It returns the model and the file.
 func newOnFile(t *testing.T, w, h int) (*Model, string) {
 	t.Helper()
-	text, err := fs.ReadFile(data.Designs, data.DefaultDesign)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, text := embeddedDesign(t, data.DefaultDesign)
 	path := filepath.Join(t.TempDir(), "monitor.toml")
 	if err := os.WriteFile(path, text, 0o644); err != nil {
 		t.Fatal(err)
@@ -427,14 +423,7 @@ func TestSelectionPinnedFromStart(t *testing.T) {
 func TestCheckNotesReadable(t *testing.T) {
 	squash := func(s string) string { return strings.Join(strings.Fields(s), " ") }
 	for _, name := range []string{data.DefaultDesign, "turbidity-5v.toml"} {
-		b, err := fs.ReadFile(data.Designs, name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		d, err := filter.DecodeDesign(name, b)
-		if err != nil {
-			t.Fatal(err)
-		}
+		d, _ := embeddedDesign(t, name)
 		for _, sz := range [][2]int{{120, 40}, {80, 24}} {
 			m := New(Config{Design: d, Catalog: demoCatalog(t), Renderer: asciiRenderer()})
 			m.Update(tea.WindowSizeMsg{Width: sz[0], Height: sz[1]})
