@@ -259,7 +259,7 @@ func (p *checksPane) summary(r *filter.Result) string {
 			fmt.Fprintf(&b, " · worst %s at %s", present.Margin(r.WorstMargin), present.CheckName(r.Binding.Stage, r.Binding.Key))
 		}
 	} else {
-		b.WriteString(st.Fail.Render(fmt.Sprintf("✗ fails %d check(s)", r.Failed)))
+		b.WriteString(st.Fail.Render("✗ fails: " + failingText(r)))
 	}
 	if r.Unknown > 0 {
 		fmt.Fprintf(&b, " · %d unknown", r.Unknown)
@@ -273,6 +273,27 @@ func (p *checksPane) summary(r *filter.Result) string {
 	}
 	fmt.Fprintf(&b, " · %s · %s", safe.Text(strings.Join(r.Part.Packages, " ")), safe.Text(string(r.Part.Lifecycle)))
 	return b.String()
+}
+
+// failingText names a failing part's failing checks, worst miss first
+// (present.FailingFirst), each by its reason and margin: "gain/gbw -23 %,
+// package not offered".
+func failingText(r *filter.Result) string {
+	var out []string
+	for _, c := range present.FailingFirst(r) {
+		if c.Status != filter.StatusFail {
+			break
+		}
+		t := present.Reason(c)
+		if c.HasMargin() {
+			t += " " + present.Margin(c.Margin)
+		}
+		out = append(out, t)
+	}
+	if len(out) == 0 {
+		return fmt.Sprintf("%d unknown", r.Unknown) // strict: unknown figures only
+	}
+	return strings.Join(out, ", ")
 }
 
 // blank is n empty lines of w cells.

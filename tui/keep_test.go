@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -538,5 +539,35 @@ func TestSmokeListsEveryHelpKey(t *testing.T) {
 	}
 	if n := strings.Count(list, `"`) / 2; n != len(want) {
 		t.Errorf("tmux-smoke's help_keys has %d entries, the overlay %d keys", n, len(want))
+	}
+}
+
+// TestFailingPartSummary: the checks pane of a failing part names what it
+// fails, worst miss first, a hard filter by its reason, and the list
+// shows no positive margin for it.
+func TestFailingPartSummary(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	editField(t, m, "choose.packages", "msop8")
+	press(t, m, "f")
+	found := false
+	for _, i := range m.list.view {
+		r := &m.rank.results[i]
+		explain(m.rank.resPlan, r, false)
+		if r.Pass {
+			continue
+		}
+		margin, _ := marginCells(r)
+		if strings.HasPrefix(margin, "+") {
+			t.Errorf("failing %s shows margin %s", r.Part.ID, margin)
+		}
+		if r.Failed == 1 && !slices.Contains(r.Part.Packages, "msop8") {
+			found = true
+			if got := m.checks.summary(r); !strings.Contains(got, "✗ fails: package not offered") {
+				t.Errorf("%s: summary %q", r.Part.ID, got)
+			}
+		}
+	}
+	if !found {
+		t.Fatal("no part fails on the package alone; the test covers nothing")
 	}
 }
