@@ -90,6 +90,21 @@ func TestModifiedAndQuit(t *testing.T) {
 	if !m.quitting {
 		t.Error("q without unsaved edits did not quit at once")
 	}
+
+	// ctrl+c asks the same from a prompt and from a field being edited; a
+	// second ctrl+c at the question discards and quits.
+	for _, keys := range [][]string{{"w", "ctrl+c"}, {"enter", "x", "ctrl+c"}} {
+		m, _ = newOnFile(t, 120, 40)
+		editField(t, m, "supply.pos", "15 V")
+		press(t, m, keys...)
+		if m.quitting || m.mode != modeAsk {
+			t.Fatalf("%v: quitting %v, mode %v; want the question", keys, m.quitting, m.mode)
+		}
+		press(t, m, "ctrl+c")
+		if !m.quitting {
+			t.Errorf("%v: a second ctrl+c did not quit", keys)
+		}
+	}
 }
 
 // TestSaveInPlaceKeepsComments: w on the design file writes the edited

@@ -85,6 +85,10 @@ func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
 	if p.writing {
 		return nil
 	}
+	if k.String() == "ctrl+c" {
+		m.mode, m.quitAfterSave = modeBrowse, false
+		return m.requestQuit()
+	}
 	p.err = ""
 	if p.confirm {
 		switch k.String() {
