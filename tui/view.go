@@ -168,9 +168,9 @@ func (m *Model) footLines() []string {
 
 // keyLines lays bindings out as "key desc" items, then tail, into at most
 // n lines of w cells, each item whole: what does not fit in n lines is
-// left to the ? overlay rather than cut.
+// left to the ? overlay rather than cut. Items are parted by " • ", or by
+// two spaces when that keeps them on one line.
 func keyLines(st *Styles, bs []key.Binding, tail string, w, n int) []string {
-	sep := st.HelpSep.Render(" • ")
 	var items []string
 	for _, b := range bs {
 		h := b.Help()
@@ -179,31 +179,40 @@ func keyLines(st *Styles, bs []key.Binding, tail string, w, n int) []string {
 	if tail != "" {
 		items = append(items, st.Muted.Render(tail))
 	}
+	out := packItems(items, st.HelpSep.Render(" • "), w, n)
+	if len(out) > 1 {
+		if tight := packItems(items, "  ", w, n); len(tight) == 1 {
+			out = tight
+		}
+	}
+	for i := range out {
+		out[i] = fit(out[i], w)
+	}
+	return out
+}
+
+// packItems fills lines of w cells (each starting with a space) with
+// items parted by sep, at most n lines; the items left over are dropped.
+func packItems(items []string, sep string, w, n int) []string {
+	sepW := ansi.StringWidth(sep)
 	var out []string
 	line := ""
 	for _, it := range items {
 		switch {
 		case line == "":
 			line = " " + it
-		case ansi.StringWidth(line)+3+ansi.StringWidth(it) <= w:
+		case ansi.StringWidth(line)+sepW+ansi.StringWidth(it) <= w:
 			line += sep + it
 		default:
 			out = append(out, line)
-			if len(out) == n {
-				line = ""
-				break
-			}
 			line = " " + it
 		}
 		if len(out) == n {
-			break
+			return out
 		}
 	}
 	if line != "" {
 		out = append(out, line)
-	}
-	for i := range out {
-		out[i] = fit(out[i], w)
 	}
 	return out
 }
