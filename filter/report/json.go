@@ -60,6 +60,9 @@ type jsonCandidate struct {
 	Failed        int             `json:"failed"`
 	Unknown       int             `json:"unknown"`
 	Checks        []jsonCheck     `json:"checks"`
+	// Headroom is how far each design input can move before the part
+	// fails (passing candidates; empty for failing ones).
+	Headroom []jsonHeadroom `json:"headroom"`
 }
 
 type jsonCheck struct {
@@ -186,10 +189,12 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 	out := jsonRank{JSONMeta: NewJSONMeta(doc.Meta, p), Title: p.Title, Caution: Caution, Sort: sortName(doc.Sort),
 		Strict: doc.Strict, Parts: len(doc.Results), Passing: doc.Passing(),
 		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}}
+	doc.prepareHeadroom()
 	for _, r := range doc.Listed() {
 		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r)),
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
-			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r)}
+			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
+			Headroom: jsonHeadrooms(doc.Headroom(r))}
 		switch w := present.Worst(r); {
 		case w != nil:
 			c.Binding = &jsonBinding{Stage: stagePtr(w.Req.Stage), Key: string(w.Req.Key)}

@@ -11,6 +11,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/headroom"
 	"github.com/opsift/opsift/filter/present"
 )
 
@@ -69,6 +70,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			fmaxText(doc.Plan, r), r.Unknown)
 	}
 	b.WriteString("\n## Candidates\n")
+	doc.prepareHeadroom()
 	for _, r := range listed {
 		fmt.Fprintf(b, "\n### `%s` — %s\n\n", r.Part.ID, mdText(r.Part.Name))
 		facts := []string{"tech " + orUnknown(string(r.Part.Tech)), fmt.Sprintf("%d channel(s)", r.Part.Channels),
@@ -92,8 +94,28 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
 				mdText(Need(c.Req)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
+		writeMarkdownHeadroom(b, doc.Headroom(r))
 	}
 	return b.Flush()
+}
+
+// writeMarkdownHeadroom writes a candidate's headroom table: how far each
+// input can move, the rest held, and what breaks there.
+func writeMarkdownHeadroom(b *bufio.Writer, ls []headroom.Limit) {
+	if len(ls) == 0 {
+		return
+	}
+	b.WriteString("\nHeadroom: each input moved alone, the rest held, until the part fails.\n\n")
+	b.WriteString("| Stage | Input | Design | Limit | Breaks | Method |\n|---|---|---:|---:|---|---|\n")
+	for _, l := range ls {
+		word := "up to "
+		if l.Dir == headroom.Down {
+			word = "down to "
+		}
+		fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(l.Stage)), mdText(l.Input),
+			mdText(catalog.Format(l.Value, l.Dim)), mdText(word+catalog.Format(l.Limit, l.Dim)),
+			mdText(present.CheckName(l.Breaks.Stage, l.Breaks.Key)), l.Method)
+	}
 }
 
 func stageOrDesign(s string) string {

@@ -17,6 +17,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/headroom"
 	"github.com/opsift/opsift/filter/present"
 )
 
@@ -71,6 +72,11 @@ type Doc struct {
 	Meta  *Meta
 	Width int  // table: terminal width in columns (0 = 100)
 	Color bool // table: ANSI colour
+	// NoHeadroom leaves the candidates' headroom out of the json and md
+	// documents (a large shortlist searches every input of every part).
+	NoHeadroom bool
+	// headroom holds each listed candidate's headroom once computed.
+	headroom map[*catalog.Part][]headroom.Limit
 }
 
 // Listed returns the candidates the document lists: passing ones (all of
