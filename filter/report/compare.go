@@ -12,8 +12,8 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
-	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/compare"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // CompareDoc is what opsift compare (and the selector's compare export)
