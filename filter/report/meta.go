@@ -140,6 +140,9 @@ func Inputs(d *filter.Design) []JSONInput {
 		if f.Kind == filter.Quantity && in.Text != "" {
 			if v, err := catalog.Parse(in.Text, f.Dim); err == nil {
 				in.Value, in.Unit, in.dim = val(v), f.Dim.Unit(), f.Dim
+				if f.Dim == catalog.Ratio {
+					in.Unit = "" // held and written as a fraction, like every JSON figure
+				}
 			}
 		}
 		out = append(out, in)
