@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/tomlpos"
 )
 
@@ -65,7 +66,29 @@ func UpdateDesignText(orig []byte, d *Design) ([]byte, error) {
 	if got := byPath(designLeaves(check)); !maps.EqualFunc(got, e.now, func(a, b saveLeaf) bool { return a.text == b.text }) {
 		return nil, errors.New("the edited text would not read back as the inputs edited; nothing saved")
 	}
+	// Every input of the form, not only those written above, must still be
+	// given (or not) after the save: an input kind this writer does not know
+	// is an error, never a value silently left out. (The text of the inputs
+	// written above was compared as TOML, where "a b" and "a, b" agree.)
+	if path, ok := sameFields(check, d); !ok {
+		return nil, fmt.Errorf("the edited text would not keep %s; nothing saved", path)
+	}
 	return []byte(out), nil
+}
+
+// sameFields reports whether a and b give the same inputs, and the first
+// path where they do not.
+func sameFields(a, b *Design) (string, bool) {
+	fa, fb := a.Fields(), b.Fields()
+	if len(fa) != len(fb) {
+		return "every input", false
+	}
+	for i := range fa {
+		if fa[i].Path != fb[i].Path || fa[i].Set != fb[i].Set {
+			return fb[i].Path, false
+		}
+	}
+	return "", true
 }
 
 func stageNames(d *Design) []string {
@@ -104,6 +127,12 @@ func designLeaves(d *Design) []saveLeaf {
 			continue
 		}
 		out = append(out, saveLeaf{path: p.Key, table: table, key: key, text: valueTOML(p.Param, *p.v), rank: i})
+	}
+	for i, fk := range catalog.FigureKeys() {
+		if l, ok := d.Choose.Limits[fk.Key]; ok && (l.Min.Set || l.Max.Set) {
+			out = append(out, saveLeaf{path: "choose.limit." + fk.Key, table: "choose.limit", key: fk.Key,
+				text: limitTOML(l), rank: i})
+		}
 	}
 	for si, s := range d.Stages {
 		table := tomlpos.Element("stage", si)
@@ -347,7 +376,7 @@ func (e *textEditor) flushTables() {
 		key := p[strings.LastIndexByte(p, '.')+1:]
 		e.edits[i].repl = strings.Replace(ed.repl, "\x00"+p, key+" = { "+strings.Join(items, ", ")+" }", 1)
 	}
-	order := []string{"supply", "environment", "choose", "policy"}
+	order := []string{"supply", "environment", "choose", "choose.limit", "policy"}
 	for i, table := range order {
 		ls := e.tables[table]
 		if len(ls) == 0 {

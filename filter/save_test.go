@@ -165,3 +165,45 @@ func TestUpdateDesignTextEveryShippedDesign(t *testing.T) {
 		})
 	}
 }
+
+// Figure bounds ([choose.limit]) are saved in place like every input: a
+// first bound writes the table before the stages, a changed one replaces
+// its own inline table, a cleared one leaves with its line, and the file
+// reads back with exactly those bounds. The wanted text is worked by hand.
+func TestUpdateDesignTextLimits(t *testing.T) {
+	d, err := filter.DecodeDesign("mc.toml", []byte(handDesign))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for path, raw := range map[string]string{"choose.limit.vos": "max 6 mV", "choose.limit.gbw": "min 1 MHz"} {
+		if err := d.Set(path, raw); err != nil {
+			t.Fatal(err)
+		}
+	}
+	out, err := filter.UpdateDesignText([]byte(handDesign), d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "[choose.limit]\ngbw = { min = \"1 MHz\" }\nvos = { max = \"6 mV\" }\n\n# The head amp.\n[[stage]]"
+	if !strings.Contains(string(out), want) {
+		t.Fatalf("saved text lacks\n%s\ngot:\n%s", want, out)
+	}
+	d2, err := filter.DecodeDesign("mc.toml", out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := d2.Set("choose.limit.vos", "max 5 mV"); err != nil {
+		t.Fatal(err)
+	}
+	if err := d2.Set("choose.limit.gbw", ""); err != nil {
+		t.Fatal(err)
+	}
+	out2, err := filter.UpdateDesignText(out, d2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := strings.Replace(string(out), "gbw = { min = \"1 MHz\" }\nvos = { max = \"6 mV\" }", "vos = { max = \"5 mV\" }", 1)
+	if string(out2) != got {
+		t.Errorf("second save:\n%s\nwant:\n%s", out2, got)
+	}
+}

@@ -183,6 +183,9 @@ func writeMarkdownMeta(b io.Writer, m *Meta, plan *filter.Plan) {
 	if j.Design != nil && len(j.Design.Inputs) > 0 {
 		b.Write([]byte("\n| Input | Value | Given |\n|---|---|---|\n"))
 		for _, in := range j.Design.Inputs {
+			if !in.Given && in.Text == "" {
+				continue // nothing in force (an unset figure bound); the JSON lists it
+			}
 			given := "yes"
 			if !in.Given {
 				given = "default"
