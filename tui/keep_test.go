@@ -116,6 +116,7 @@ func TestSaveInPlaceKeepsComments(t *testing.T) {
 	orig, _ := os.ReadFile(path)
 	editField(t, m, "supply.pos", "15 V")
 	editField(t, m, "stage.gain.gain", "20")
+	editField(t, m, "choose.limit.vos", "max 6 mV")
 	press(t, m, "w")
 	if m.mode != modePrompt || m.prompt.input.Value() != path {
 		t.Fatalf("w: mode %v, path %q; want the save prompt on %s", m.mode, m.prompt.input.Value(), path)
@@ -128,7 +129,7 @@ func TestSaveInPlaceKeepsComments(t *testing.T) {
 	if c0, c1 := commentLines(string(orig)), commentLines(string(got)); strings.Join(c0, "\n") != strings.Join(c1, "\n") {
 		t.Errorf("comments changed:\nbefore %q\nafter  %q", c0, c1)
 	}
-	for _, want := range []string{`pos = "15 V"         # charge-pump rails`, "gain = 20"} {
+	for _, want := range []string{`pos = "15 V"         # charge-pump rails`, "gain = 20", "[choose.limit]\nvos = { max = \"6 mV\" }"} {
 		if !strings.Contains(string(got), want) {
 			t.Errorf("saved file lacks %q:\n%s", want, got)
 		}
