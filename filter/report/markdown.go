@@ -92,7 +92,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 		b.WriteString("| Stage | Check | Need | Has | Margin | Status | Basis | Note |\n|---|---|---|---|---:|---|---|---|\n")
 		for _, c := range present.FailingFirst(r) {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
-				mdText(Need(c.Req)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
+				mdText(CheckNeed(c)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
 		writeMarkdownHeadroom(b, doc.Headroom(r))
 	}

@@ -197,7 +197,7 @@ func missText(c *filter.Check, p *catalog.Part) string {
 	if present.Hard(c) && c.Status == filter.StatusFail {
 		name = present.Reason(c) + ":"
 	}
-	need, has := Need(c.Req), Has(c, p)
+	need, has := CheckNeed(c), Has(c, p)
 	if c.Req.Key == filter.KeyCost && has != "?" {
 		// The COST column is packages × unit cost; the check is per unit.
 		need, has = need+" per unit", has+" per unit"
