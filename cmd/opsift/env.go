@@ -5,6 +5,7 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"time"
 )
 
 // env is what a command may touch of the outside world. Tests build one
@@ -22,6 +23,8 @@ type env struct {
 	// noCache is the --no-cache flag of the command being run: catalogs
 	// are read without the parsed-catalog cache.
 	noCache bool
+	// now is the clock outputs are dated with; tests fix it.
+	now func() time.Time
 }
 
 // newEnv returns the process's real environment.
@@ -33,6 +36,7 @@ func newEnv() *env {
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
 		errTTY: isTerminal(os.Stderr),
+		now:    time.Now,
 	}
 }
 
