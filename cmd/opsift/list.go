@@ -11,7 +11,8 @@ import (
 )
 
 const listUsage = `Usage: opsift list [--catalog PATH]... [--design FILE] [--columns KEY,KEY...]
-                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [-o FILE [--force]]
+                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--bom]
+                  [-o FILE [--force]]
 
 List every part of the catalog with the figures you choose, side by side,
 sorted by any of them (-KEY sorts descending; parts lacking the figure come
@@ -23,7 +24,8 @@ without it they are at 25 °C with the default policy, and no verdict.
 --typical shows the catalog's typical figures instead. Each figure carries
 its basis: guaranteed (unmarked in table and md), typical (*) or read from a
 graph (†). Formats: table, csv (SI numbers, a basis column per figure, the
-caution in the last column), json (SI units), md.
+caution in the last column; --bom starts it with a UTF-8 byte-order mark
+for spreadsheets), json (SI units), md.
 
 Columns (default ` + "gbw,slew,vos,ib,en,iq,supply.min,supply.max,unit_cost" + `):
 %s
@@ -57,6 +59,7 @@ func runList(e *env, args []string) error {
 	fset.StringVar(&format, "format", "table", "output format: table, csv, json or md")
 	fset.BoolVar(&typical, "typical", false, "show the catalog's typical figures instead of the worst case")
 	output.register(fset)
+	output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -95,12 +98,16 @@ func runList(e *env, args []string) error {
 	rows := listing.Build(plan, results, cat.Parts, cols, typical)
 	listing.Sort(rows, key, typical)
 	doc := &report.ListDoc{Plan: plan, Rows: rows, Columns: cols, Sort: key, Typical: typical, Sources: cat.Sources}
-	if output.out == "" && e.isTTY {
-		doc.Width = e.columns(report.DefaultWidth)
+	if w := e.tableWidth(output.out != ""); w != report.Unclipped {
+		doc.Width = w
 	}
 	var buf bytes.Buffer
 	if err := report.WriteList(&buf, f, doc); err != nil {
 		return err
 	}
-	return output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f == report.CSV {
+		data = output.csv(data)
+	}
+	return output.emit(e, data)
 }

@@ -8,14 +8,17 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [-o FILE [--force]]
+                  [--all] [--top N] [--sort KEY] [--strict] [--bom] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
 is named). With --all the failing parts follow, each with the checks it
 fails and by how much. Formats: table (terminal), csv (the caution in the
 last column of every row), json (SI units), md (a shortlist for design
-review), toml (the ranked parts as a catalog file). Sort keys: margin
+review), toml (the ranked parts as a catalog file). --bom starts csv with a
+UTF-8 byte-order mark for spreadsheets (without it some read µ, ° and √
+wrongly). Tables are fitted to the terminal ($COLUMNS); written to a file or
+a pipe they are not shortened. Sort keys: margin
 (default), cost, supply_current, fmax, id. -o writes atomically: a
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
@@ -46,6 +49,7 @@ func runRank(e *env, args []string) error {
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	f.output.register(fset)
+	f.output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -74,11 +78,15 @@ func runRank(e *env, args []string) error {
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
-		Sources: cat.Sources, Width: e.columns(report.DefaultWidth)}
+		Sources: cat.Sources, Width: e.tableWidth(f.output.out != "")}
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if format == report.CSV {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }

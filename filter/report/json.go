@@ -49,6 +49,7 @@ type jsonBinding struct {
 type jsonCandidate struct {
 	ID            string          `json:"id"`
 	Name          string          `json:"name"`
+	Datasheet     string          `json:"datasheet,omitempty"` // the catalog's reference, as written
 	Pass          bool            `json:"pass"`
 	WorstMargin   *num            `json:"worst_margin"`
 	Binding       *jsonBinding    `json:"binding"`
@@ -189,7 +190,7 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 		out.Design = p.Design.Name
 	}
 	for _, r := range doc.Listed() {
-		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(r.WorstMargin),
+		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Datasheet: r.Part.Datasheet, Pass: r.Pass, WorstMargin: opt(r.WorstMargin),
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
 			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r)}
 		if !math.IsNaN(r.WorstMargin) {

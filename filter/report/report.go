@@ -65,7 +65,7 @@ type Doc struct {
 	Strict  bool // unknown checks counted as failures
 	// Sources names the catalog sources, for the document's header.
 	Sources []string
-	Width   int  // table: terminal width in columns (0 = 100)
+	Width   int  // table: terminal width in columns (0 = 100; Unclipped: no limit)
 	Color   bool // table: ANSI colour
 }
 
