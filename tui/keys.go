@@ -30,6 +30,11 @@ type KeyMap struct {
 	Compare        key.Binding // preview the two shortlisted parts together
 	StagePrev      key.Binding // preview: previous stage with a waveform
 	StageNext      key.Binding // preview: next stage with a waveform
+	Explore        key.Binding // explorer mode: every part, any figure as a column
+	ColumnLeft     key.Binding // explorer: column cursor left
+	ColumnRight    key.Binding // explorer: column cursor right
+	ExploreColumns key.Binding // explorer: choose the columns
+	Typical        key.Binding // explorer: typical figures instead of the worst case
 	Help           key.Binding
 	Quit           key.Binding
 }
@@ -40,36 +45,41 @@ func DefaultKeyMap() KeyMap {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
 	return KeyMap{
-		Up:        b([]string{"up", "k"}, "↑/k", "up"),
-		Down:      b([]string{"down", "j"}, "↓/j", "down"),
-		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
-		PageDn:    b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
-		Top:       b([]string{"home", "g"}, "g/home", "first"),
-		Bottom:    b([]string{"end", "G"}, "G/end", "last"),
-		Focus:     b([]string{"tab"}, "tab", "pane"),
-		FocusBack: b([]string{"shift+tab"}, "shift+tab", "previous pane"),
-		Edit:      b([]string{"enter", "e"}, "enter", "edit"),
-		Accept:    b([]string{"enter"}, "enter", "done"),
-		Cancel:    b([]string{"esc"}, "esc", "cancel"),
-		Failing:   b([]string{"f"}, "f", "+failing"),
-		Sort:      b([]string{"s"}, "s", "sort"),
-		Find:      b([]string{"/"}, "/", "find"),
-		Tech:      b([]string{"t"}, "t", "tech filter"),
-		Package:   b([]string{"p"}, "p", "package filter"),
-		Clear:     b([]string{"c"}, "c", "clear filters"),
-		Mark:      b([]string{" ", "m"}, "space", "mark"),
-		Shortlist: b([]string{"l"}, "l", "shortlist"),
-		Export:    b([]string{"x"}, "x", "export"),
-		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
-		Reload:    b([]string{"r"}, "r", "reload catalog"),
-		Open:      b([]string{"o"}, "o", "edit part file"),
-		Replace:   b([]string{"R"}, "R", "replace"),
-		Preview:   b([]string{"v"}, "v", "wave"),
-		Compare:   b([]string{"V"}, "V", "compare 2 marked"),
-		StagePrev: b([]string{"["}, "[", "previous stage"),
-		StageNext: b([]string{"]"}, "]", "next stage"),
-		Help:      b([]string{"?"}, "?", "keys"),
-		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+		Up:             b([]string{"up", "k"}, "↑/k", "up"),
+		Down:           b([]string{"down", "j"}, "↓/j", "down"),
+		PageUp:         b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
+		PageDn:         b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
+		Top:            b([]string{"home", "g"}, "g/home", "first"),
+		Bottom:         b([]string{"end", "G"}, "G/end", "last"),
+		Focus:          b([]string{"tab"}, "tab", "pane"),
+		FocusBack:      b([]string{"shift+tab"}, "shift+tab", "previous pane"),
+		Edit:           b([]string{"enter", "e"}, "enter", "edit"),
+		Accept:         b([]string{"enter"}, "enter", "done"),
+		Cancel:         b([]string{"esc"}, "esc", "cancel"),
+		Failing:        b([]string{"f"}, "f", "+failing"),
+		Sort:           b([]string{"s"}, "s", "sort"),
+		Find:           b([]string{"/"}, "/", "find"),
+		Tech:           b([]string{"t"}, "t", "tech filter"),
+		Package:        b([]string{"p"}, "p", "package filter"),
+		Clear:          b([]string{"c"}, "c", "clear filters"),
+		Mark:           b([]string{" ", "m"}, "space", "mark"),
+		Shortlist:      b([]string{"l"}, "l", "shortlist"),
+		Export:         b([]string{"x"}, "x", "export"),
+		Save:           b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Reload:         b([]string{"r"}, "r", "reload catalog"),
+		Open:           b([]string{"o"}, "o", "edit part file"),
+		Replace:        b([]string{"R"}, "R", "replace"),
+		Preview:        b([]string{"v"}, "v", "wave"),
+		Compare:        b([]string{"V"}, "V", "compare 2 marked"),
+		StagePrev:      b([]string{"["}, "[", "previous stage"),
+		StageNext:      b([]string{"]"}, "]", "next stage"),
+		Explore:        b([]string{"E"}, "E", "explore all parts"),
+		ColumnLeft:     b([]string{"left"}, "←", "column left"),
+		ColumnRight:    b([]string{"right"}, "→", "column right"),
+		ExploreColumns: b([]string{"c"}, "c", "columns"),
+		Typical:        b([]string{"T"}, "T", "typical/worst"),
+		Help:           b([]string{"?"}, "?", "keys"),
+		Quit:           b([]string{"q", "ctrl+c"}, "q", "quit"),
 	}
 }
 
@@ -85,8 +95,13 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
 		{k.Mark, k.Shortlist, k.Export, k.Save, k.Reload, k.Open, k.Help, k.Quit},
-		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare},
+		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore},
 	}
+}
+
+// explorerKeys are the bottom line in explorer mode.
+func (k *KeyMap) explorerKeys() []key.Binding {
+	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Cancel}
 }
 
 // editKeys are the bottom line while a field or prompt has the keyboard.

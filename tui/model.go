@@ -41,6 +41,12 @@ type Config struct {
 	Renderer *lipgloss.Renderer
 	// Getenv reads EDITOR and VISUAL.
 	Getenv func(string) string
+	// Settings are the remembered choices (the explorer's columns), read
+	// from SettingsFile, where changes are written back; "" keeps them for
+	// the session. SettingsErr is why the file could not be read.
+	Settings     Settings
+	SettingsFile string
+	SettingsErr  error
 }
 
 // Model is the selector's root bubbletea model. It holds only routing
@@ -74,6 +80,7 @@ type Model struct {
 	prompt prompt
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
+	expl   explorer    // explorer mode (explorer.go)
 	help   help.Model
 
 	message string // last message for the status line
@@ -127,6 +134,7 @@ func New(cfg Config) *Model {
 	m.help = newHelp(u)
 	m.form = newForm(u)
 	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
+	m.expl = newExplorer(u, cfg.Settings.ExplorerColumns)
 	m.design = cfg.Design.Clone()
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
@@ -135,6 +143,8 @@ func New(cfg Config) *Model {
 		m.setError(fmt.Errorf("catalog: %w (parts with problems are left out; see opsift check)", firstProblem(cfg.CatalogErr)))
 	} else if m.planErr != nil {
 		m.setError(m.planErr)
+	} else if cfg.SettingsErr != nil {
+		m.setError(cfg.SettingsErr)
 	}
 	if cfg.Watch && len(cfg.OnDisk) > 0 {
 		m.watcher = startWatcher(cfg.OnDisk)
@@ -207,6 +217,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateHelp(k)
 	case modeReplace:
 		return m.updateReplace(k)
+	case modeExplore:
+		return m.updateExplore(k)
 	}
 	return m.updateBrowse(k)
 }
@@ -239,6 +251,9 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		}
 	}
 	m.applyNarrowing()
+	if m.mode == modeExplore {
+		m.expl.refresh(m.rank.resPlan, m.rank.results, m.cat.Parts)
+	}
 }
 
 // setCatalog installs a (re)loaded catalog and the values the quick

@@ -19,6 +19,8 @@ func (m *Model) settle() {
 	switch m.mode {
 	case modeReplace:
 		m.repl.settle(m.ui.width, m.ui.height-3)
+	case modeExplore:
+		m.expl.settle(m.cat.idW, m.ui.width, m.ui.height-3)
 	case modePrompt:
 		m.prompt.settle(m.marks.len(), m.ui.width)
 	}

@@ -87,6 +87,8 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openEditor()
 	case key.Matches(k, keys.Replace):
 		return m.openReplace()
+	case key.Matches(k, keys.Explore):
+		return m.openExplorer()
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)

@@ -47,6 +47,8 @@ func (m *Model) View() string {
 		body = m.helpOverlay(u.width, len(body))
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
+	case modeExplore:
+		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
 	}
 	lines = append(lines, body...)
 
@@ -122,6 +124,9 @@ const (
 func (m *Model) helpLine() string {
 	if m.mode == modeReplace {
 		return " " + m.help.ShortHelpView(m.ui.keys.replaceKeys())
+	}
+	if m.mode == modeExplore {
+		return " " + m.help.ShortHelpView(m.ui.keys.explorerKeys())
 	}
 	if m.mode == modeEdit {
 		return " " + m.help.ShortHelpView(m.ui.keys.editKeys()) +

@@ -22,8 +22,8 @@ With --design the figures are at the design's worst case (its temperature
 range and policy, the rules rank uses) and each part carries its verdict;
 without it they are at 25 °C with the default policy, and no verdict.
 --typical shows the catalog's typical figures instead. Each figure carries
-its basis: guaranteed (unmarked in table and md), typical (*) or read from a
-graph (†). Formats: table, csv (SI numbers, a basis column per figure, the
+its basis: guaranteed (unmarked in table and md), typical (~) or read from a
+graph (g). Formats: table, csv (SI numbers, a basis column per figure, the
 caution in the last column; --bom starts it with a UTF-8 byte-order mark
 for spreadsheets), json (SI units), md.
 

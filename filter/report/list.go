@@ -51,15 +51,16 @@ func WriteList(w io.Writer, f Format, doc *ListDoc) error {
 	return fmt.Errorf("list: format %q is not one of table, csv, json, md", f)
 }
 
-// BasisMark is the mark a listing puts after a figure to say what it rests
-// on: "" guaranteed (or not a datasheet figure), "*" typical, "†" typical
-// read from a graph. BasisLegend explains the marks.
+// BasisMark is the mark put after a figure or margin to say what it rests
+// on: "" guaranteed (or not a datasheet figure), "~" typical, "g" typical
+// read from a graph; the listing and the selector use the same marks.
+// BasisLegend explains them.
 func BasisMark(b filter.Basis) string {
 	switch b {
 	case filter.BasisTypical:
-		return "*"
+		return "~"
 	case filter.BasisGraph:
-		return "†"
+		return "g"
 	}
 	return ""
 }
@@ -67,9 +68,9 @@ func BasisMark(b filter.Basis) string {
 // BasisLegend is the line under a listing that explains BasisMark.
 func BasisLegend(typical bool) string {
 	if typical {
-		return "Figures as the catalog gives them: * typical, † typical read from a graph; unmarked: a stated limit (no typical exists for it); — the catalog does not give it."
+		return "Figures as the catalog gives them: ~ typical, g typical read from a graph; unmarked: a stated limit (no typical exists for it); — the catalog does not give it."
 	}
-	return "Figures at worst case: unmarked guaranteed limits; * typical × derate_typ or × inflate_typ; † the same, read from a graph; — the catalog does not give it."
+	return "Figures at worst case: unmarked guaranteed limits; ~ typical × derate_typ or × inflate_typ; g the same, read from a graph; — the catalog does not give it."
 }
 
 // ListCell renders one cell for people: the value with its unit and basis
@@ -89,7 +90,10 @@ func ListCell(c listing.Column, v listing.Cell) string {
 	case "unit_cost":
 		return cost(v.V)
 	}
-	return catalog.Format(v.V, c.Dim) + BasisMark(v.Basis)
+	if m := BasisMark(v.Basis); m != "" {
+		return catalog.Format(v.V, c.Dim) + " " + m
+	}
+	return catalog.Format(v.V, c.Dim)
 }
 
 // Verdict is a row's verdict in words: "pass", "fails 2 check(s)", "" when
