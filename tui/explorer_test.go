@@ -189,3 +189,40 @@ func squash(l string) string {
 	}
 	return strings.Join(keep, " ")
 }
+
+// A figure bound is edited in the design pane like any input: typing
+// "max 5 mV" on the vos limit row puts limit.vos in force and re-ranks;
+// the explorer, open afterwards, shows the same verdicts the ranking has.
+func TestLimitEditedInDesignPane(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	m.form.cursor = fieldIndex(t, m, "choose.limit.vos")
+	press(t, m, "enter", "ctrl+u")
+	typeText(t, m, "max 5 mV")
+	press(t, m, "enter")
+	var found bool
+	for _, q := range m.rank.plan.Global {
+		if q.Key == filter.LimitKey("vos") && q.Bound == filter.BoundMax && q.Value == 5e-3 {
+			found = true
+		}
+	}
+	if !found {
+		t.Fatalf("no limit.vos ≤ 5 mV in force after the edit (error %q)", m.form.editErr)
+	}
+	press(t, m, "E")
+	pass := map[string]bool{}
+	for i := range m.rank.results {
+		pass[m.rank.results[i].Part.ID] = m.rank.results[i].Pass
+	}
+	for i := range m.expl.rows {
+		r := &m.expl.rows[i]
+		if got, _ := r.Pass(); got != pass[r.Part.ID] {
+			t.Errorf("%s: explorer verdict %v, ranking %v", r.Part.ID, got, pass[r.Part.ID])
+		}
+		// A part that passes keeps its worst-case offset within the bound.
+		for j, c := range m.expl.cols {
+			if c.Key == "vos" && pass[r.Part.ID] && r.Cells[j].V > 5e-3 {
+				t.Errorf("%s passes with vos %g above the 5 mV limit", r.Part.ID, r.Cells[j].V)
+			}
+		}
+	}
+}
