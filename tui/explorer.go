@@ -421,13 +421,7 @@ func (m *Model) updateExplore(k tea.KeyMsg) tea.Cmd {
 		m.mode = modeBrowse
 		m.setMessage("back from the explorer")
 	case exploreMark:
-		id := m.expl.selectedID()
-		if m.marks.toggle(id) {
-			m.setMessage("marked %s (%d marked)", id, m.marks.len())
-		} else {
-			m.setMessage("unmarked %s (%d marked)", id, m.marks.len())
-		}
-		m.applyNarrowing()
+		m.markPart(m.expl.selectedID(), "")
 	case exploreColumns:
 		if m.cfg.SettingsFile == "" {
 			m.setMessage("columns set for this session (no config directory to remember them in)")

@@ -123,10 +123,16 @@ func (m *Model) toggleMark() {
 		m.setMessage("no candidate selected")
 		return
 	}
-	if m.marks.toggle(r.Part.ID) {
-		m.setMessage("marked %s (%s on the shortlist; x exports)", r.Part.ID, plural(m.marks.len(), "part"))
+	m.markPart(r.Part.ID, "; x exports")
+}
+
+// markPart marks or unmarks part id in the shortlist, from any mode, and
+// says so on the status line (hint follows the count when marking).
+func (m *Model) markPart(id, hint string) {
+	if m.marks.toggle(id) {
+		m.setMessage("marked %s (%s on the shortlist%s)", id, plural(m.marks.len(), "part"), hint)
 	} else {
-		m.setMessage("unmarked %s (%s on the shortlist)", r.Part.ID, plural(m.marks.len(), "part"))
+		m.setMessage("unmarked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
 	}
 	if m.narrow.shortlist {
 		m.applyNarrowing()
