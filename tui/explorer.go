@@ -2,6 +2,7 @@ package tui
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -74,12 +75,22 @@ func (e *explorer) keys() []string {
 	return out
 }
 
-// refresh rebuilds the rows from the ranking in force (results at plan;
-// plan nil: the bare parts at 25 °C), keeping the cursor on the same part.
-func (e *explorer) refresh(plan *filter.Plan, results []filter.Result, parts []*catalog.Part) {
+// refresh rebuilds the rows from the ranking in force (no ranking: the
+// bare parts at 25 °C), keeping the cursor on the same part. With the
+// margin column shown the failing results are explained first: their
+// worst miss needs their checks, which a summary ranking leaves out.
+func (e *explorer) refresh(rs *ranking, parts []*catalog.Part) {
 	sel := e.selectedID()
+	plan, results := rs.resPlan, rs.results
 	if plan == nil {
 		results = nil
+	}
+	if slices.ContainsFunc(e.cols, func(c listing.Column) bool { return c.Key == "margin" }) {
+		for i := range results {
+			if !results[i].Pass {
+				rs.explain(i)
+			}
+		}
 	}
 	e.rows = listing.Build(plan, results, parts, e.cols, e.typical)
 	listing.Sort(e.rows, e.sort, e.typical)
@@ -131,8 +142,8 @@ func (e *explorer) selectedID() string {
 func explorerRows(h int) int { return max(1, h-3) }
 
 // update handles one key; rows is how many part rows are on screen. The
-// ranking inputs rebuild the rows when sorting or the view changes.
-func (e explorer) update(k tea.KeyMsg, rows int, plan *filter.Plan, results []filter.Result, parts []*catalog.Part) (explorer, explorerAction, tea.Cmd) {
+// ranking in force rebuilds the rows when the sort or the columns change.
+func (e explorer) update(k tea.KeyMsg, rows int, rs *ranking, parts []*catalog.Part) (explorer, explorerAction, tea.Cmd) {
 	keys := &e.u.keys
 	if e.finding {
 		switch k.String() {
@@ -159,7 +170,7 @@ func (e explorer) update(k tea.KeyMsg, rows int, plan *filter.Plan, results []fi
 			e.pick = min(len(all)-1, e.pick+1)
 		case key.Matches(k, keys.Mark):
 			e.toggleColumn(all[e.pick])
-			e.refresh(plan, results, parts)
+			e.refresh(rs, parts)
 		case key.Matches(k, keys.Cancel), key.Matches(k, keys.Accept), key.Matches(k, keys.ExploreColumns):
 			e.picking = false
 			return e, exploreColumns, nil
@@ -197,10 +208,10 @@ func (e explorer) update(k tea.KeyMsg, rows int, plan *filter.Plan, results []fi
 		} else {
 			e.sort = listing.SortKey{Key: name}
 		}
-		e.refresh(plan, results, parts)
+		e.refresh(rs, parts)
 	case key.Matches(k, keys.Typical):
 		e.typical = !e.typical
-		e.refresh(plan, results, parts)
+		e.refresh(rs, parts)
 	case key.Matches(k, keys.Find):
 		e.finding = true
 		e.input = newInput(e.u, e.find, 64)
@@ -402,7 +413,7 @@ func (e *explorer) drawPicker(w, h int) []string {
 
 // openExplorer opens explorer mode on the ranking in force.
 func (m *Model) openExplorer() tea.Cmd {
-	m.expl.refresh(m.rank.resPlan, m.rank.results, m.cat.Parts)
+	m.expl.refresh(&m.rank, m.cat.Parts)
 	m.mode = modeExplore
 	m.setMessage("explorer: every part · ←/→ column, s sort, c columns, T typical, / find, space mark, esc back")
 	return nil
@@ -412,7 +423,7 @@ func (m *Model) openExplorer() tea.Cmd {
 func (m *Model) updateExplore(k tea.KeyMsg) tea.Cmd {
 	var act explorerAction
 	var cmd tea.Cmd
-	m.expl, act, cmd = m.expl.update(k, explorerRows(m.ui.height-3), m.rank.resPlan, m.rank.results, m.cat.Parts)
+	m.expl, act, cmd = m.expl.update(k, explorerRows(m.ui.height-3), &m.rank, m.cat.Parts)
 	switch act {
 	case exploreQuit:
 		m.quitting = true

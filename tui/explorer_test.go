@@ -226,3 +226,36 @@ func TestLimitEditedInDesignPane(t *testing.T) {
 		}
 	}
 }
+
+// The margin column of a failing part is its worst miss, the same number
+// opsift list gives from a full evaluation, although the selector ranks
+// in summary (the explorer explains the failing parts first).
+func TestExplorerMarginOfFailingParts(t *testing.T) {
+	design, cat := demoDesign(t), demoCatalog(t)
+	m := New(Config{Design: design, Catalog: cat, Renderer: asciiRenderer(), Settings: Settings{ExplorerColumns: []string{"margin"}}})
+	m.Update(tea.WindowSizeMsg{Width: 120, Height: 40})
+	run(t, m, m.Init())
+	press(t, m, "E")
+	plan, err := filter.Derive(design.Clone())
+	if err != nil {
+		t.Fatal(err)
+	}
+	cols, _ := listing.ParseColumns("margin")
+	want := map[string]string{}
+	for _, r := range listing.Build(plan, filter.Evaluate(plan, cat.Parts, filter.Options{}), nil, cols, false) {
+		want[r.Part.ID] = report.ListCell(cols[0], r.Cells[0])
+	}
+	failing := 0
+	for i := range m.expl.rows {
+		r := &m.expl.rows[i]
+		if pass, _ := r.Pass(); !pass {
+			failing++
+		}
+		if got := report.ListCell(cols[0], r.Cells[0]); got != want[r.Part.ID] {
+			t.Errorf("%s: explorer margin %s, list %s", r.Part.ID, got, want[r.Part.ID])
+		}
+	}
+	if failing == 0 {
+		t.Error("no failing part in the demo: the test covers nothing")
+	}
+}

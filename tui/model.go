@@ -252,7 +252,7 @@ func (m *Model) adoptRanking(r rankedMsg) {
 	}
 	m.applyNarrowing()
 	if m.mode == modeExplore {
-		m.expl.refresh(m.rank.resPlan, m.rank.results, m.cat.Parts)
+		m.expl.refresh(&m.rank, m.cat.Parts)
 	}
 }
 

@@ -8,17 +8,20 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [--bom] [-o FILE [--force]]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--bom]
+                  [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
 is named). With --all the failing parts follow, each with the checks it
 fails and by how much. Formats: table (terminal), csv (the caution in the
 last column of every row), json (SI units), md (a shortlist for design
-review), toml (the ranked parts as a catalog file). --bom starts csv with a
-UTF-8 byte-order mark for spreadsheets (without it some read µ, ° and √
-wrongly). Tables are fitted to the terminal ($COLUMNS); written to a file or
-a pipe they are not shortened. Sort keys: margin
+review), toml (the ranked parts as a catalog file). json and md give each
+passing candidate's headroom: for every design input, moved alone, the
+value at which the part fails and the requirement that breaks there.
+--bom starts csv with a UTF-8 byte-order mark for spreadsheets (without it
+some read µ, ° and √ wrongly). Tables are fitted to the terminal
+($COLUMNS); written to a file or a pipe they are not shortened. Sort keys: margin
 (default), cost, supply_current, fmax, id. -o writes atomically: a
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
@@ -35,6 +38,7 @@ type rankFlags struct {
 	top      int
 	sort     string
 	strict   bool
+	noHead   bool
 	output   outputFlags
 }
 
@@ -48,6 +52,7 @@ func runRank(e *env, args []string) error {
 	fset.IntVar(&f.top, "top", 0, "list at most N candidates (0: all)")
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.BoolVar(&f.noHead, "no-headroom", false, "leave each candidate's headroom out of json and md (faster on a long list)")
 	f.output.register(fset)
 	f.output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
@@ -77,7 +82,7 @@ func runRank(e *env, args []string) error {
 	}
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
-	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
+	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead,
 		Sources: cat.Sources, Width: e.tableWidth(f.output.out != "")}
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer

@@ -157,15 +157,33 @@ func Columns() []Column {
 		word("pinout", "PINOUT", "pin-compatibility family", func(p *catalog.Part) string { return p.Pinout }),
 		Column{Key: "supply_current", Head: "SUPPLY CURRENT", Label: "all channels of the packages the design needs (one package without a design)",
 			Dim: catalog.Ampere, value: supplyCurrent},
-		Column{Key: "margin", Head: "WORST MARGIN", Label: "smallest margin against the design (a fraction)", Plain: true,
+		Column{Key: "margin", Head: "WORST MARGIN", Label: "smallest margin against the design (a fraction; a failing part's worst miss, — when it fails on a filter)", Plain: true,
 			value: func(r *Row, _ bool) Cell {
 				if r.Result == nil {
 					return unknown()
 				}
-				return number(r.Result.WorstMargin, filter.BasisNone)
+				return number(shownMargin(r.Result), filter.BasisNone)
 			}},
 	)
 	return out
+}
+
+// shownMargin is the margin a row shows: a passing part's worst margin; a
+// failing part's worst miss (its most negative failing check), NaN when
+// it fails only on checks without a number (package, lifecycle, …), so a
+// failing part never shows the positive margin of a check it passes.
+func shownMargin(r *filter.Result) float64 {
+	if r.Pass {
+		return r.WorstMargin
+	}
+	miss := math.NaN()
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		if !c.Pass && c.Status != filter.StatusUnknown && !math.IsNaN(c.Margin) && (math.IsNaN(miss) || c.Margin < miss) {
+			miss = c.Margin
+		}
+	}
+	return miss
 }
 
 func plain(c Column) Column {
