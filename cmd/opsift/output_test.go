@@ -58,6 +58,7 @@ func TestBOM(t *testing.T) {
 		{"rank", "--catalog", rankCat, "--design", rankDesign, "--format", "csv"},
 		{"list", "--catalog", rankCat, "--format", "csv"},
 		{"replace", "ta-slow-bip", "--catalog", rankCat, "--format", "csv"},
+		{"compare", "ta-slow-bip", "tb-fet-fast", "--catalog", rankCat, "--design", rankDesign, "--format", "csv"},
 	} {
 		plain := runCLI(t, false, nil, args...)
 		bom := runCLI(t, false, nil, append(args, "--bom")...)
