@@ -44,43 +44,52 @@ func DefaultKeyMap() KeyMap {
 	b := func(keys []string, help, desc string) key.Binding {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
-	return KeyMap{
-		Up:             b([]string{"up", "k"}, "↑/k", "up"),
-		Down:           b([]string{"down", "j"}, "↓/j", "down"),
-		PageUp:         b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
-		PageDn:         b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
-		Top:            b([]string{"home", "g"}, "g/home", "first"),
-		Bottom:         b([]string{"end", "G"}, "G/end", "last"),
-		Focus:          b([]string{"tab"}, "tab", "pane"),
-		FocusBack:      b([]string{"shift+tab"}, "shift+tab", "previous pane"),
-		Edit:           b([]string{"enter", "e"}, "enter", "edit"),
-		Accept:         b([]string{"enter"}, "enter", "done"),
-		Cancel:         b([]string{"esc"}, "esc", "cancel"),
-		Failing:        b([]string{"f"}, "f", "+failing"),
-		Sort:           b([]string{"s"}, "s", "sort"),
-		Find:           b([]string{"/"}, "/", "find"),
-		Tech:           b([]string{"t"}, "t", "tech filter"),
-		Package:        b([]string{"p"}, "p", "package filter"),
-		Clear:          b([]string{"c"}, "c", "clear filters"),
-		Mark:           b([]string{" ", "m"}, "space", "mark"),
-		Shortlist:      b([]string{"l"}, "l", "shortlist"),
-		Export:         b([]string{"x"}, "x", "export"),
-		Save:           b([]string{"w", "ctrl+s"}, "w", "save design"),
-		Reload:         b([]string{"r"}, "r", "reload catalog"),
-		Open:           b([]string{"o"}, "o", "edit part file"),
-		Replace:        b([]string{"R"}, "R", "replace"),
-		Preview:        b([]string{"v"}, "v", "wave"),
-		Compare:        b([]string{"V"}, "V", "compare 2 marked"),
-		StagePrev:      b([]string{"["}, "[", "previous stage"),
-		StageNext:      b([]string{"]"}, "]", "next stage"),
-		Explore:        b([]string{"E"}, "E", "explore all parts"),
-		ColumnLeft:     b([]string{"left"}, "←", "column left"),
-		ColumnRight:    b([]string{"right"}, "→", "column right"),
-		ExploreColumns: b([]string{"c"}, "c", "columns"),
-		Typical:        b([]string{"T"}, "T", "typical/worst"),
-		Help:           b([]string{"?"}, "?", "keys"),
-		Quit:           b([]string{"q", "ctrl+c"}, "q", "quit"),
+	return withExplorerKeys(KeyMap{
+		Up:        b([]string{"up", "k"}, "↑/k", "up"),
+		Down:      b([]string{"down", "j"}, "↓/j", "down"),
+		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
+		PageDn:    b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
+		Top:       b([]string{"home", "g"}, "g/home", "first"),
+		Bottom:    b([]string{"end", "G"}, "G/end", "last"),
+		Focus:     b([]string{"tab"}, "tab", "pane"),
+		FocusBack: b([]string{"shift+tab"}, "shift+tab", "previous pane"),
+		Edit:      b([]string{"enter", "e"}, "enter", "edit"),
+		Accept:    b([]string{"enter"}, "enter", "done"),
+		Cancel:    b([]string{"esc"}, "esc", "cancel"),
+		Failing:   b([]string{"f"}, "f", "+failing"),
+		Sort:      b([]string{"s"}, "s", "sort"),
+		Find:      b([]string{"/"}, "/", "find"),
+		Tech:      b([]string{"t"}, "t", "tech filter"),
+		Package:   b([]string{"p"}, "p", "package filter"),
+		Clear:     b([]string{"c"}, "c", "clear filters"),
+		Mark:      b([]string{" ", "m"}, "space", "mark"),
+		Shortlist: b([]string{"l"}, "l", "shortlist"),
+		Export:    b([]string{"x"}, "x", "export"),
+		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Reload:    b([]string{"r"}, "r", "reload catalog"),
+		Open:      b([]string{"o"}, "o", "edit part file"),
+		Replace:   b([]string{"R"}, "R", "replace"),
+		Preview:   b([]string{"v"}, "v", "wave"),
+		Compare:   b([]string{"V"}, "V", "compare 2 marked"),
+		StagePrev: b([]string{"["}, "[", "previous stage"),
+		StageNext: b([]string{"]"}, "]", "next stage"),
+		Help:      b([]string{"?"}, "?", "keys"),
+		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+	})
+}
+
+// withExplorerKeys adds explorer mode's keys to k: E opens it; inside it
+// ←/→ move the column cursor, c picks the columns, T switches typical.
+func withExplorerKeys(k KeyMap) KeyMap {
+	b := func(keys []string, help, desc string) key.Binding {
+		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
+	k.Explore = b([]string{"E"}, "E", "explore all parts")
+	k.ColumnLeft = b([]string{"left"}, "←", "column left")
+	k.ColumnRight = b([]string{"right"}, "→", "column right")
+	k.ExploreColumns = b([]string{"c"}, "c", "columns")
+	k.Typical = b([]string{"T"}, "T", "typical/worst")
+	return k
 }
 
 // ShortHelp is the bottom line while browsing; "?" and "q" come early so
