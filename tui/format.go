@@ -90,9 +90,8 @@ func bar(m float64, cells int) string {
 	return b.String()
 }
 
-// basisMark is the one-letter marker beside a figure that did not come
-// from a guaranteed limit: "~" for a typical table figure (derated or
-// inflated), "g" for a typical read off a graph, "" otherwise.
+// basisMark is the marker beside a figure that did not come from a
+// guaranteed limit, the same in every output (report.BasisMark).
 func basisMark(b filter.Basis) string { return report.BasisMark(b) }
 
 // bindingCheck returns the check that sets a result's worst margin, or nil.
