@@ -423,7 +423,7 @@ func (m *Model) openExplorer() tea.Cmd {
 func (m *Model) updateExplore(k tea.KeyMsg) tea.Cmd {
 	var act explorerAction
 	var cmd tea.Cmd
-	m.expl, act, cmd = m.expl.update(k, explorerRows(m.ui.height-3), &m.rank, m.cat.Parts)
+	m.expl, act, cmd = m.expl.update(k, explorerRows(m.bodyH()), &m.rank, m.cat.Parts)
 	switch act {
 	case exploreQuit:
 		m.quitting = true

@@ -5,6 +5,7 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/opsift/opsift/filter/report"
 )
@@ -19,6 +20,8 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// now is the clock outputs are dated with; tests fix it.
+	now func() time.Time
 }
 
 // newEnv returns the process's real environment.
@@ -29,6 +32,7 @@ func newEnv() *env {
 		stderr: os.Stderr,
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
+		now:    time.Now,
 	}
 }
 
