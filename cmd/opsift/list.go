@@ -81,9 +81,12 @@ func runList(e *env, args []string) error {
 	if err != nil {
 		return usageError("list: --sort: %w", err)
 	}
-	var plan *filter.Plan
+	var (
+		plan *filter.Plan
+		d    *filter.Design
+	)
 	if design != "" {
-		if _, plan, err = deriveDesign(design); err != nil {
+		if d, plan, err = deriveDesign(design); err != nil {
 			return inputError(err)
 		}
 	}
@@ -97,7 +100,8 @@ func runList(e *env, args []string) error {
 	}
 	rows := listing.Build(plan, results, cat.Parts, cols, typical)
 	listing.Sort(rows, key, typical)
-	doc := &report.ListDoc{Plan: plan, Rows: rows, Columns: cols, Sort: key, Typical: typical, Sources: cat.Sources}
+	doc := &report.ListDoc{Plan: plan, Rows: rows, Columns: cols, Sort: key, Typical: typical, Sources: cat.Sources,
+		Meta: meta(e, design, d, cat, false)}
 	if w := e.tableWidth(output.out != ""); w != report.Unclipped {
 		doc.Width = w
 	}
