@@ -18,7 +18,7 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE [--force]]
+                      [--all] [--obsolete] [--over-temp] [--strict] [--bom] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -55,6 +55,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
 	f.output.register(fs)
+	f.output.registerBOM(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
 		return err
@@ -103,7 +104,11 @@ func runReplace(e *env, args []string) error {
 	if err := v.write(&buf, f.format); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f.format == "csv" {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }
 
 // replaceParseArgs parses flags that may come before and after the

@@ -80,6 +80,8 @@ func runSelector(e *env, args []string) error {
 	if e.getenv("NO_COLOR") != "" {
 		r.SetColorProfile(termenv.Ascii)
 	}
+	settingsFile := tui.SettingsPath(e.getenv)
+	settings, settingsErr := tui.LoadSettings(settingsFile)
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
@@ -92,6 +94,10 @@ func runSelector(e *env, args []string) error {
 		Strict:     strict,
 		Renderer:   r,
 		Getenv:     e.getenv,
+
+		Settings:     settings,
+		SettingsFile: settingsFile,
+		SettingsErr:  settingsErr,
 	})
 	defer m.Close()
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),
