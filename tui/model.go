@@ -55,6 +55,12 @@ type Config struct {
 	Renderer *lipgloss.Renderer
 	// Getenv reads EDITOR and VISUAL.
 	Getenv func(string) string
+	// Settings are the remembered choices (the explorer's columns), read
+	// from SettingsFile, where changes are written back; "" keeps them for
+	// the session. SettingsErr is why the file could not be read.
+	Settings     Settings
+	SettingsFile string
+	SettingsErr  error
 }
 
 // Model is the selector's root bubbletea model. It holds only routing
@@ -88,6 +94,7 @@ type Model struct {
 	prompt prompt
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
+	expl   explorer    // explorer mode (explorer.go)
 
 	helpPage int // the help overlay's page
 
@@ -164,6 +171,7 @@ func New(cfg Config) *Model {
 	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
 	m.form = newForm(u)
 	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
+	m.expl = newExplorer(u, cfg.Settings.ExplorerColumns)
 	m.design = cfg.Design.Clone()
 	m.saved = savedState{path: cfg.DesignFile, text: cfg.DesignText, design: cfg.Design.Clone()}
 	if m.saved.text == nil {
@@ -179,6 +187,8 @@ func New(cfg Config) *Model {
 		m.setError(fmt.Errorf("catalog: %w (parts with problems are left out; see opsift check)", firstProblem(cfg.CatalogErr)))
 	} else if m.planErr != nil {
 		m.setError(m.planErr)
+	} else if cfg.SettingsErr != nil {
+		m.setError(cfg.SettingsErr)
 	}
 	if cfg.Watch && len(cfg.OnDisk) > 0 {
 		m.watcher = startWatcher(cfg.OnDisk)
@@ -264,6 +274,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateHelp(k)
 	case modeReplace:
 		return m.updateReplace(k)
+	case modeExplore:
+		return m.updateExplore(k)
 	case modeAsk:
 		return m.updateAsk(k)
 	}
@@ -302,6 +314,9 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		}
 	}
 	m.applyNarrowing()
+	if m.mode == modeExplore {
+		m.expl.refresh(&m.rank, m.cat.Parts)
+	}
 }
 
 // setCatalog installs a (re)loaded catalog and the values the quick

@@ -491,15 +491,7 @@ func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 		m.mode = modeBrowse
 		m.setMessage("back from replacement mode")
 	case replaceMark:
-		id := m.repl.selected().Part.ID
-		if m.marks.toggle(id) {
-			m.setMessage("marked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
-		} else {
-			m.setMessage("unmarked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
-		}
-		if m.narrow.shortlist {
-			m.applyNarrowing()
-		}
+		m.markPart(m.repl.selected().Part.ID, "")
 	case replaceSelect:
 		id := m.repl.selected().Part.ID
 		m.mode = modeBrowse

@@ -24,6 +24,8 @@ func (m *Model) settle() {
 	switch m.mode {
 	case modeReplace:
 		m.repl.settle(m.ui.width, m.bodyH())
+	case modeExplore:
+		m.expl.settle(m.cat.idW, m.ui.width, m.bodyH())
 	case modePrompt:
 		m.prompt.settle(m.marks.len(), m.ui.width)
 	}

@@ -84,6 +84,8 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openEditor()
 	case key.Matches(k, keys.Replace):
 		return m.openReplace()
+	case key.Matches(k, keys.Explore):
+		return m.openExplorer()
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)
@@ -118,10 +120,16 @@ func (m *Model) toggleMark() {
 		m.setMessage("no candidate selected")
 		return
 	}
-	if m.marks.toggle(r.Part.ID) {
-		m.setMessage("marked %s (%s on the shortlist; x exports)", r.Part.ID, plural(m.marks.len(), "part"))
+	m.markPart(r.Part.ID, "; x exports")
+}
+
+// markPart marks or unmarks part id in the shortlist, from any mode, and
+// says so on the status line (hint follows the count when marking).
+func (m *Model) markPart(id, hint string) {
+	if m.marks.toggle(id) {
+		m.setMessage("marked %s (%s on the shortlist%s)", id, plural(m.marks.len(), "part"), hint)
 	} else {
-		m.setMessage("unmarked %s (%s on the shortlist)", r.Part.ID, plural(m.marks.len(), "part"))
+		m.setMessage("unmarked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
 	}
 	if m.narrow.shortlist {
 		m.applyNarrowing()

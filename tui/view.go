@@ -48,6 +48,8 @@ func (m *Model) View() string {
 		body = m.helpOverlay(u.width, len(body))
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
+	case modeExplore:
+		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
 	}
 	var bottom []string
 	switch m.mode {
@@ -157,6 +159,8 @@ func (m *Model) footLines() []string {
 	switch m.mode {
 	case modeReplace:
 		bs = append(k.replaceKeys(), k.Quit)
+	case modeExplore:
+		bs = k.explorerKeys()
 	case modeEdit:
 		bs = k.editKeys()
 		tail = "↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us"

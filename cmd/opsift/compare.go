@@ -13,7 +13,7 @@ import (
 )
 
 const compareUsage = `Usage: opsift compare PART-ID PART-ID... [--design FILE] [--catalog PATH]...
-                     [--format table|md|json|csv] [--strict] [--no-cache] [-o FILE [--force]]
+                     [--format table|md|json|csv] [--strict] [--bom] [--no-cache] [-o FILE [--force]]
 
 Lay 2 to 6 parts side by side for a design: one row per worst-case
 figure (the value the design's policy gives, with its basis: unmarked
@@ -46,6 +46,7 @@ func runCompare(e *env, args []string) error {
 	fset.StringVar(&f.format, "format", "table", "output format: table, md, json or csv")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	f.output.register(fset)
+	f.output.registerBOM(fset)
 	ids, err := replaceParseArgs(fset, args)
 	if helped, err := flagResult(e, fset, err); helped || err != nil {
 		return err
@@ -79,7 +80,11 @@ func runCompare(e *env, args []string) error {
 	if err := report.WriteCompare(&buf, report.Format(f.format), doc); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f.format == "csv" {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }
 
 // compareParts looks every id up in the catalog; an unknown id is a usage

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"io/fs"
 
@@ -11,7 +12,7 @@ import (
 	"github.com/opsift/opsift/filter/report"
 )
 
-const deriveUsage = `Usage: opsift derive [--design FILE] [--format text|json]
+const deriveUsage = `Usage: opsift derive [--design FILE] [--format text|json] [-o FILE [--force]]
 
 Show what the design needs from the op-amp: every requirement with its
 bound and the formula with the numbers put in. Without --design, the
@@ -21,10 +22,14 @@ Options:
 `
 
 func runDerive(e *env, args []string) error {
-	var design, format string
+	var (
+		design, format string
+		output         outputFlags
+	)
 	fset := newFlagSet(e, "derive", deriveUsage)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&format, "format", "text", "output format: text or json")
+	output.register(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -38,7 +43,11 @@ func runDerive(e *env, args []string) error {
 	if err != nil {
 		return inputError(err)
 	}
-	return report.WriteDerive(e.stdout, format, plan, meta(e, design, d, nil, false))
+	var buf bytes.Buffer
+	if err := report.WriteDerive(&buf, format, plan, meta(e, design, d, nil, false)); err != nil {
+		return err
+	}
+	return output.emit(e, buf.Bytes())
 }
 
 // deriveDesign reads, decodes and derives the design at path, or the

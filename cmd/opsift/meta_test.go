@@ -33,6 +33,8 @@ func TestJSONOutputsCarryMeta(t *testing.T) {
 		{"replace", []string{"replace", "tb-fet-fast", "--design", rankDesign, "--catalog", rankCat, "--format", "json"}, rankDesign, true, true},
 		{"replace without design", []string{"replace", "tb-fet-fast", "--catalog", rankCat, "--format", "json"}, "", true, false},
 		{"preview", []string{"preview", "tb-fet-fast", "--design", rankDesign, "--catalog", rankCat, "--format", "json", "--points", "4"}, rankDesign, true, true},
+		{"list", []string{"list", "--design", rankDesign, "--catalog", rankCat, "--format", "json"}, rankDesign, true, true},
+		{"list without design", []string{"list", "--catalog", rankCat, "--format", "json"}, "", true, false},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -19,7 +19,8 @@ import (
 )
 
 const previewUsage = `Usage: opsift preview PART-ID [--design FILE] [--stage NAME] [--catalog PATH]...
-                      [--typical] [--format text|json] [--width N] [--height N] [--points N] [--no-cache]
+                      [--typical] [--format text|json] [--width N] [--height N] [--points N]
+                      [--no-cache] [-o FILE [--force]]
 
 Simulate PART-ID in one stage of the design and show the settled waveform
 beside the ideal op-amp's: output and ideal peak-to-peak, peak error, THD,
@@ -42,6 +43,7 @@ type previewFlags struct {
 	format        string
 	width, height int
 	points        int
+	output        outputFlags
 }
 
 // Plot size defaults: 80 columns when COLUMNS is not set, 16 lines.
@@ -66,6 +68,7 @@ func runPreview(e *env, args []string) error {
 	fset.IntVar(&f.width, "width", 0, "plot width in columns (default: $COLUMNS, else 80)")
 	fset.IntVar(&f.height, "height", previewDefaultHeight, "plot height in lines")
 	fset.IntVar(&f.points, "points", 0, "largest number of samples in the t, in, out, ideal arrays (default 2000)")
+	f.output.register(fset)
 	pos, err := replaceParseArgs(fset, args)
 	if helped, err := flagResult(e, fset, err); helped || err != nil {
 		return err
@@ -122,8 +125,7 @@ func runPreview(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	_, err = e.stdout.Write(buf.Bytes())
-	return err
+	return f.output.emit(e, buf.Bytes())
 }
 
 // previewCheckStage reports a stage the design lacks, or one without a

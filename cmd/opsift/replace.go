@@ -19,7 +19,7 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--no-cache] [-o FILE [--force]]
+                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--bom] [--no-cache] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -61,6 +61,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
 	fs.IntVar(&f.top, "top", -1, "list at most N candidates (0: all; default: a screenful for a table on a terminal, else all)")
 	f.output.register(fs)
+	f.output.registerBOM(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
 		return err
@@ -113,7 +114,11 @@ func runReplace(e *env, args []string) error {
 	if err := v.write(&buf, f.format); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f.format == "csv" {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }
 
 // replaceParseArgs parses flags that may come before and after the

@@ -31,12 +31,14 @@ type replacePartJSON struct {
 	Pinout    string   `json:"pinout"`
 	Packages  []string `json:"packages"`
 	Channels  int      `json:"channels"`
+	Datasheet string   `json:"datasheet,omitempty"`
 }
 
 type replaceCandJSON struct {
 	ID             string              `json:"id"`
 	Name           string              `json:"name"`
 	Lifecycle      string              `json:"lifecycle"`
+	Datasheet      string              `json:"datasheet,omitempty"`
 	DropIn         bool                `json:"drop_in"`
 	Footprint      string              `json:"footprint"`
 	SharedPackages []string            `json:"shared_packages"`
@@ -85,7 +87,7 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 	o := v.res.Original
 	doc := replaceJSON{
 		Original: replacePartJSON{ID: o.ID, Name: o.Name, Lifecycle: string(o.Lifecycle), Pinout: o.Pinout,
-			Packages: replaceNonNil(o.Packages), Channels: o.Channels},
+			Packages: replaceNonNil(o.Packages), Channels: o.Channels, Datasheet: o.Datasheet},
 		Candidates:      []replaceCandJSON{},
 		ObsoleteLeftOut: v.res.ObsoleteLeftOut,
 		FailingLeftOut:  v.failHidden,
@@ -105,7 +107,7 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 func replaceCandidateJSON(c replace.Candidate) replaceCandJSON {
 	p := c.Part
 	j := replaceCandJSON{
-		ID: p.ID, Name: p.Name, Lifecycle: string(p.Lifecycle),
+		ID: p.ID, Name: p.Name, Lifecycle: string(p.Lifecycle), Datasheet: p.Datasheet,
 		DropIn: c.DropIn, Footprint: c.Footprint, SharedPackages: replaceNonNil(c.Shared), Strict: c.Strict,
 		Regressions: replaceChangesJSON(c.Regressions), Improvements: replaceChangesJSON(c.Improvements),
 		Missing: replaceNonNil(c.Missing),

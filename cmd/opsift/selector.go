@@ -91,6 +91,8 @@ func runSelector(e *env, args []string) error {
 	for _, l := range layers {
 		empty.Sources = append(empty.Sources, safe.Text(l.Name))
 	}
+	settingsFile := tui.SettingsPath(e.getenv)
+	settings, settingsErr := tui.LoadSettings(settingsFile)
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
@@ -110,6 +112,10 @@ func runSelector(e *env, args []string) error {
 		Strict:   strict,
 		Renderer: r,
 		Getenv:   e.getenv,
+
+		Settings:     settings,
+		SettingsFile: settingsFile,
+		SettingsErr:  settingsErr,
 	})
 	defer m.Close()
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),

@@ -21,6 +21,12 @@ import (
 // filtered, sorted or pasted elsewhere.
 const CautionColumn = "caution"
 
+// BOM is the UTF-8 byte-order mark `--bom` puts before CSV: without it
+// common spreadsheet programs read a CSV file in a legacy 8-bit code page
+// and show µ, ° and √ as two odd characters each (common practice, no
+// source); with it they read UTF-8.
+const BOM = "\uFEFF"
+
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
 // figures (SI units, plain numbers; empty when unknown), then for every
 // numeric requirement the part's worst-case figure and the margin, and last

@@ -49,6 +49,7 @@ type jsonBinding struct {
 type jsonCandidate struct {
 	ID            string          `json:"id"`
 	Name          string          `json:"name"`
+	Datasheet     string          `json:"datasheet,omitempty"` // the catalog's reference, as written
 	Pass          bool            `json:"pass"`
 	WorstMargin   *num            `json:"worst_margin"`
 	Binding       *jsonBinding    `json:"binding"`
@@ -191,7 +192,7 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}}
 	doc.prepareHeadroom()
 	for _, r := range doc.Listed() {
-		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r)),
+		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Datasheet: r.Part.Datasheet, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r)),
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
 			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
 			Headroom: jsonHeadrooms(doc.Headroom(r))}

@@ -27,6 +27,9 @@ type ListDoc struct {
 	Typical bool     // typical figures instead of the worst case
 	Sources []string // the catalog sources, for the header
 	Width   int      // table: clip the name to fit this width; 0 = never clip
+	// Meta says what the listing was made from; the JSON carries it as
+	// every JSON output does (version, generated, design, catalog).
+	Meta *Meta
 }
 
 // ListFormats are the formats WriteList renders, in help order.
@@ -266,8 +269,8 @@ func writeListCSV(w io.Writer, doc *ListDoc) error {
 // {"parts": [{"id", "name", "pass", "figures": {KEY: {"value", "unit",
 // "basis"}}}]}, with the header fields beside parts.
 type jsonList struct {
+	JSONMeta
 	Title       string          `json:"title,omitempty"`
-	Design      string          `json:"design,omitempty"`
 	Caution     string          `json:"caution"`
 	Figures     string          `json:"figures"`
 	Temperature *jsonRange      `json:"temperature,omitempty"`
@@ -298,16 +301,13 @@ type jsonListFigure struct {
 }
 
 func writeListJSON(w io.Writer, doc *ListDoc) error {
-	out := jsonList{Caution: Caution, Figures: "worst_case", Sort: doc.Sort.String(), Sources: doc.Sources,
+	out := jsonList{JSONMeta: NewJSONMeta(doc.Meta, doc.Plan), Caution: Caution, Figures: "worst_case", Sort: doc.Sort.String(), Sources: doc.Sources,
 		Count: len(doc.Rows), Parts: []jsonListEntry{}}
 	if doc.Typical {
 		out.Figures = "typical"
 	}
 	if p := doc.Plan; p != nil {
 		out.Title = p.Title
-		if p.Design != nil {
-			out.Design = p.Design.Name
-		}
 	}
 	if !doc.Typical {
 		lo, hi := filter.RoomTemp, filter.RoomTemp

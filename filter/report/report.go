@@ -70,7 +70,7 @@ type Doc struct {
 	// Meta says what the document was made from (version, date, design
 	// file, catalog hashes); the JSON and Markdown writers carry it.
 	Meta  *Meta
-	Width int  // table: terminal width in columns (0 = 100)
+	Width int  // table: terminal width in columns (0 = 100; Unclipped: no limit)
 	Color bool // table: ANSI colour
 	// NoHeadroom leaves the candidates' headroom out of the json and md
 	// documents (a large shortlist searches every input of every part).

@@ -25,6 +25,11 @@ const (
 // DefaultWidth is the table width when the terminal's is not known.
 const DefaultWidth = 100
 
+// Unclipped is the Doc.Width of a table written to a file or a pipe: no
+// column is dropped and no name shortened; notes and the caution are
+// folded at DefaultWidth.
+const Unclipped = 1 << 20
+
 // column is one column of the ranked table.
 type column struct {
 	head  string
@@ -44,13 +49,13 @@ func tableColumns(strict bool, p *filter.Plan) []column {
 		{head: "PART", cell: func(_ int, r *filter.Result) string { return r.Part.ID }},
 		{head: "MARGIN", right: true, cell: func(_ int, r *filter.Result) string { return present.RowMargin(r) }},
 		{head: "BINDING", cell: func(_ int, r *filter.Result) string { return present.RowBinding(r, strict) }},
-		{head: "PKG", right: true, drop: 3, cell: func(_ int, r *filter.Result) string { return strconv.Itoa(r.Packages) }},
+		{head: "PKGS\nNEEDED", right: true, drop: 3, cell: func(_ int, r *filter.Result) string { return strconv.Itoa(r.Packages) }},
 		{head: "COST", right: true, drop: 4, cell: func(_ int, r *filter.Result) string { return cost(r.Cost) }},
-		{head: "SUPPLY I", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
+		{head: "SUPPLY\nCURRENT", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
 			return quantity(r.SupplyCurrent, catalog.Ampere)
 		}},
 		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string { return fmaxText(p, r) }},
-		{head: "?", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
+		{head: "UNKNOWN\nCHECKS", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
 			if r.Unknown == 0 {
 				return ""
 			}
@@ -68,6 +73,10 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	width := doc.Width
 	if width <= 0 {
 		width = DefaultWidth
+	}
+	prose := width // the width notes and the caution are folded to
+	if width >= Unclipped {
+		prose = DefaultWidth
 	}
 	b := bufio.NewWriter(w)
 	p := doc.Plan
@@ -89,9 +98,9 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	}
 	if len(listed) == 0 {
 		b.WriteByte('\n')
-		wrap(b, "no candidate passes; --all lists the failing parts with what they miss", width)
+		wrap(b, "no candidate passes; --all lists the failing parts with what they miss", prose)
 		b.WriteByte('\n')
-		wrap(b, "Caution: "+Caution, width)
+		wrap(b, "Caution: "+Caution, prose)
 		return b.Flush()
 	}
 	cols := tableColumns(doc.Strict, p)
@@ -104,7 +113,8 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	}
 	widths := make([]int, len(cols))
 	for j, c := range cols {
-		widths[j] = present.Width(c.head)
+		top, bottom := headLines(c.head)
+		widths[j] = max(present.Width(top), present.Width(bottom))
 		for _, row := range rows {
 			widths[j] = max(widths[j], present.Width(row[j]))
 		}
@@ -119,7 +129,11 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	fit[3].Min = min(12, widths[3])
 	widths = present.Fit(fit, width, 2)
 	b.WriteByte('\n')
-	writeRow(b, cols, widths, headRow(cols), doc.Color, ansiBold)
+	top, bottom := headRows(cols)
+	if strings.TrimSpace(strings.Join(top, "")) != "" {
+		writeRow(b, cols, widths, top, doc.Color, ansiBold)
+	}
+	writeRow(b, cols, widths, bottom, doc.Color, ansiBold)
 	for i, r := range listed {
 		colour := ""
 		if doc.Color {
@@ -131,7 +145,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		writeRow(b, cols, widths, rows[i], doc.Color, colour)
 		if !r.Pass {
 			for _, c := range failingOrUnknown(r, doc.Strict) {
-				for _, line := range present.Wrap("✗ "+safe.Text(missText(c, r.Part)), width-6, "  ") {
+				for _, line := range present.Wrap("✗ "+safe.Text(missText(c, r.Part)), prose-6, "  ") {
 					line = "      " + line
 					if doc.Color {
 						line = ansiDim + line + ansiReset
@@ -142,15 +156,15 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		}
 	}
 	if unknownTotal(listed) > 0 {
-		note := "? = checks left unknown (the catalog lacks the figure); --strict fails them"
+		note := "UNKNOWN CHECKS: checks left unknown (the catalog lacks the figure); --strict fails them"
 		if doc.Strict {
-			note = "? = checks left unknown (the catalog lacks the figure), failed under --strict"
+			note = "UNKNOWN CHECKS: checks left unknown (the catalog lacks the figure), failed under --strict"
 		}
 		b.WriteByte('\n')
-		wrap(b, note, width)
+		wrap(b, note, prose)
 	}
 	b.WriteByte('\n')
-	wrap(b, "Caution: "+Caution, width)
+	wrap(b, "Caution: "+Caution, prose)
 	return b.Flush()
 }
 
@@ -219,12 +233,23 @@ func missText(c *filter.Check, p *catalog.Part) string {
 	return s
 }
 
-func headRow(cols []column) []string {
-	out := make([]string, len(cols))
-	for i, c := range cols {
-		out[i] = c.head
+// headLines splits a header written on two lines ("PKGS\nNEEDED"); a
+// one-line header is the bottom line.
+func headLines(head string) (top, bottom string) {
+	if t, b, ok := strings.Cut(head, "\n"); ok {
+		return t, b
 	}
-	return out
+	return "", head
+}
+
+// headRows are the header's two lines, the top one all blank when no
+// header needs two.
+func headRows(cols []column) (top, bottom []string) {
+	top, bottom = make([]string, len(cols)), make([]string, len(cols))
+	for i, c := range cols {
+		top[i], bottom[i] = headLines(c.head)
+	}
+	return top, bottom
 }
 
 func writeRow(b *bufio.Writer, cols []column, widths []int, cells []string, color bool, colour string) {
