@@ -294,7 +294,7 @@ func (ev *evaluator) numeric(c *Check, b Bound, fig Figure) {
 		if b == BoundMax {
 			d = -d
 		}
-		c.Margin = math.Pow(10, d/20) - 1
+		c.Margin = circuit.FromDB(d) - 1
 	case b == BoundMin:
 		c.Margin = fig.V/c.Required - 1
 	case b == BoundMax:

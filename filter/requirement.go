@@ -159,7 +159,7 @@ type Rails struct {
 
 // StagePlan is what a template derived for one stage: the circuit
 // quantities part-dependent checks need (noise gain, source and load
-// resistance) and the stage's requirements.
+// resistance), the resolved circuit values, and the stage's requirements.
 type StagePlan struct {
 	Stage     *Stage
 	Name      string
@@ -174,6 +174,19 @@ type StagePlan struct {
 	GainError float64 // allowed gain error ε, fraction
 	SourceR   float64 // Ω, 0 when not given
 	LoadR     float64 // Ω, 0 when not given (no resistive load)
+	// Ref is the node the stage is centred on, V, resolved: the stage's
+	// ref or its default, the middle of the nominal rails (0 for kinds
+	// without one: direct, comparator).
+	Ref float64
+	// Values are the circuit values Derive resolved, SI, by stage key
+	// ("rf", "rg", "cin", "i_max", "threshold", "input.low", …), defaults
+	// applied; only the keys the stage gives or defaults are present.
+	// Front ends build the stage's circuit from them (StagePlan.Circuit)
+	// instead of re-reading the inputs.
+	Values map[string]float64
+	// Texts are the resolved choice inputs by stage key ("polarity"),
+	// defaults applied, for the kinds whose circuit depends on one.
+	Texts map[string]string
 	// Requirements of this stage, in derivation order.
 	Requirements []Requirement
 }

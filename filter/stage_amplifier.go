@@ -6,6 +6,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
 
 // signalParams are the inputs every amplifier template shares.
@@ -138,7 +139,7 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	if eps <= 0 || eps >= 1 {
 		return sp, fieldErrorf("gain_error", "%q is out of range, want a ratio between 0 and 100 %% such as \"1 %%\"", in.Raw("gain_error"))
 	}
-	sp.Peak, sp.GainError = vp, eps
+	sp.Peak, sp.GainError, sp.Ref = vp, eps, ref
 	sp.Vo = a.gain * vp
 	sp.Shape = in.Text("signal.shape")
 	sp.SourceR, _ = in.Num("source_r")
@@ -301,4 +302,26 @@ func (n noiseSetup) output(p *catalog.Part, f *PartFigures) Figure {
 	}
 	enbw := circuit.NoiseBandwidthLoopBand(circuit.ClosedLoopBandwidth(f.GBWHigh.V, n.ng), band)
 	return Figure{V: a.OutputRMS(enbw), Known: true, Basis: basis, Note: f.En.Note}
+}
+
+// amplifierCircuit is the waveform preview of an amplifier stage: circuit
+// c driven with the stage's signal around its ref. A square without a
+// frequency repeats every squarePeriodRises allowed rise times.
+func amplifierCircuit(sp *StagePlan, c sim.Circuit) (StageCircuit, error) {
+	b := StageCircuit{Circuit: c}
+	switch sp.Shape {
+	case "sine":
+		b.Input = sim.Input{Shape: sim.Sine, Peak: sp.Peak, Freq: sp.Freq, Offset: sp.Ref}
+	case "square":
+		f := sp.Freq
+		if !(f > 0) {
+			f = 1 / (squarePeriodRises * sp.Rise)
+			b.Notes = append(b.Notes, fmt.Sprintf("the design gives the square no frequency; %s (a period of %d allowed rise times) is used",
+				catalog.Format(f, catalog.Hertz), squarePeriodRises))
+		}
+		b.Input = sim.Input{Shape: sim.Square, Peak: sp.Peak, Freq: f, Offset: sp.Ref}
+	default:
+		return b, fmt.Errorf("stage %q: signal shape %q has no waveform preview, want sine or square", sp.Name, sp.Shape)
+	}
+	return b, nil
 }

@@ -6,7 +6,10 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(relaxationTemplate{}) }
 
 // relaxationTemplate is the op-amp relaxation oscillator (astable
 // multivibrator): timing R from the output to the inverting input, timing C
@@ -45,8 +48,8 @@ import (
 //	                + max(VOH − ref, ref − VOL)/load_r
 //
 // The ideal frequency is in the slew requirement's formula; a candidate's
-// predicted frequency with its own swing, slew and GBW is PredictedFrequency,
-// reported beside its gbw check (Aside "predicted_freq"). Each of slew and
+// predicted frequency with its own swing, slew and GBW (astable.predicted)
+// is reported beside its gbw check (Aside "predicted_freq"). Each of slew and
 // gbw may use the whole freq_error; a part near both limits runs up to
 // about twice that slow, which the predicted frequency shows.
 type relaxationTemplate struct{}
@@ -139,6 +142,8 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	sp.Freq = 1 / period
 	sp.Vo = math.Max(a.voh-a.ref, a.ref-a.vol)
 	sp.LoadR = a.loadR
+	sp.Ref = a.ref
+	sp.Values = map[string]float64{"r": a.r, "c": a.c, "r1": a.r1, "r2": a.r2}
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	W := tmplOperand
 	s := func(x float64) string { return catalog.Format(x, catalog.Second) }
@@ -186,29 +191,18 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	return sp, nil
 }
 
-// PredictedFrequency returns the frequency a relaxation stage runs at on a
-// part with worst-case figures f: the output moves between the part's own
-// swing (at the stage's load, on the plan's nominal rails, no further than
-// the levels the stage states), limited by the part's worst-case slew rate
-// and, when the catalog gives it, its worst-case GBW, with the single-pole
-// model of circuit.AstablePeriodLimited (without a GBW figure, the ramp
-// model circuit.AstablePeriodSlewLimited). It is an optimistic prediction
-// (saturation recovery and the rounding near the rails slow a real part
-// further). ok is false when sp is not a relaxation stage, the part's slew
-// or swing is unknown, or the part cannot complete a full swing before the
-// capacitor reaches the next threshold.
-func PredictedFrequency(p *Plan, sp *StagePlan, f *PartFigures) (freq float64, ok bool) {
-	if sp == nil || sp.Stage == nil || sp.Kind != "relaxation" {
-		return 0, false
-	}
-	a, err := readAstable(NewStageInput(sp.Stage, relaxationTemplate{}), p)
-	if err != nil {
-		return 0, false
-	}
-	return a.predicted(p, f)
-}
-
-// predicted is PredictedFrequency for the stage's circuit values a.
+// predicted returns the frequency a relaxation stage with circuit values a
+// runs at on a part with worst-case figures f: the output moves between the
+// part's own swing (at the stage's load, on the plan's nominal rails, no
+// further than the levels the stage states), limited by the part's
+// worst-case slew rate and, when the catalog gives it, its worst-case GBW,
+// with the single-pole model of circuit.AstablePeriodLimited (without a GBW
+// figure, the ramp model circuit.AstablePeriodSlewLimited). It is an
+// optimistic prediction (saturation recovery and the rounding near the
+// rails slow a real part further). ok is false when the part's slew or
+// swing is unknown, or the part cannot complete a full swing before the
+// capacitor reaches the next threshold. The gbw check shows it beside the
+// part (Aside "predicted_freq").
 func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
 	if !f.Slew.Known || !(f.Slew.V > 0) {
 		return 0, false
@@ -229,4 +223,18 @@ func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
 		return 0, false
 	}
 	return 1 / t, true
+}
+
+// circuit is the free-running astable with the stage's timing network and
+// divider; the model's output swings between the part's own limits.
+func (relaxationTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	v, err := sp.values("r", "c", "r1", "r2")
+	if err != nil {
+		return StageCircuit{}, err
+	}
+	return StageCircuit{
+		Circuit: sim.Relaxation{R: v[0], C: v[1], R1: v[2], R2: v[3], Ref: sp.Ref},
+		InTrace: "capacitor",
+		Notes:   []string{"free-running: the output swings between the part's own limits; \"in\" is the capacitor voltage"},
+	}, nil
 }

@@ -163,7 +163,7 @@ func TestAstableSlewTradeFact(t *testing.T) {
 				t.Errorf("slew check pass = %v (need %s), want %v", c.Pass, catalog.Format(c.Required, catalog.VoltPerSecond), tt.slewPass)
 			}
 			f := filter.Figures(part, p)
-			pred, ok := filter.PredictedFrequency(p, &p.Stages[0], &f)
+			pred, ok := filter.PredictedFrequency(&p.Stages[0], part, &f)
 			if !ok {
 				t.Fatal("no predicted frequency")
 			}
@@ -192,7 +192,7 @@ func TestPredictedFrequencyUsesSwing(t *testing.T) {
 	part.Slew = catalog.Spec{Min: catalog.Some(1e12)} // effectively instant
 	part.GBW = catalog.Spec{Min: catalog.Some(1e15)}
 	f := filter.Figures(part, p)
-	got, ok := filter.PredictedFrequency(p, &p.Stages[0], &f)
+	got, ok := filter.PredictedFrequency(&p.Stages[0], part, &f)
 	if !ok {
 		t.Fatal("no predicted frequency")
 	}
@@ -203,14 +203,14 @@ func TestPredictedFrequencyUsesSwing(t *testing.T) {
 	t.Run("unknown slew gives no prediction", func(t *testing.T) {
 		part.Slew = catalog.Spec{}
 		f := filter.Figures(part, p)
-		if _, ok := filter.PredictedFrequency(p, &p.Stages[0], &f); ok {
+		if _, ok := filter.PredictedFrequency(&p.Stages[0], part, &f); ok {
 			t.Error("prediction without a slew figure")
 		}
 	})
 	t.Run("not a relaxation stage", func(t *testing.T) {
 		q := tmplPlan(t, rails12, comparatorStage)
 		f := filter.Figures(tmplPart("x"), q)
-		if _, ok := filter.PredictedFrequency(q, &q.Stages[0], &f); ok {
+		if _, ok := filter.PredictedFrequency(&q.Stages[0], tmplPart("x"), &f); ok {
 			t.Error("prediction for a comparator")
 		}
 	})

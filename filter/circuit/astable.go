@@ -76,39 +76,6 @@ func AstablePeriod(r, c, ref, beta, vol, voh float64) (float64, error) {
 	return th + tl, err
 }
 
-// AstableFrequency returns 1/AstablePeriod.
-func AstableFrequency(r, c, ref, beta, vol, voh float64) (float64, error) {
-	t, err := AstablePeriod(r, c, ref, beta, vol, voh)
-	if err != nil {
-		return 0, err
-	}
-	return 1 / t, nil
-}
-
-// AstableDuty returns the share of the ideal period the output is high,
-// t_high/(t_high + t_low); 0.5 when the levels sit symmetric about ref.
-func AstableDuty(r, c, ref, beta, vol, voh float64) (float64, error) {
-	th, tl, err := astableTimes(r, c, ref, beta, vol, voh)
-	if err != nil {
-		return 0, err
-	}
-	return th / (th + tl), nil
-}
-
-// AstablePeriodSymmetric returns the ideal period when the output levels sit
-// symmetric about the reference, T = 2RC·ln((1 + β)/(1 − β)) (Sedra & Smith,
-// from memory); it does not depend on the swing. It wants 0 < β < 1.
-func AstablePeriodSymmetric(r, c, beta float64) (float64, error) {
-	const fn = "astable symmetric period"
-	if err := checkRC(fn, r, c); err != nil {
-		return 0, err
-	}
-	if !(beta > 0 && beta < 1) {
-		return 0, domainErr(fn, "beta", beta, "0 < beta < 1")
-	}
-	return 2 * r * c * math.Log((1+beta)/(1-beta)), nil
-}
-
 // AstableVdiff returns the largest differential input voltage of the
 // astable in ideal operation, VTH − VTL = β·(VOH − VOL): at each switching
 // instant the capacitor sits at one threshold while the non-inverting input

@@ -42,19 +42,11 @@ func ClosedLoopBandwidth(gbw, ng float64) float64 {
 	return gbw / ng
 }
 
-// GainErrorAt returns the magnitude error of the closed-loop gain at
-// frequency f for a single-pole op-amp of gain-bandwidth gbw in a loop of
-// noise gain ng: ε = 1 − 1/√(1 + (NG·f/GBW)²), from A_cl = A_ideal/(1 + j·NG·f/GBW)
-// (single-pole loop; Sedra & Smith, from memory).
-func GainErrorAt(gbw, ng, f float64) float64 {
-	x := ng * f / gbw
-	return 1 - 1/math.Sqrt(1+x*x)
-}
-
 // GBWForGainError returns the gain-bandwidth that keeps the closed-loop gain
 // magnitude error at frequency f within eps (0 < ε < 1) in a loop of noise
-// gain ng: GBW = NG·f/√(1/(1−ε)² − 1), the inverse of GainErrorAt
-// (≈ 7.02·NG·f at 1 %; DESIGN.md).
+// gain ng: GBW = NG·f/√(1/(1−ε)² − 1) (≈ 7.02·NG·f at 1 %; DESIGN.md), the
+// inverse of the single-pole loop's error ε = 1 − 1/√(1 + (NG·f/GBW)²) from
+// A_cl = A_ideal/(1 + j·NG·f/GBW) (Sedra & Smith, from memory).
 func GBWForGainError(ng, f, eps float64) (float64, error) {
 	if !(eps > 0 && eps < 1) {
 		return 0, domainErr("gbw for gain error", "eps", eps, "0 < eps < 1")

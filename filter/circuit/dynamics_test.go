@@ -73,7 +73,7 @@ func TestGBWForGainError(t *testing.T) {
 			mustOK(t, err)
 			assertRel(t, "gbw", gbw, tt.want, 1e-5)
 			// The inverse must give the error back.
-			assertRel(t, "round trip", GainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
+			assertRel(t, "round trip", gainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
 		})
 	}
 	for _, eps := range []float64{0, 1, -0.01, 1.5, math.NaN()} {
@@ -92,7 +92,7 @@ func TestGainErrorAtMatchesComplexGain(t *testing.T) {
 	a := complex(0, -gbw/f) // GBW/(j·f)
 	acl := a / (1 + a/complex(ng, 0))
 	want := 1 - cmplxAbs(acl)/ng
-	assertRel(t, "gain error", GainErrorAt(gbw, ng, f), want, 1e-9)
+	assertRel(t, "gain error", gainErrorAt(gbw, ng, f), want, 1e-9)
 }
 
 func TestAolForGainError(t *testing.T) {
