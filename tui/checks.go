@@ -17,6 +17,8 @@ type checksPane struct {
 	u      *ui
 	offset int    // first body line on screen
 	partID string // the part the offset belongs to; another part starts at the top
+
+	hr *headroomState // the selected part's headroom, lent read-only
 }
 
 // checkColumns are the checks pane's columns.
@@ -145,7 +147,7 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			out = append(out, fit(row(cols, widths, cells), w))
 		}
 	}
-	return out
+	return append(out, p.headroomLines(r, w)...)
 }
 
 // groupLine heads one stage's checks with its own pass/fail verdict.
@@ -191,6 +193,8 @@ func (m *Model) detailView(w, h int) []string {
 		return m.checks.draw(m.list.selected(m.rank.results), focused, w, h)
 	case detailPreview:
 		return m.prev.draw(&m.rank, m.previewParts(), focused, w, h)
+	case detailCompare:
+		return m.cmp.draw(focused, w, h)
 	}
 	return blank(w, h)
 }

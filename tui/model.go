@@ -74,7 +74,10 @@ type Model struct {
 	prompt prompt
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
+	cmp    comparePane // compare detail (compare_view.go)
 	help   help.Model
+
+	hr headroomState // the selected part's headroom, searched lazily (headroom.go)
 
 	message string // last message for the status line
 	msgErr  bool   // message is an error
@@ -126,7 +129,7 @@ func New(cfg Config) *Model {
 	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
 	m.help = newHelp(u)
 	m.form = newForm(u)
-	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
+	m.list, m.checks, m.prev, m.cmp = list{u: u}, checksPane{u: u, hr: &m.hr}, previewPane{u: u}, comparePane{u: u}
 	m.design = cfg.Design.Clone()
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
@@ -163,6 +166,9 @@ func (m *Model) Close() error {
 // Update handles one message, then settles the panes for the next View.
 func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	cmd := m.route(msg)
+	if hc := m.requestHeadroom(); hc != nil {
+		cmd = tea.Batch(cmd, hc)
+	}
 	m.settle()
 	return m, cmd
 }
@@ -186,6 +192,9 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		return m.followPreview(nil)
 	case previewMsg:
 		m.prev.adopt(msg)
+		return nil
+	case headroomMsg:
+		m.adoptHeadroom(msg)
 		return nil
 	case writtenMsg:
 		m.adoptWritten(msg)

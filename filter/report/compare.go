@@ -143,6 +143,27 @@ func compareLines(t *compare.Table) [][]markCell {
 	return out
 }
 
+// CompareCells returns the comparison as the terminal table shows it: the
+// header (the part ids, after an empty label cell) and one line per row —
+// the pass, worst-margin and binding head, then the figure and check rows
+// in order — each a label and one cell per part, the best marked with
+// BestMark. The selector's compare view draws these, so it shows the same
+// numbers as opsift compare.
+func CompareCells(t *compare.Table) (head []string, lines [][]string) {
+	head = append([]string{""}, compareIDs(t)...)
+	for _, l := range compareLines(t) {
+		line := make([]string, len(l))
+		for i, c := range l {
+			line[i] = c.plain()
+		}
+		lines = append(lines, line)
+	}
+	return head, lines
+}
+
+// CompareLegend is the line that explains the mark and the basis letters.
+func CompareLegend() string { return compareLegend }
+
 // rowLabel is a row's first cell: "check gain/slew", "slew rate".
 func rowLabel(r *compare.Row) string {
 	if r.Kind == compare.Check {
@@ -176,14 +197,9 @@ func compareIDs(t *compare.Table) []string {
 
 func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 	t := doc.Table
-	lines := [][]string{append([]string{"compare: " + oneLine(t.Plan.Title)}, compareIDs(t)...)}
-	for _, l := range compareLines(t) {
-		line := make([]string, len(l))
-		for i, c := range l {
-			line[i] = c.plain()
-		}
-		lines = append(lines, line)
-	}
+	head, rows := CompareCells(t)
+	head[0] = "compare: " + oneLine(t.Plan.Title)
+	lines := append([][]string{head}, rows...)
 	widths := make([]int, len(lines[0]))
 	for _, l := range lines[1:] {
 		for i, c := range l {
@@ -235,16 +251,16 @@ func writeCompareMarkdown(w io.Writer, doc *CompareDoc) error {
 // writeCompareSection writes the comparison as a Markdown section whose
 // heading is at level h ("#", "##"), for opsift compare and for the
 // selector's shortlist document.
-func writeCompareSection(b *bytes.Buffer, t *compare.Table, h string) {
+func writeCompareSection(b io.Writer, t *compare.Table, h string) {
 	fmt.Fprintf(b, "%s Compared: %s\n\n", h, mdText(oneLine(t.Plan.Title)))
 	ids := compareIDs(t)
-	b.WriteString("| Row |")
+	io.WriteString(b, "| Row |")
 	for _, id := range ids {
 		fmt.Fprintf(b, " `%s` |", id)
 	}
-	b.WriteString("\n|---|" + strings.Repeat("---:|", len(ids)) + "\n")
+	io.WriteString(b, "\n|---|"+strings.Repeat("---:|", len(ids))+"\n")
 	for _, l := range compareLines(t) {
-		b.WriteString("|")
+		io.WriteString(b, "|")
 		for _, c := range l {
 			if c.best {
 				fmt.Fprintf(b, " **%s** %s |", mdText(c.text), BestMark)
@@ -252,7 +268,7 @@ func writeCompareSection(b *bytes.Buffer, t *compare.Table, h string) {
 			}
 			fmt.Fprintf(b, " %s |", mdText(c.text))
 		}
-		b.WriteByte('\n')
+		io.WriteString(b, "\n")
 	}
 	fmt.Fprintf(b, "\n%s\n", mdText(compareLegend))
 }
