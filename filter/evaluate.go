@@ -146,9 +146,9 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 // stageFMax is the highest sine frequency at the stage's output amplitude
 // at which slew and gbw still pass: the inverses of the two requirement
 // formulas, circuit.FullPowerBandwidth (of SlewForSine) and
-// circuit.MaxFreqForGainError (of GBWForGainError).
+// circuit.MaxFreqForGainError (of GainErrorBudget's gbw).
 func stageFMax(sp *StagePlan, f *PartFigures) float64 {
-	if sp.Shape != "sine" || sp.Vo <= 0 || sp.NoiseGain <= 0 || !f.Slew.Known || !f.GBW.Known {
+	if !sp.HasFMax() || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
 	fg, err := circuit.MaxFreqForGainError(f.GBW.V, sp.NoiseGain, sp.GainError)

@@ -154,7 +154,7 @@ type Rails struct {
 	PosWorst, NegWorst float64 // each rail moved toward the other by tolerance × its magnitude (RailsInward)
 	Tol                float64 // tolerance, fraction
 	Span               float64 // nominal span Pos − Neg
-	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)
+	SpanMin, SpanMax   float64 // PosWorst − NegWorst (rails inward) … the span with both rails outward (RailsOutward)
 }
 
 // StagePlan is what a template derived for one stage: the circuit
@@ -189,6 +189,24 @@ type StagePlan struct {
 	Texts map[string]string
 	// Requirements of this stage, in derivation order.
 	Requirements []Requirement
+}
+
+// HasFMax reports whether fmax applies to the stage: an amplifier with a
+// sine signal, a noise gain and a gain error. Other stages (square signals,
+// filters, oscillators, comparators) have no fmax whatever the part.
+func (s *StagePlan) HasFMax() bool {
+	return s.Shape == "sine" && s.Vo > 0 && s.NoiseGain > 0 && s.GainError > 0 && s.GainError < 1
+}
+
+// HasFMax reports whether fmax applies to any stage of the plan; when not,
+// a part's fmax is "not applicable" rather than unknown.
+func (p *Plan) HasFMax() bool {
+	for i := range p.Stages {
+		if p.Stages[i].HasFMax() {
+			return true
+		}
+	}
+	return false
 }
 
 // Plan is a design with its requirements derived: the input to Evaluate.

@@ -178,13 +178,13 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		Hz := catalog.Format(f, catalog.Hertz)
 		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForSine(f, vo), Dim: catalog.VoltPerSecond,
 			Why: fmt.Sprintf("2π·f·Vo = 2π·%s·%s", Hz, V(vo))})
-		gbw, err := circuit.GBWForGainError(ng, f, eps)
+		gbw, _, _, err := circuit.GainErrorBudget(ng, f, eps)
 		if err != nil {
 			return sp, fmt.Errorf("field \"gain_error\": %w", err)
 		}
 		k := gbw / (ng * f)
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-			Why: fmt.Sprintf("NG·f/√(1/(1−ε)²−1) = %s·%s·%.3g (ε = %s)",
+			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) = %s·%s·%.3g (ε = %s, ε/4 of it left to the aol floor)",
 				catalog.Format(ng, catalog.Dimensionless), Hz, k, catalog.Format(eps, catalog.Ratio))})
 	case "square":
 		rise, err := in.Need("signal.rise")
@@ -202,13 +202,20 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: circuit.GBWForRise(ng, rise), Dim: catalog.Hertz,
 			Why: fmt.Sprintf("NG·0.35/rise = %s·0.35/%s", catalog.Format(ng, catalog.Dimensionless), s)})
 	}
-	_, aolDB, err := circuit.AolForGainError(ng, eps)
+	// A sine's gain error is shared with gbw at f (GainErrorBudget); a
+	// square's settled level is a DC gain, and its gbw rule (rise) does not
+	// draw on ε, so the aol floor has all of it there.
+	epsDC, aolWhy := circuit.AolShare*eps, "20·log10(NG·(1−ε/4)/(ε/4)) = 20·log10(%s·(1 − %s)/%s): ε/4 of ε = %s at DC, from NG/(1 + NG/Aol) = NG·(1 − ε/4); gbw takes the rest"
+	if sp.Shape == "square" {
+		epsDC, aolWhy = eps, "20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s): all of ε = %s on the settled level, from NG/(1 + NG/Aol) = NG·(1 − ε); gbw here follows the rise time"
+	}
+	_, aolDB, err := circuit.AolForGainError(ng, epsDC)
 	if err != nil {
 		return sp, fmt.Errorf("field \"gain_error\": %w", err)
 	}
 	add(Requirement{Key: KeyAol, Bound: BoundMin, Value: aolDB, Dim: catalog.Decibel,
-		Why: fmt.Sprintf("20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s), from NG/(1 + NG/Aol) = NG·(1 − ε)",
-			catalog.Format(ng, catalog.Dimensionless), catalog.Format(eps, catalog.Ratio), catalog.Format(eps, catalog.Ratio))})
+		Why: fmt.Sprintf(aolWhy, catalog.Format(ng, catalog.Dimensionless), catalog.Format(epsDC, catalog.Ratio),
+			catalog.Format(epsDC, catalog.Ratio), catalog.Format(eps, catalog.Ratio))})
 
 	// Drive: the load and the feedback network, both at the output peak.
 	if sp.LoadR > 0 || a.feedbackR > 0 {

@@ -23,8 +23,8 @@ func init() { register(relaxationTemplate{}) }
 //	ref         V     reference the capacitor and R1 return to [mid of the nominal rails]
 //	out_low     V     output low level assumed, VOL [the nominal V− rail]
 //	out_high    V     output high level assumed, VOH [the nominal V+ rail]
-//	freq_error  ratio allowed frequency error: the share of the period the two
-//	                  output transitions may take [5 %]
+//	freq_error  ratio allowed frequency error ε below the ideal: f ≥ (1 − ε)·f0,
+//	                  so the period may grow to T/(1 − ε) [5 %]
 //	load_r      Ω     load from the output to ref [none]
 //
 // Ideal timing (Sedra & Smith, astable multivibrator; from memory), with
@@ -38,9 +38,10 @@ func init() { register(relaxationTemplate{}) }
 //
 //	input_range     VTL … VTH (both inputs move between the thresholds)
 //	output_range    out_low … out_high, only when the stage states the levels
-//	slew            2·(VOH − VOL)/(freq_error·T): both transitions within the allowed share
+//	slew            2·(VOH − VOL)/(T·ε/(1 − ε)): both transitions within the period's
+//	                allowed growth (circuit.PeriodStretch)
 //	gbw             the GBW at which a single-pole op-amp with unlimited slew rate runs
-//	                freq_error slow (circuit.GBWForAstable): after each switch the output
+//	                at (1 − ε)·f0 (circuit.GBWForAstable): after each switch the output
 //	                leaves its level as e^(2π·GBW·β·t), several time constants
 //	                1/(2π·GBW·β) of regeneration before it moves far
 //	vdiff           β·(VOH − VOL): the step at each switching instant
@@ -75,7 +76,7 @@ func (relaxationTemplate) Params() []Param {
 		{Key: "out_high", Label: "output high level", Kind: Quantity, Dim: catalog.Volt,
 			Help: "output high level VOH assumed for the ideal frequency; default: the nominal V+ rail"},
 		{Key: "freq_error", Label: "allowed frequency error", Kind: Quantity, Dim: catalog.Ratio, Default: "5 %",
-			Help: "share of the period the two output transitions may take"},
+			Help: "allowed frequency error below the ideal: f ≥ (1 − ε)·f0"},
 		{Key: "load_r", Label: "load resistance", Kind: Quantity, Dim: catalog.Ohm,
 			Help: "resistive load at the output, to ref"},
 	}
@@ -161,9 +162,10 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	if !a.levelsGiven {
 		levels = "the rails"
 	}
-	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForAstable(a.vol, a.voh, period, a.share), Dim: catalog.VoltPerSecond,
-		Why: fmt.Sprintf("2·(VOH − VOL)/(ε·T) = 2·(%s − %s)/(%s·%s); ideal T = t_high + t_low = %s + %s, f = %s (levels: %s)",
-			W(a.voh), W(a.vol), catalog.Format(a.share, catalog.Ratio), s(period), s(th), s(tl),
+	stretch := circuit.PeriodStretch(a.share)
+	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForAstable(a.vol, a.voh, period, stretch), Dim: catalog.VoltPerSecond,
+		Why: fmt.Sprintf("2·(VOH − VOL)/(T·ε/(1 − ε)) = 2·(%s − %s)/(%s·%s), f ≥ (1 − ε)·f0 with ε = %s; ideal T = t_high + t_low = %s + %s, f0 = %s (levels: %s)",
+			W(a.voh), W(a.vol), s(period), catalog.Format(stretch, catalog.Ratio), catalog.Format(a.share, catalog.Ratio), s(th), s(tl),
 			catalog.Format(sp.Freq, catalog.Hertz), levels)})
 	gbw, err := circuit.GBWForAstable(a.r, a.c, a.ref, beta, a.vol, a.voh, a.share)
 	if err != nil {
@@ -176,7 +178,7 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			}
 			return Aside{}
 		},
-		Why: fmt.Sprintf("period ≤ (1 + ε)·T on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
+		Why: fmt.Sprintf("f ≥ (1 − ε)·f0, period ≤ T/(1 − ε) on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
 			catalog.Format(a.share, catalog.Ratio), b, s(circuit.RegenerationTimeConstant(gbw, beta)), catalog.Format(sp.Freq, catalog.Hertz))})
 	add(Requirement{Key: KeyVdiff, Bound: BoundMin, Value: circuit.AstableVdiff(beta, a.vol, a.voh), Dim: catalog.Volt, Measure: measureVdiff,
 		Why: fmt.Sprintf("β·(VOH − VOL) = %s·(%s − %s), the step at each switching instant", b, W(a.voh), W(a.vol))})

@@ -97,7 +97,8 @@ func AstableOutputCurrent(r, r1, r2, ref, vol, voh float64) float64 {
 
 // SlewForAstable returns the slew rate at which the two full-swing output
 // transitions of one cycle, each (VOH − VOL)/SR long, take no more than
-// share (0…1) of the period: SR = 2·(VOH − VOL)/(share·period).
+// share (> 0) of the period: SR = 2·(VOH − VOL)/(share·period). For a
+// frequency error ε the share is PeriodStretch(ε) = ε/(1 − ε).
 //
 // The frequency actually lost is smaller than share: the capacitor moves
 // toward the new level while the output ramps, so in the symmetric case the
@@ -105,6 +106,14 @@ func AstableOutputCurrent(r, r1, r2, ref, vol, voh float64) float64 {
 // see AstablePeriodSlewLimited). The bound is conservative.
 func SlewForAstable(vol, voh, period, share float64) float64 {
 	return 2 * (voh - vol) / (share * period)
+}
+
+// PeriodStretch returns the share of the ideal period an oscillator may add
+// while its frequency stays within the error ferr (0 < ε < 1) below the
+// ideal: f ≥ (1 − ε)·f0 ⇔ T ≤ T0/(1 − ε) = T0·(1 + ε/(1 − ε)), so the share
+// is ε/(1 − ε) (5 %: 5.263 %, not 5 %, which would allow only −4.76 %).
+func PeriodStretch(ferr float64) float64 {
+	return ferr / (1 - ferr)
 }
 
 func astableTimes(r, c, ref, beta, vol, voh float64) (th, tl float64, err error) {

@@ -84,3 +84,14 @@ func astablePeriodSymmetric(r, c, beta float64) (float64, error) {
 	}
 	return 2 * r * c * math.Log((1+beta)/(1-beta)), nil
 }
+
+// gainErrorSinglePole returns the magnitude error of the closed-loop gain
+// at frequency f for a single-pole op-amp A(jf) = Aol/(1 + j·f·Aol/GBW) in a
+// loop of noise gain ng: |A_cl| = NG/|1 + NG/A|, with
+// |1 + NG/A|² = (1 + NG/Aol)² + (NG·f/GBW)² (loop-gain relation A_cl =
+// A/(1 + A/NG), Sedra & Smith, from memory), so
+// ε = 1 − 1/√((1 + NG/Aol)² + (NG·f/GBW)²). aol = +Inf gives gainErrorAt.
+func gainErrorSinglePole(gbw, aol, ng, f float64) float64 {
+	d, x := 1+ng/aol, ng*f/gbw
+	return 1 - 1/math.Sqrt(d*d+x*x)
+}

@@ -63,9 +63,10 @@ func stageChecks(r *filter.Result, stage string) map[filter.Key]*filter.Check {
 	return out
 }
 
-// freqLimits: a sine's slew need 2π·f·Vo and gbw need NG·f/√(1/(1−ε)²−1)
-// are linear in f; their inverses are the full-power bandwidth SR/(2π·Vo)
-// and circuit.MaxFreqForGainError (the two halves of filter's fmax).
+// freqLimits: a sine's slew need 2π·f·Vo and its gbw need (circuit's
+// GainErrorBudget) are linear in f; their inverses are the full-power
+// bandwidth SR/(2π·Vo) and f·available/required (the two halves of
+// filter's fmax).
 func freqLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter.Key]float64 {
 	out := map[filter.Key]float64{}
 	if sp.Shape != "sine" {
@@ -74,10 +75,8 @@ func freqLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter
 	if s := c[filter.KeySlew]; s != nil && sp.Vo > 0 {
 		out[filter.KeySlew] = circuit.FullPowerBandwidth(s.Available, sp.Vo)
 	}
-	if g := c[filter.KeyGBW]; g != nil {
-		if f, err := circuit.MaxFreqForGainError(g.Available, sp.NoiseGain, sp.GainError); err == nil {
-			out[filter.KeyGBW] = f
-		}
+	if g := c[filter.KeyGBW]; g != nil && g.Required > 0 && sp.Freq > 0 {
+		out[filter.KeyGBW] = sp.Freq * g.Available / g.Required
 	}
 	return out
 }
@@ -127,9 +126,7 @@ func windowLimit(w *filter.Check, x float64) (float64, bool) {
 }
 
 // gainLimits: noise gain NG = G + (NG − G) (non-inverting: NG = G;
-// inverting: NG = 1 + G). gbw: a sine needs NG·f/√(1/(1−ε)²−1), so
-// NG ≤ GBW/GBWForGainError(1, f, ε); a square NG·0.35/rise. aol:
-// NG·(1−ε)/ε ≤ Aol (V/V). Slew, swing and drive are linear in G as in
+// inverting: NG = 1 + G). The gbw and aol floors are proportional to NG. Slew, swing and drive are linear in G as in
 // peakLimits; the DC error NG·(Vos + Ib·Rs) is linear in NG.
 func gainLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter.Key]float64 {
 	out := map[filter.Key]float64{}
@@ -138,20 +135,16 @@ func gainLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter
 		return out
 	}
 	off := sp.NoiseGain - g
-	if x := c[filter.KeyGBW]; x != nil {
-		switch sp.Shape {
-		case "sine":
-			if g1, err := circuit.GBWForGainError(1, sp.Freq, sp.GainError); err == nil {
-				out[filter.KeyGBW] = x.Available/g1 - off
-			}
-		case "square":
-			out[filter.KeyGBW] = x.Available/circuit.GBWForRise(1, sp.Rise) - off
-		}
+	// Both the gbw and the aol floors are proportional to NG at a fixed
+	// signal and budget (NG·f/√(1/(1−ε)² − 1/(1−ε/4)²), NG·0.35/rise,
+	// NG·(1−ε′)/ε′: circuit.GainErrorBudget, GBWForRise, AolForGainError),
+	// so the check's own ratio available/required scales NG; nothing of the
+	// budget split is repeated here.
+	if x := c[filter.KeyGBW]; x != nil && x.Required > 0 && (sp.Shape == "sine" || sp.Shape == "square") {
+		out[filter.KeyGBW] = sp.NoiseGain*x.Available/x.Required - off
 	}
-	if x := c[filter.KeyAol]; x != nil {
-		if a1, _, err := circuit.AolForGainError(1, sp.GainError); err == nil {
-			out[filter.KeyAol] = circuit.FromDB(x.Available)/a1 - off
-		}
+	if x := c[filter.KeyAol]; x != nil && x.Required > 0 {
+		out[filter.KeyAol] = sp.NoiseGain*circuit.FromDB(x.Available)/circuit.FromDB(x.Required) - off
 	}
 	if s := c[filter.KeySlew]; s != nil && sp.Peak > 0 {
 		switch sp.Shape {

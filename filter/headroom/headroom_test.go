@@ -24,7 +24,7 @@ supply = { min = "5 V", max = "36 V" }
 input_cm = { low = "1 V", high = "-1 V" }
 output = { low = "1.5 V", high = "-1.5 V" }
 gbw = { typ = "12 MHz", min = "10 MHz" }
-slew = { typ = "0.5 V/us", min = "0.4 V/us" }
+slew = { typ = "0.45 V/us", min = "0.35 V/us" }
 aol = { typ = "110 dB", min = "100 dB" }
 iout = { typ = "30 mA", min = "20 mA" }
 
@@ -89,15 +89,17 @@ func find(ls []Limit, stage, in string, dir Direction) (Limit, bool) {
 //   - slew-limited full-power bandwidth f = SR/(2π·Vo) (Sedra & Smith,
 //     "Microelectronic Circuits", slew rate and full-power bandwidth; from
 //     memory), and its rearrangement for the peak, Vp = SR/(2π·f·G);
-//   - the single-pole closed loop |A| = G/√(1 + (NG·f/GBW)²) (Sedra & Smith,
-//     from memory) held to 1 − ε: f = GBW·√(1/(1−ε)² − 1)/NG and
-//     NG = GBW·√(1/(1−ε)² − 1)/f; √(1/0.99² − 1) = 0.142492;
+//   - the single-pole closed loop |A| = NG/√((1 + NG/Aol)² + (NG·f/GBW)²)
+//     (Sedra & Smith, from memory) held to 1 − ε, with the aol floor taking
+//     ε/4 at DC (README, gain error), so 1 + NG/Aol = 1/(1 − ε/4):
+//     f = GBW·k/NG and NG = GBW·k/f, k = √(1/(1−ε)² − 1/(1−ε/4)²) = 0.123634
+//     at 1 %;
 //   - swing: G·Vp ≤ V+ − 1.5 V (the part's stated headroom);
 //   - rails: V+ − 1.5 V ≥ G·Vp and V+ − V− ≤ 36 V (arithmetic);
 //   - temperature: the rated range's end (the hard check).
 func TestHandCases(t *testing.T) {
 	d, plan := decodeDesign(t, "hand.toml", []byte(handDesign))
-	k := math.Sqrt(1/(0.99*0.99) - 1) // 0.142492
+	k := math.Sqrt(1/(0.99*0.99) - 1/(0.9975*0.9975)) // 0.123634
 	cases := []struct {
 		part, input string
 		dir         Direction
@@ -106,17 +108,17 @@ func TestHandCases(t *testing.T) {
 		method      Method
 		tol         float64
 	}{
-		// 0.4 V/µs / (2π·0.5 V) = 127.324 kHz (Vo = 10 × 50 mV), under gbw's 142.492 kHz.
-		{"hand-slow", "signal.freq", Up, 0.4e6 / (2 * math.Pi * 0.5), filter.KeySlew, ClosedForm, 1e-9},
-		// 10 MHz × 0.142492 / 10 = 142.492 kHz.
+		// 0.35 V/µs / (2π·0.5 V) = 127.324 kHz (Vo = 10 × 50 mV), under gbw's 123.634 kHz.
+		{"hand-slow", "signal.freq", Up, 0.35e6 / (2 * math.Pi * 0.5), filter.KeySlew, ClosedForm, 1e-9},
+		// 10 MHz × 0.123634 / 10 = 123.634 kHz.
 		{"hand-fast", "signal.freq", Up, 10e6 * k / 10, filter.KeyGBW, ClosedForm, 1e-9},
-		// 0.4 V/µs / (2π·10 kHz·10) = 0.636620 V, under the swing's 1.35 V.
-		{"hand-slow", "signal.peak", Up, 0.4e6 / (2 * math.Pi * 10e3 * 10), filter.KeySlew, ClosedForm, 1e-9},
+		// 0.35 V/µs / (2π·10 kHz·10) = 0.636620 V, under the swing's 1.35 V.
+		{"hand-slow", "signal.peak", Up, 0.35e6 / (2 * math.Pi * 10e3 * 10), filter.KeySlew, ClosedForm, 1e-9},
 		// (15 V − 1.5 V)/10 = 1.35 V.
 		{"hand-fast", "signal.peak", Up, 1.35, filter.KeyOutputRange, ClosedForm, 1e-9},
-		// 0.4 V/µs / (2π·10 kHz·50 mV) = 127.324, under gbw's 142.492.
-		{"hand-slow", "gain", Up, 0.4e6 / (2 * math.Pi * 10e3 * 0.05), filter.KeySlew, ClosedForm, 1e-9},
-		// 10 MHz × 0.142492 / 10 kHz = 142.492 (NG = G).
+		// 0.35 V/µs / (2π·10 kHz·50 mV) = 127.324, under gbw's 123.634.
+		{"hand-slow", "gain", Up, 0.35e6 / (2 * math.Pi * 10e3 * 0.05), filter.KeySlew, ClosedForm, 1e-9},
+		// 10 MHz × 0.123634 / 10 kHz = 123.634 (NG = G).
 		{"hand-fast", "gain", Up, 10e6 * k / 10e3, filter.KeyGBW, ClosedForm, 1e-9},
 		// swing: V+ − 1.5 V ≥ 10 × 50 mV → V+ ≥ 2 V (before the inputs,
 		// V+ − 1 V ≥ 50 mV, and the 5 V minimum span, V+ ≥ −10 V).

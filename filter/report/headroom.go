@@ -79,8 +79,12 @@ type jsonHeadroom struct {
 func jsonHeadrooms(ls []headroom.Limit) []jsonHeadroom {
 	out := make([]jsonHeadroom, 0, len(ls))
 	for _, l := range ls {
+		unit := l.Dim.Unit()
+		if l.Dim == catalog.Ratio {
+			unit = "" // held and written as a fraction, like every JSON figure
+		}
 		out = append(out, jsonHeadroom{Stage: stagePtr(l.Stage), Input: l.Input, Direction: l.Dir.String(),
-			Value: num(l.Value), Limit: num(l.Limit), Unit: l.Dim.Unit(),
+			Value: num(l.Value), Limit: num(l.Limit), Unit: unit,
 			Breaks: jsonBinding{Stage: stagePtr(l.Breaks.Stage), Key: string(l.Breaks.Key)}, Method: l.Method.String()})
 	}
 	return out

@@ -68,7 +68,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 		}
 		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
 			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
-			quantity(r.MinFMax(), catalog.Hertz), r.Unknown)
+			fmaxText(doc.Plan, r), r.Unknown)
 	}
 	if doc.Compare != nil {
 		b.WriteByte('\n')
@@ -150,10 +150,11 @@ func webLink(s string) bool {
 // policy, filters and stages.
 func summaryLines(p *filter.Plan) []string {
 	r := p.Rails
+	posOut, negOut := filter.RailsOutward(r.Pos, r.Neg, r.Tol)
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	out := []string{
-		fmt.Sprintf("Supply: V+ %s, V− %s, tolerance %s: span %s … %s; rails at worst case %s / %s",
-			V(r.Pos), V(r.Neg), catalog.Format(r.Tol, catalog.Ratio), V(r.SpanMin), V(r.SpanMax), V(r.PosWorst), V(r.NegWorst)),
+		fmt.Sprintf("Supply: V+ %s, V− %s, tolerance %s: span %s … %s; rails at worst case %s / %s (inward), %s / %s (outward)",
+			V(r.Pos), V(r.Neg), catalog.Format(r.Tol, catalog.Ratio), V(r.SpanMin), V(r.SpanMax), V(r.PosWorst), V(r.NegWorst), V(posOut), V(negOut)),
 		fmt.Sprintf("Ambient: %s … %s", catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius)),
 		fmt.Sprintf("Policy: typical figures × %s (bigger is better) or × %s (smaller is better)",
 			catalog.Format(p.DerateTyp, catalog.Dimensionless), catalog.Format(p.InflateTyp, catalog.Dimensionless)),

@@ -263,6 +263,18 @@ func cost(v float64) string {
 	return fmt.Sprintf("%.2f", v)
 }
 
+// fmaxText is a candidate's smallest stage fmax: "—" when no stage of the
+// plan has one (not applicable), "?" when a figure it needs is unknown.
+func fmaxText(p *filter.Plan, r *filter.Result) string {
+	if !p.HasFMax() {
+		return notApplicable
+	}
+	return quantity(r.MinFMax(), catalog.Hertz)
+}
+
+// notApplicable marks a figure that does not apply to the design.
+const notApplicable = "—"
+
 // quantity renders an SI value, "?" when unknown (NaN).
 func quantity(v float64, d catalog.Dim) string {
 	if math.IsNaN(v) {
