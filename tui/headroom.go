@@ -1,6 +1,9 @@
 package tui
 
 import (
+	"sync/atomic"
+	"time"
+
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/catalog"
@@ -45,8 +48,26 @@ func (m *Model) requestHeadroom() tea.Cmd {
 	}
 	*h = headroomState{plan: m.rank.resPlan, partID: r.Part.ID}
 	plan, part, strict := m.rank.resPlan, r.Part, m.rank.strict
-	return func() tea.Msg { return findHeadroom(plan, part, strict) }
+	gen := m.hrGen
+	mine := gen.Add(1)
+	return func() tea.Msg {
+		// While the user types or moves, newer requests overtake this
+		// one: wait a moment and search only if none came.
+		time.Sleep(headroomDelay)
+		if gen.Load() != mine {
+			return nil
+		}
+		return findHeadroom(plan, part, strict)
+	}
 }
+
+// headroomDelay is how long a headroom request waits for a newer one
+// before it searches, so a burst of keys or cursor moves costs one search.
+const headroomDelay = 80 * time.Millisecond
+
+// newHeadroomGen is the request counter the waiting jobs read: the only
+// state a job shares with the model, and atomic.
+func newHeadroomGen() *atomic.Uint64 { return new(atomic.Uint64) }
 
 // findHeadroom is the job: every input of the design, for one part.
 func findHeadroom(plan *filter.Plan, part *catalog.Part, strict bool) headroomMsg {

@@ -17,8 +17,9 @@ import (
 // TestHeadroomLazy: the checks pane's headroom is searched in a tea.Cmd
 // for the selected part only, shown as "searching…" until it arrives,
 // equal to what filter/headroom finds, not searched again while the part
-// and plan stay, searched anew for another part, and a result for a part
-// no longer selected is dropped.
+// and plan stay, searched anew for another part, a result for a part no
+// longer selected is dropped, and a request overtaken within
+// headroomDelay searches nothing.
 func TestHeadroomLazy(t *testing.T) {
 	m := newDemo(t, 120, 40)
 	r := m.list.selected(m.rank.results)
@@ -59,6 +60,20 @@ func TestHeadroomLazy(t *testing.T) {
 	run(t, m, cmd)
 	if !m.hr.ready || m.hr.partID != next.Part.ID {
 		t.Errorf("headroom of %s not adopted: %+v", next.Part.ID, m.hr)
+	}
+
+	// Two moves in a burst: the first request, overtaken, searches nothing.
+	_, first := m.Update(keyMsg("up"))
+	_, second := m.Update(keyMsg("down"))
+	if first == nil || second == nil {
+		t.Fatal("a move started no headroom request")
+	}
+	if msg := first(); msg != nil {
+		t.Errorf("an overtaken request searched: %T", msg)
+	}
+	run(t, m, second)
+	if !m.hr.ready || m.hr.partID != next.Part.ID {
+		t.Errorf("the newest request was not adopted: %+v", m.hr)
 	}
 }
 

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"sync/atomic"
 
 	"github.com/charmbracelet/bubbles/help"
 	tea "github.com/charmbracelet/bubbletea"
@@ -77,7 +78,8 @@ type Model struct {
 	cmp    comparePane // compare detail (compare_view.go)
 	help   help.Model
 
-	hr headroomState // the selected part's headroom, searched lazily (headroom.go)
+	hr    headroomState  // the selected part's headroom, searched lazily (headroom.go)
+	hrGen *atomic.Uint64 // numbers headroom requests; a waiting job searches only if still the newest
 
 	message string // last message for the status line
 	msgErr  bool   // message is an error
@@ -126,7 +128,8 @@ func New(cfg Config) *Model {
 		cfg.Getenv = func(string) string { return "" }
 	}
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
-	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
+	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict},
+		hrGen: newHeadroomGen()}
 	m.help = newHelp(u)
 	m.form = newForm(u)
 	m.list, m.checks, m.prev, m.cmp = list{u: u}, checksPane{u: u, hr: &m.hr}, previewPane{u: u}, comparePane{u: u}
