@@ -18,8 +18,7 @@ last column of every row), json (SI units), md (a shortlist for design
 review), toml (the ranked parts as a catalog file). json and md give each
 passing candidate's headroom: for every design input, moved alone, the
 value at which the part fails and the requirement that breaks there.
-Sort keys: margin
-(default), cost, supply_current, fmax, id. -o writes atomically: a
+Sort keys: margin (default), cost, supply_current, fmax, id. -o writes atomically: a
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
 
