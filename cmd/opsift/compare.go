@@ -74,7 +74,7 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return usageError("compare: %w", err)
 	}
-	doc := &report.CompareDoc{Table: t, Sources: cat.Sources,
+	doc := &report.CompareDoc{Table: t, Sources: cat.Sources, Width: e.columns(report.DefaultWidth),
 		Meta: report.CompareMeta{Version: version, Generated: time.Now().UTC().Format(time.RFC3339), File: f.design}}
 	var buf bytes.Buffer
 	if err := report.WriteCompare(&buf, report.Format(f.format), doc); err != nil {

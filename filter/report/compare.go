@@ -20,6 +20,9 @@ import (
 type CompareDoc struct {
 	Table   *compare.Table
 	Sources []string // catalog source names
+	// Width is the terminal width the table fits its label column to
+	// (0: as wide as the labels); the part columns are never cut.
+	Width int
 	// Meta is the block every JSON output opens with.
 	Meta CompareMeta
 }
@@ -32,6 +35,9 @@ type CompareMeta struct {
 	File      string // the design file, "" for the embedded demo design
 	Modified  bool   // the design was edited since it was read
 }
+
+// compareLabelMin is the narrowest the table's label column gets.
+const compareLabelMin = 16
 
 // BestMark follows the best value of a row in every compare format but
 // CSV and JSON (which carry a best column or flag): a character, so the
@@ -210,8 +216,24 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 	for i := 1; i < len(widths); i++ {
 		widths[i] = max(widths[i], runeLen(lines[0][i]))
 	}
+	if doc.Width > 0 {
+		// Narrow the label column (down to compareLabelMin) before the
+		// table runs past the terminal; the values stay whole.
+		rest := 2 * (len(widths) - 1)
+		for _, x := range widths[1:] {
+			rest += x
+		}
+		widths[0] = max(min(widths[0], doc.Width-rest), compareLabelMin)
+		for _, l := range lines[1:] {
+			l[0] = clip(l[0], widths[0])
+		}
+	}
 	b := bufio.NewWriter(w)
-	fmt.Fprintf(b, "%s\n\n", lines[0][0])
+	title := lines[0][0]
+	if doc.Width > 0 {
+		title = clip(title, doc.Width)
+	}
+	fmt.Fprintf(b, "%s\n\n", title)
 	lines[0][0] = ""
 	for li, l := range lines {
 		for i, c := range l {
@@ -235,8 +257,12 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 		}
 	}
 	b.WriteByte('\n')
-	wrap(b, compareLegend, 100)
-	wrap(b, "Caution: "+Caution, 100)
+	textW := DefaultWidth
+	if doc.Width > 0 {
+		textW = min(textW, doc.Width)
+	}
+	wrap(b, compareLegend, textW)
+	wrap(b, "Caution: "+Caution, textW)
 	return b.Flush()
 }
 
