@@ -79,7 +79,7 @@ func (c *comparePane) draw(focused bool, w, h int) []string {
 		return fit(b.String(), w)
 	}
 	out = append(out, st.Header.Render(render(head)))
-	out = append(out, fit(st.Muted.Render("◆ best · (g) guaranteed · (t) typical × policy · (r) read off a graph"), w))
+	out = append(out, fit(st.Muted.Render(report.CompareKey), w))
 	for i := c.offset; i < len(lines) && len(out) < h; i++ {
 		out = append(out, render(lines[i]))
 	}
@@ -119,16 +119,15 @@ func (m *Model) cmpTable(res []filter.Result) *compare.Table {
 	return t
 }
 
-// narrowCell shortens a cell that does not fit w cells by dropping its
-// basis letter first, so the best mark stays visible.
+// narrowCell shortens a cell that does not fit w cells so that the best
+// mark at its end stays visible: the value is cut, the mark kept.
 func narrowCell(cell string, w int) string {
 	if len([]rune(cell)) <= w {
 		return cell
 	}
-	if i := strings.LastIndex(cell, " ("); i >= 0 {
-		if j := strings.Index(cell[i:], ")"); j > 0 {
-			return cell[:i] + cell[i+j+1:]
-		}
+	mark := " " + report.BestMark
+	if v, ok := strings.CutSuffix(cell, mark); ok && w > len([]rune(mark)) {
+		return fit(v, w-len([]rune(mark))) + mark
 	}
 	return cell
 }

@@ -136,3 +136,23 @@ func TestCompareView(t *testing.T) {
 		t.Errorf("md export lacks the compare section:\n%s", b)
 	}
 }
+
+// TestNarrowCell: a cell too wide for its column loses value text, never
+// its best mark.
+func TestNarrowCell(t *testing.T) {
+	cases := []struct {
+		cell string
+		w    int
+		want string
+	}{
+		{"4.09 MHz ◆", 12, "4.09 MHz ◆"},
+		{"1.6 fA/√Hz ~ ◆", 10, "1.6 fA/… ◆"},
+		{"1.6 fA/√Hz ~", 10, "1.6 fA/√Hz ~"}, // no mark: left to the column's own clipping
+	}
+	for _, c := range cases {
+		got := strings.TrimRight(narrowCell(c.cell, c.w), " ")
+		if got != c.want {
+			t.Errorf("narrowCell(%q, %d) = %q, want %q", c.cell, c.w, got, c.want)
+		}
+	}
+}

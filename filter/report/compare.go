@@ -90,6 +90,10 @@ func (c markCell) plain() string {
 	return c.text
 }
 
+// CompareKey is the one-line key of the compare view's marks, for a pane
+// too narrow for the whole legend.
+const CompareKey = BestMark + " best · unmarked guaranteed · ~ typical × policy · g read off a graph · — not given"
+
 // compareSummary is the head of every compare format: passes, worst
 // margin (best marked) and binding check per part.
 func compareSummary(t *compare.Table) [][]markCell {
