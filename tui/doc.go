@@ -22,6 +22,11 @@
 //	      ─► headroomState ─► the checks pane's headroom section
 //	= with 2–6 marked ─► comparePane (filter/compare, built in settle)
 //
+//	edit ─► undo stack, edits against the saved design ─► header "modified"
+//	w ─► filter.UpdateDesignText(saved text, design) ─► report.WriteFile ─► new saved base
+//	design file changed (fsnotify, debounced) ─► no edits: taken │ edits: ask reload / keep mine
+//	q ─► no edits: quit │ edits: ask save / discard / cancel (keep.go)
+//
 // The root Model holds routing (the mode with the keyboard, the focused
 // pane, the detail shown), the state the panes share — the design in
 // force, the catalog (catalogState), the ranking (ranking: plan, results,
@@ -34,7 +39,7 @@
 // offsets kept in range, inputs sized), so View is a pure function of the
 // model. File writes (export, save) run as tea.Cmds whose result comes
 // back as a writtenMsg. Each mode (browse, edit, find, prompt, help,
-// replace) has its own update function; the right-hand detail area
+// replace, ask) has its own update function; the right-hand detail area
 // switches on a detail kind: the checks pane, the waveform preview or the
 // compare view.
 // Styles come from a Theme of ANSI colours 0–15 and a lipgloss renderer

@@ -2,7 +2,7 @@ package tui
 
 import "github.com/charmbracelet/bubbles/key"
 
-// KeyMap is every key the selector answers to. It feeds bubbles/help: the
+// KeyMap is every key the selector answers to. It feeds the key help: the
 // short line at the bottom and the full overlay behind "?".
 type KeyMap struct {
 	Up, Down       key.Binding
@@ -23,6 +23,7 @@ type KeyMap struct {
 	Shortlist      key.Binding // show only the shortlist
 	Export         key.Binding
 	Save           key.Binding // save the design
+	Undo           key.Binding // take back the last edit of the design
 	Reload         key.Binding
 	Open           key.Binding // open the part in $EDITOR
 	Replace        key.Binding // replacement mode for the selected part
@@ -62,6 +63,7 @@ func DefaultKeyMap() KeyMap {
 		Shortlist: b([]string{"l"}, "l", "shortlist"),
 		Export:    b([]string{"x"}, "x", "export"),
 		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Undo:      b([]string{"u"}, "u", "undo edit"),
 		Reload:    b([]string{"r"}, "r", "reload catalog"),
 		Open:      b([]string{"o"}, "o", "edit part file"),
 		Replace:   b([]string{"R"}, "R", "replace"),
@@ -86,7 +88,7 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
-		{k.Mark, k.Shortlist, k.Export, k.Save, k.Reload, k.Open, k.Help, k.Quit},
+		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.Help, k.Quit},
 		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Versus},
 	}
 }

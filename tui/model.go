@@ -1,13 +1,13 @@
 package tui
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
 	"sync/atomic"
 
-	"github.com/charmbracelet/bubbles/help"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
@@ -21,8 +21,14 @@ type Config struct {
 	// Design is the design to edit; the selector edits a clone of it.
 	Design *filter.Design
 	// DesignFile is the file Design was read from, "" for the embedded demo.
-	// It is the default path when saving.
+	// It is the default path when saving, and watched for changes.
 	DesignFile string
+	// DesignText is the text Design was decoded from: a save edits it in
+	// place, keeping the user's comments and layout. Nil: the design's
+	// encoding (filter.EncodeDesign) is the base.
+	DesignText []byte
+	// Version is the program version exports record.
+	Version string
 	// Catalog is the loaded catalog; CatalogErr the problems loading it
 	// reported (parts with problems are left out), shown on the status line.
 	Catalog    *catalog.Catalog
@@ -76,7 +82,8 @@ type Model struct {
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
 	cmp    comparePane // compare detail (compare_view.go)
-	help   help.Model
+
+	helpPage int // the help overlay's page
 
 	hr    headroomState  // the selected part's headroom, searched lazily (headroom.go)
 	hrGen *atomic.Uint64 // numbers headroom requests; a waiting job searches only if still the newest
@@ -90,6 +97,16 @@ type Model struct {
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
 	quitting           bool
+
+	// Keeping the user's work (keep.go).
+	saved         savedState // the design as on disk: base of saves and of edits
+	edits         []string   // inputs edited since saved, in form order
+	undo          []undoStep // newest last
+	ask           ask        // the open question (modeAsk)
+	quitAfterSave bool       // the save was asked for at q
+	lastDir       string     // directory of the last file written
+	designWatch   *watcher   // follows the design file
+	designSeq     int        // debounce of design file changes
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -99,10 +116,12 @@ type ranking struct {
 	plan    *filter.Plan    // derived from the design in force; nil when it cannot be
 	resPlan *filter.Plan    // the plan results were ranked with
 	results []filter.Result // in rank order; checks filled in for drawn rows by settle
-	nPass   int             // passing results
-	gen     uint64          // generation of the newest rankJob
-	running bool            // a rankJob is running
-	strict  bool            // unknown checks fail
+	// warnings about the design and its filters, from the ranking's plan.
+	warnings []filter.Warning
+	nPass    int    // passing results
+	gen      uint64 // generation of the newest rankJob
+	running  bool   // a rankJob is running
+	strict   bool   // unknown checks fail
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
@@ -130,10 +149,16 @@ func New(cfg Config) *Model {
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
 	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict},
 		hrGen: newHeadroomGen()}
-	m.help = newHelp(u)
 	m.form = newForm(u)
 	m.list, m.checks, m.prev, m.cmp = list{u: u}, checksPane{u: u, hr: &m.hr}, previewPane{u: u}, comparePane{u: u}
 	m.design = cfg.Design.Clone()
+	m.saved = savedState{path: cfg.DesignFile, text: cfg.DesignText, design: cfg.Design.Clone()}
+	if m.saved.text == nil {
+		var b bytes.Buffer
+		if err := filter.EncodeDesign(&b, cfg.Design); err == nil {
+			m.saved.text = b.Bytes()
+		}
+	}
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
@@ -155,11 +180,17 @@ func (m *Model) Init() tea.Cmd {
 	if m.watcher != nil {
 		cmds = append(cmds, waitForChange(m.watcher))
 	}
+	if m.cfg.Watch {
+		cmds = append(cmds, m.watchDesign())
+	}
 	return tea.Batch(cmds...)
 }
 
-// Close releases the file watcher. Call it after the program ends.
+// Close releases the file watchers. Call it after the program ends.
 func (m *Model) Close() error {
+	if m.designWatch != nil {
+		_ = m.designWatch.Close()
+	}
 	if m.watcher != nil {
 		return m.watcher.Close()
 	}
@@ -183,7 +214,6 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.ui.width, m.ui.height = msg.Width, msg.Height
-		m.help.Width = msg.Width - 1 // the help line starts with a space
 		m.list.scrollTo(m.listRows())
 		return nil
 	case tea.KeyMsg:
@@ -200,8 +230,10 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		m.adoptHeadroom(msg)
 		return nil
 	case writtenMsg:
-		m.adoptWritten(msg)
-		return nil
+		return m.adoptWritten(msg)
+	}
+	if cmd, ok := m.updateDesignJobs(msg); ok {
+		return cmd
 	}
 	return m.updateJobs(msg)
 }
@@ -219,6 +251,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateHelp(k)
 	case modeReplace:
 		return m.updateReplace(k)
+	case modeAsk:
+		return m.updateAsk(k)
 	}
 	return m.updateBrowse(k)
 }
@@ -227,7 +261,7 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 func (m *Model) rerank() tea.Cmd {
 	m.rank.gen++
 	if m.rank.plan == nil || m.cat.Catalog == nil {
-		m.rank.results, m.rank.resPlan, m.rank.running = nil, nil, false
+		m.rank.results, m.rank.resPlan, m.rank.running, m.rank.warnings = nil, nil, false, nil
 		m.applyNarrowing()
 		return nil
 	}
@@ -243,7 +277,7 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		return // stale: an edit came after this job started
 	}
 	m.rank.running = false
-	m.rank.results, m.rank.resPlan = r.results, r.plan
+	m.rank.results, m.rank.resPlan, m.rank.warnings = r.results, r.plan, r.warnings
 	m.rank.nPass = 0
 	for i := range m.rank.results {
 		if m.rank.results[i].Pass {
@@ -290,20 +324,4 @@ func firstProblem(err error) error {
 		return p
 	}
 	return err
-}
-
-// newHelp builds the key-help line with the selector's styles.
-func newHelp(u *ui) help.Model {
-	h := help.New()
-	h.Width = u.width - 1 // the help line starts with a space
-	h.Styles = help.Styles{
-		Ellipsis:       u.st.HelpSep,
-		ShortKey:       u.st.HelpKey,
-		ShortDesc:      u.st.HelpDesc,
-		ShortSeparator: u.st.HelpSep,
-		FullKey:        u.st.HelpKey,
-		FullDesc:       u.st.HelpDesc,
-		FullSeparator:  u.st.HelpSep,
-	}
-	return h
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"strings"
-	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
@@ -58,7 +57,7 @@ func runCompare(e *env, args []string) error {
 	if !replaceOneOf(f.format, compareFormats) {
 		return usageError("compare: --format %q: want one of %s", f.format, strings.Join(compareFormats, ", "))
 	}
-	_, plan, err := deriveDesign(f.design)
+	d, plan, err := deriveDesign(f.design)
 	if err != nil {
 		return inputError(err)
 	}
@@ -75,7 +74,8 @@ func runCompare(e *env, args []string) error {
 		return usageError("compare: %w", err)
 	}
 	doc := &report.CompareDoc{Table: t, Sources: cat.Sources, Width: e.columns(report.DefaultWidth),
-		Meta: report.CompareMeta{Version: version, Generated: time.Now().UTC().Format(time.RFC3339), File: f.design}}
+		Meta: meta(e, f.design, d, cat, f.strict)}
+	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	var buf bytes.Buffer
 	if err := report.WriteCompare(&buf, report.Format(f.format), doc); err != nil {
 		return err

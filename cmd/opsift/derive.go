@@ -34,16 +34,30 @@ func runDerive(e *env, args []string) error {
 	if format != "text" && format != "json" {
 		return usageError("derive: --format %q: want text or json", format)
 	}
-	_, plan, err := deriveDesign(design)
+	d, plan, err := deriveDesign(design)
 	if err != nil {
 		return inputError(err)
 	}
-	return report.WriteDerive(e.stdout, format, plan)
+	return report.WriteDerive(e.stdout, format, plan, meta(e, design, d, nil, false))
 }
 
 // deriveDesign reads, decodes and derives the design at path, or the
 // embedded demo design when path is "".
 func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
+	d, _, err := readDesign(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := filter.Derive(d)
+	if err != nil {
+		return nil, nil, err
+	}
+	return d, p, nil
+}
+
+// readDesign reads and decodes the design at path ("" for the embedded
+// demo) and returns it with the text it was decoded from.
+func readDesign(path string) (*filter.Design, []byte, error) {
 	var (
 		b    []byte
 		err  error
@@ -62,9 +76,5 @@ func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	p, err := filter.Derive(d)
-	if err != nil {
-		return nil, nil, err
-	}
-	return d, p, nil
+	return d, b, nil
 }

@@ -5,6 +5,7 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"time"
 )
 
 // env is what a command may touch of the outside world. Tests build one
@@ -17,6 +18,8 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// now is the clock outputs are dated with; tests fix it.
+	now func() time.Time
 }
 
 // newEnv returns the process's real environment.
@@ -27,6 +30,7 @@ func newEnv() *env {
 		stderr: os.Stderr,
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
+		now:    time.Now,
 	}
 }
 

@@ -13,6 +13,7 @@ import (
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/preview"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 	"github.com/opsift/opsift/filter/sim"
 	"github.com/opsift/opsift/tui/plot"
 )
@@ -114,7 +115,7 @@ func runPreview(e *env, args []string) error {
 	}
 	var buf bytes.Buffer
 	if f.format == "json" {
-		err = writePreviewJSON(&buf, design, res)
+		err = writePreviewJSON(&buf, res, report.NewJSONMeta(meta(e, f.design, design, cat, false), plan))
 	} else {
 		err = writePreviewText(&buf, design, res, f.width, f.height)
 	}
@@ -164,10 +165,10 @@ type previewMetricsJSON struct {
 
 // previewJSON is opsift preview's JSON output (SI units).
 type previewJSON struct {
+	report.JSONMeta
 	Part    string             `json:"part"`
 	Stage   string             `json:"stage"`
 	Kind    string             `json:"kind"`
-	Design  string             `json:"design"`
 	Basis   string             `json:"basis"`
 	Caution string             `json:"caution"`
 	Metrics previewMetricsJSON `json:"metrics"`
@@ -179,10 +180,10 @@ type previewJSON struct {
 	Notes   []string           `json:"notes"`
 }
 
-func writePreviewJSON(w io.Writer, d *filter.Design, r *preview.Result) error {
+func writePreviewJSON(w io.Writer, r *preview.Result, meta report.JSONMeta) error {
 	m, wf := r.Metrics, r.Waveform
-	out := previewJSON{
-		Part: r.Part.ID, Stage: r.Stage, Kind: r.Kind, Design: d.Name, Basis: string(r.Basis), Caution: caution,
+	out := previewJSON{JSONMeta: meta,
+		Part: r.Part.ID, Stage: r.Stage, Kind: r.Kind, Basis: string(r.Basis), Caution: caution,
 		Metrics: previewMetricsJSON{OutputPP: m.OutputPP, IdealPP: m.IdealPP, PeakError: m.PeakError, THD: m.THD,
 			SlewingFraction: m.SlewingFraction, Frequency: m.Frequency, IdealFrequency: m.IdealFrequency,
 			Duty: m.Duty, TransitionTime: m.TransitionTime},

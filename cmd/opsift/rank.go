@@ -67,7 +67,7 @@ func runRank(e *env, args []string) error {
 	if f.top < 0 {
 		return usageError("rank: --top %d: want 0 (all) or a positive count", f.top)
 	}
-	_, plan, err := deriveDesign(f.design)
+	d, plan, err := deriveDesign(f.design)
 	if err != nil {
 		return inputError(err)
 	}
@@ -78,7 +78,8 @@ func runRank(e *env, args []string) error {
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead,
-		Sources: cat.Sources, Width: e.columns(report.DefaultWidth)}
+		Sources: cat.Sources, Width: e.columns(report.DefaultWidth), Meta: meta(e, f.design, d, cat, f.strict)}
+	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {

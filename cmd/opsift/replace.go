@@ -11,6 +11,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // replaceFormats are the output formats of opsift replace.
@@ -79,8 +80,8 @@ func runReplace(e *env, args []string) error {
 	}
 	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
 	var design *filter.Design
+	var plan *filter.Plan
 	if f.design != "" {
-		var plan *filter.Plan
 		design, plan, err = deriveDesign(f.design)
 		if err != nil {
 			return inputError(err)
@@ -89,6 +90,10 @@ func runReplace(e *env, args []string) error {
 	}
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
+	v.plan, v.meta = plan, meta(e, f.design, design, cat, f.strict)
+	if plan != nil {
+		v.meta.Warnings = filter.FilterWarnings(plan, parts)
+	}
 	if design != nil {
 		v.designTitle, v.designFile = design.Title, f.design
 	}
@@ -107,7 +112,7 @@ func runReplace(e *env, args []string) error {
 func replaceParseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var pos []string
 	for {
-		if err := fs.Parse(args); err != nil {
+		if err := parseQuiet(fs, args); err != nil {
 			return nil, err
 		}
 		rest := fs.Args()
@@ -140,6 +145,8 @@ type replaceView struct {
 	failHidden  int // candidates failing the design, not listed
 	designTitle string
 	designFile  string
+	plan        *filter.Plan // the design evaluated; nil without --design
+	meta        *report.Meta
 	color       bool
 }
 

@@ -15,12 +15,12 @@ import (
 // Hz, V/s, F, V/√Hz, A/√Hz, V/K), temperatures °C, open-loop gain dB; a
 // figure a part does not give is null.
 type replaceJSON struct {
-	Original        replacePartJSON       `json:"original"`
-	Design          *replaceDesignRefJSON `json:"design,omitempty"`
-	Candidates      []replaceCandJSON     `json:"candidates"`
-	ObsoleteLeftOut int                   `json:"obsolete_left_out"`
-	FailingLeftOut  int                   `json:"failing_left_out,omitempty"`
-	Caution         string                `json:"caution"`
+	report.JSONMeta
+	Original        replacePartJSON   `json:"original"`
+	Candidates      []replaceCandJSON `json:"candidates"`
+	ObsoleteLeftOut int               `json:"obsolete_left_out"`
+	FailingLeftOut  int               `json:"failing_left_out,omitempty"`
+	Caution         string            `json:"caution"`
 }
 
 type replacePartJSON struct {
@@ -30,11 +30,6 @@ type replacePartJSON struct {
 	Pinout    string   `json:"pinout"`
 	Packages  []string `json:"packages"`
 	Channels  int      `json:"channels"`
-}
-
-type replaceDesignRefJSON struct {
-	Title string `json:"title"`
-	File  string `json:"file"`
 }
 
 type replaceCandJSON struct {
@@ -95,9 +90,7 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 		FailingLeftOut:  v.failHidden,
 		Caution:         caution,
 	}
-	if v.res.Designed {
-		doc.Design = &replaceDesignRefJSON{Title: v.designTitle, File: v.designFile}
-	}
+	doc.JSONMeta = report.NewJSONMeta(v.meta, v.plan)
 	for _, c := range v.list {
 		doc.Candidates = append(doc.Candidates, replaceCandidateJSON(c))
 	}

@@ -13,6 +13,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/listing"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // ListDoc is what `opsift list` writes: every part of the catalog with
@@ -93,7 +94,7 @@ func ListCell(c listing.Column, v listing.Cell) string {
 	}
 	switch c.Key {
 	case "margin":
-		return Margin(v.V)
+		return present.Margin(v.V)
 	case "channels":
 		return fmt.Sprintf("%.0f", v.V)
 	case "unit_cost":
@@ -171,9 +172,9 @@ func writeListTable(w io.Writer, doc *ListDoc) error {
 	}
 	widths := make([]int, len(heads))
 	for j, h := range heads {
-		widths[j] = runeLen(h)
+		widths[j] = present.Width(h)
 		for _, row := range rows {
-			widths[j] = max(widths[j], runeLen(row[j]))
+			widths[j] = max(widths[j], present.Width(row[j]))
 		}
 	}
 	if doc.Width > 0 {
@@ -201,8 +202,8 @@ func writeCells(b *bufio.Writer, cells []string, widths []int, right []bool) {
 		if i > 0 {
 			line.WriteString("  ")
 		}
-		c = clip(c, widths[i])
-		pad := strings.Repeat(" ", widths[i]-runeLen(c))
+		c = present.Clip(c, widths[i])
+		pad := strings.Repeat(" ", widths[i]-present.Width(c))
 		if right[i] {
 			line.WriteString(pad + c)
 		} else {
