@@ -8,7 +8,7 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--bom]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--headroom N] [--bom]
                   [--no-cache] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
@@ -39,6 +39,7 @@ type rankFlags struct {
 	sort     string
 	strict   bool
 	noHead   bool
+	headTop  int
 	output   outputFlags
 }
 
@@ -53,6 +54,7 @@ func runRank(e *env, args []string) error {
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	fset.BoolVar(&f.noHead, "no-headroom", false, "leave each candidate's headroom out of json and md (faster on a long list)")
+	fset.IntVar(&f.headTop, "headroom", defaultHeadroomTop, "search headroom for the first N passing candidates in json and md (0: all; the rest carry null)")
 	f.output.register(fset)
 	f.output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
@@ -82,7 +84,7 @@ func runRank(e *env, args []string) error {
 	}
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
-	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead,
+	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead, HeadroomTop: f.headTop,
 		Sources: cat.Sources, Width: e.tableWidth(f.output.out != ""), Meta: meta(e, f.design, d, cat, f.strict)}
 	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
@@ -96,3 +98,8 @@ func runRank(e *env, args []string) error {
 	}
 	return f.output.emit(e, data)
 }
+
+// defaultHeadroomTop is how many passing candidates rank searches for
+// headroom unless told: each search evaluates the part a few hundred
+// times, so a 100k-part catalog's full list would take minutes.
+const defaultHeadroomTop = 50

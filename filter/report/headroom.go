@@ -20,12 +20,41 @@ func (d *Doc) Headroom(r *filter.Result) []headroom.Limit {
 	if ls, ok := d.headroom[r.Part]; ok {
 		return ls
 	}
+	if !d.headroomSearched(r) {
+		return nil
+	}
 	if d.headroom == nil {
 		d.headroom = map[*catalog.Part][]headroom.Limit{}
 	}
 	ls := headroom.Find(d.Plan.Design, d.Plan, r.Part, filter.Options{Strict: d.Strict})
 	d.headroom[r.Part] = ls
 	return ls
+}
+
+// headroomSearched reports whether a listed passing candidate is among
+// the first HeadroomTop passing ones (every one when HeadroomTop is 0).
+func (d *Doc) headroomSearched(r *filter.Result) bool {
+	if d.HeadroomTop <= 0 {
+		return true
+	}
+	if d.headroomTop == nil {
+		d.headroomTop = map[*filter.Result]bool{}
+		for _, l := range d.Listed() {
+			if len(d.headroomTop) == d.HeadroomTop {
+				break
+			}
+			if l.Pass {
+				d.headroomTop[l] = true
+			}
+		}
+	}
+	return d.headroomTop[r]
+}
+
+// HeadroomSearched reports whether the document searches r's headroom:
+// it passes, headroom is on, and r is within HeadroomTop.
+func (d *Doc) HeadroomSearched(r *filter.Result) bool {
+	return r.Pass && !d.NoHeadroom && d.Plan != nil && d.Plan.Design != nil && d.headroomSearched(r)
 }
 
 // prepareHeadroom computes the headroom of every listed candidate, the
@@ -36,7 +65,7 @@ func (d *Doc) prepareHeadroom() {
 	}
 	var todo []*filter.Result
 	for _, r := range d.Listed() {
-		if _, ok := d.headroom[r.Part]; r.Pass && !ok {
+		if _, ok := d.headroom[r.Part]; r.Pass && !ok && d.headroomSearched(r) {
 			todo = append(todo, r)
 		}
 	}

@@ -127,3 +127,54 @@ func TestCompareWidth(t *testing.T) {
 		}
 	}
 }
+
+// TestHeadroomTop: with HeadroomTop 1 only the first passing candidate is
+// searched; later passing ones carry null in JSON and a "not searched"
+// line in md, while failing ones keep their empty list.
+func TestHeadroomTop(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	doc := &report.Doc{Plan: p, Results: rs, All: true, HeadroomTop: 1}
+	var b bytes.Buffer
+	if err := report.WriteJSON(&b, doc); err != nil {
+		t.Fatal(err)
+	}
+	var out struct {
+		Candidates []struct {
+			ID       string            `json:"id"`
+			Pass     bool              `json:"pass"`
+			Headroom *[]map[string]any `json:"headroom"`
+		} `json:"candidates"`
+	}
+	if err := json.Unmarshal(b.Bytes(), &out); err != nil {
+		t.Fatal(err)
+	}
+	passing := 0
+	for _, c := range out.Candidates {
+		switch {
+		case !c.Pass:
+			if c.Headroom == nil || len(*c.Headroom) != 0 {
+				t.Errorf("%s (failing): headroom %v, want []", c.ID, c.Headroom)
+			}
+		case passing == 0:
+			if c.Headroom == nil || len(*c.Headroom) == 0 {
+				t.Errorf("%s (first passing): no headroom", c.ID)
+			}
+			passing++
+		default:
+			if c.Headroom != nil {
+				t.Errorf("%s (passing, beyond the first): headroom %v, want null", c.ID, *c.Headroom)
+			}
+			passing++
+		}
+	}
+	if passing < 2 {
+		t.Fatalf("fixture has %d passing candidates, want 2 or more", passing)
+	}
+	b.Reset()
+	if err := report.WriteMarkdown(&b, doc); err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(b.String(), "Headroom not searched"); n != passing-1 {
+		t.Errorf("md: %d \"not searched\" lines, want %d", n, passing-1)
+	}
+}

@@ -62,7 +62,8 @@ type jsonCandidate struct {
 	Unknown       int             `json:"unknown"`
 	Checks        []jsonCheck     `json:"checks"`
 	// Headroom is how far each design input can move before the part
-	// fails (passing candidates; empty for failing ones).
+	// fails (passing candidates; empty for failing ones; null for a
+	// passing one beyond --headroom N, not searched).
 	Headroom []jsonHeadroom `json:"headroom"`
 }
 
@@ -196,6 +197,9 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
 			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
 			Headroom: jsonHeadrooms(doc.Headroom(r))}
+		if r.Pass && !doc.NoHeadroom && !doc.HeadroomSearched(r) {
+			c.Headroom = nil
+		}
 		switch w := present.Worst(r); {
 		case w != nil:
 			c.Binding = &jsonBinding{Stage: stagePtr(w.Req.Stage), Key: string(w.Req.Key)}

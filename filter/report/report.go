@@ -76,11 +76,17 @@ type Doc struct {
 	// NoHeadroom leaves the candidates' headroom out of the json and md
 	// documents (a large shortlist searches every input of every part).
 	NoHeadroom bool
+	// HeadroomTop, when positive, searches headroom only for the first
+	// HeadroomTop passing candidates listed (the search evaluates every
+	// design input of a part dozens of times); the rest carry none.
+	HeadroomTop int
 	// Compare, when set, adds a side-by-side section of the listed parts
 	// to the md document (the selector's shortlist export).
 	Compare *compare.Table
 	// headroom holds each listed candidate's headroom once computed.
 	headroom map[*catalog.Part][]headroom.Limit
+	// headroomTop holds the candidates within HeadroomTop, once listed.
+	headroomTop map[*filter.Result]bool
 }
 
 // Listed returns the candidates the document lists: passing ones (all of
