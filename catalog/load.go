@@ -41,6 +41,9 @@ type Catalog struct {
 	Overrides int
 	// Invalid counts parts left out because they have a problem.
 	Invalid int
+	// SetAside lists the parts and files left out, each with its
+	// problems (the same problems Load returns as its error).
+	SetAside []SetAside
 	// Figures counts the datasheet figures (gbw, slew, …) the final parts
 	// give; TypicalOnly those known only as a typical value, FromGraph
 	// those read off a graph, Estimated those marked as estimates.
@@ -65,8 +68,11 @@ func (c *Catalog) ByID(id string) *Part {
 // Load reads every source in order and layers them: a later source
 // overrides an earlier one part by part, by id (noted in Notes), while a
 // duplicate id within one source is a problem. It always returns a
-// Catalog, holding the parts without problems; when any file cannot be
-// read or has a problem, the error is a Problems holding all of them.
+// Catalog, holding the parts without problems and, in SetAside, the parts
+// and files left out with their problems; when any file cannot be read or
+// has a problem, the error is a Problems holding all of them. Refusing
+// the catalog on any problem is the strict reading (check,
+// --strict-catalog); Partial says whether the valid parts may be used.
 func Load(srcs ...Layer) (*Catalog, error) {
 	c := &Catalog{byID: map[string]*Part{}}
 	var probs Problems
@@ -112,7 +118,8 @@ func Load(srcs ...Layer) (*Catalog, error) {
 		}
 	}
 	c.count()
-	return c, probs.asError()
+	c.SetAside = c.setAside(probs)
+	return c, probs.AsError()
 }
 
 // count fills the figure counts from the final parts.
@@ -157,7 +164,7 @@ func (s Layer) files() ([]string, error) {
 		}
 	}
 	if err != nil {
-		return nil, fmt.Errorf("cannot read catalog: %w", plainErr(err))
+		return nil, &SourceError{Err: plainErr(err)}
 	}
 	var names []string
 	for _, e := range entries {

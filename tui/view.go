@@ -93,6 +93,9 @@ func (m *Model) statusView(w int) string {
 		b.WriteString(" · ranking…")
 	}
 	left := st.Status.Render(b.String())
+	if banner := setAsideBanner(m.cat.Catalog); banner != "" {
+		left += st.Error.Render(" · " + banner)
+	}
 	if m.message != "" {
 		msg := st.Message.Render(m.message)
 		if m.msgErr {

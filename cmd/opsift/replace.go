@@ -17,7 +17,8 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [-o FILE [--force]]
+                      [--all] [--obsolete] [--over-temp] [--strict] [--strict-catalog]
+                      [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -26,7 +27,8 @@ original; "strict" means no figure the original gives is worse or missing.
 The csv format ends every row with the caution in a "caution" column.
 With --design, every candidate is also evaluated in the circuit at worst
 case and the passing ones are ranked by their smallest margin; regressions
-are then warnings.
+are then warnings. Parts with problems are set aside (listed on stderr)
+unless --strict-catalog refuses the catalog; exit status as for rank.
 
 Options:
 `
@@ -40,7 +42,9 @@ type replaceFlags struct {
 	obsolete bool
 	overTemp bool
 	strict   bool
-	output   outputFlags
+	// strictCatalog refuses the catalog on any problem.
+	strictCatalog bool
+	output        outputFlags
 }
 
 func runReplace(e *env, args []string) error {
@@ -53,6 +57,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.obsolete, "obsolete", false, "list obsolete parts as candidates too")
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
+	fs.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	f.output.register(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
@@ -68,14 +73,14 @@ func runReplace(e *env, args []string) error {
 		return usageError("replace: --format %q: want one of %s", f.format, strings.Join(replaceFormats, ", "))
 	}
 
-	cat, err := loadCatalog(e, f.catalogs)
+	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog)
 	if err != nil {
 		return err // already an input error (exit status 2)
 	}
 	parts := cat.Parts
-	orig, err := replace.Lookup(pos[0], parts)
+	orig, err := lookupPart(cat, pos[0])
 	if err != nil {
-		return usageError("replace: %w", err)
+		return withPrefix("replace", err)
 	}
 	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
 	var design *filter.Design

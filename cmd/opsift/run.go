@@ -74,7 +74,13 @@ Catalog sources: --catalog FILE|DIR (repeatable; later overrides earlier by id).
 Without --catalog: $XDG_CONFIG_HOME/opsift/catalog.d (else ~/.config/opsift/catalog.d)
 if it exists, else the embedded demo catalog. Without --design: the embedded demo design.
 
-Exit status: 0 success; 1 check found problems; 2 bad usage or an unreadable or invalid input file.
+Parts with problems are set aside with a warning and the rest is used;
+--strict-catalog (rank, replace, preview, selector) refuses the catalog instead.
+
+Exit status: 0 success (also with parts set aside); 1 check found problems;
+2 bad usage, an unreadable or invalid design, a catalog that cannot be read
+or has no valid part (with --strict-catalog: any catalog problem), or an
+output file that cannot be written.
 
 Caution: ` + caution + "\n")
 	return b.String()

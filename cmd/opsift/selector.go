@@ -13,13 +13,17 @@ import (
 	"github.com/opsift/opsift/tui"
 )
 
-const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict]
+const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--strict-catalog]
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
 Mark parts for a shortlist and export it (md, csv, json, toml); save the
 edited design; R finds replacements for a part, v shows its waveform.
 Press ? inside for every key.
+
+Parts with problems are set aside (the status line counts them; opsift
+check lists them) and the rest is ranked; --strict-catalog refuses the
+whole catalog instead, at start and on every reload.
 
 Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
 
@@ -32,11 +36,14 @@ func runSelector(e *env, args []string) error {
 		catalogs pathList
 		design   string
 		strict   bool
+		// strictCatalog refuses the catalog on any problem.
+		strictCatalog bool
 	)
 	fset := newFlagSet(e, "opsift", selectorUsage)
 	fset.Var(&catalogs, "catalog", catalogHelp)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.BoolVar(&strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -48,7 +55,7 @@ func runSelector(e *env, args []string) error {
 		return inputError(err)
 	}
 	layers := catalogLayers(e, catalogs)
-	cat, err := openCatalog(e, catalogs)
+	cat, err := openCatalog(e, catalogs, strictCatalog)
 	if err != nil {
 		return err
 	}
@@ -78,12 +85,16 @@ func runSelector(e *env, args []string) error {
 		Design:     d,
 		DesignFile: design,
 		Catalog:    cat,
-		Load:       func() (*catalog.Catalog, error) { return catalog.Load(layers...) },
-		OnDisk:     onDisk,
-		Watch:      true,
-		Strict:     strict,
-		Renderer:   r,
-		Getenv:     e.getenv,
+		CatalogErr: cat.Problems().AsError(),
+		Load: func() (*catalog.Catalog, error) {
+			c, err := catalog.Load(layers...)
+			return c, acceptCatalog(c, err, strictCatalog)
+		},
+		OnDisk:   onDisk,
+		Watch:    true,
+		Strict:   strict,
+		Renderer: r,
+		Getenv:   e.getenv,
 	})
 	defer m.Close()
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),

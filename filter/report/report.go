@@ -65,8 +65,11 @@ type Doc struct {
 	Strict  bool // unknown checks counted as failures
 	// Sources names the catalog sources, for the document's header.
 	Sources []string
-	Width   int  // table: terminal width in columns (0 = 100)
-	Color   bool // table: ANSI colour
+	// SetAside lists the catalog's parts and files left out for problems
+	// (catalog.Catalog.SetAside), listed by the json and md documents.
+	SetAside []catalog.SetAside
+	Width    int  // table: terminal width in columns (0 = 100)
+	Color    bool // table: ANSI colour
 }
 
 // Listed returns the candidates the document lists: passing ones (all of
