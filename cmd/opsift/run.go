@@ -23,6 +23,7 @@ func commands() []command {
 		{"replace", "find parts that can take a part's place", runReplace},
 		{"preview", "simulate a part in a design's stage and plot it", runPreview},
 		{"init", "write a starter catalog and design to edit", runInit},
+		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
 	}
 }
 
