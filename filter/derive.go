@@ -100,11 +100,18 @@ func (p *Plan) deriveSupply(d *Design) error {
 	}
 	r := Rails{Pos: s.Pos.V, Neg: neg, Tol: tol, Span: s.Pos.V - neg}
 	r.PosWorst, r.NegWorst = RailsInward(s.Pos.V, neg, tol)
-	r.SpanMin, r.SpanMax = r.Span*(1-tol), r.Span*(1+tol)
+	posOut, negOut := RailsOutward(s.Pos.V, neg, tol)
+	r.SpanMin, r.SpanMax = r.PosWorst-r.NegWorst, posOut-negOut
 	p.Rails = r
-	why := fmt.Sprintf("span %s × (1 ∓ %s) = %s … %s",
-		catalog.Format(r.Span, catalog.Volt), catalog.Format(tol, catalog.Ratio),
-		catalog.Format(r.SpanMin, catalog.Volt), catalog.Format(r.SpanMax, catalog.Volt))
+	V := func(x float64) string {
+		if x < 0 {
+			return "(" + catalog.Format(x, catalog.Volt) + ")"
+		}
+		return catalog.Format(x, catalog.Volt)
+	}
+	why := fmt.Sprintf("rails inward %s − %s = %s … outward %s − %s = %s (each rail ∓ %s of itself)",
+		V(r.PosWorst), V(r.NegWorst), V(r.SpanMin), V(posOut), V(negOut), V(r.SpanMax),
+		catalog.Format(tol, catalog.Ratio))
 	p.Global = append(p.Global, Requirement{Key: KeySupply, Bound: BoundRange, Low: r.SpanMin, High: r.SpanMax,
 		Dim: catalog.Volt, Unit: "V", Why: why})
 	return nil
@@ -197,4 +204,14 @@ const MaxUnitCost = 1e6
 // the headroom the check is meant to take away.
 func RailsInward(pos, neg, tol float64) (posWorst, negWorst float64) {
 	return pos - tol*math.Abs(pos), neg + tol*math.Abs(neg)
+}
+
+// RailsOutward returns the rails at the other tolerance extreme: each moves
+// by tol × its own magnitude away from the other rail, so the span between
+// them is the largest the part must stand (V+ 12 V, V− 2 V, 10 %: 13.2 V
+// and 1.8 V, span 11.4 V). With 0 V between the rails both spans are the
+// nominal span × (1 ∓ tol); with both rails on one side of 0 V they are not
+// (the same rails give 8.6 … 11.4 V, not 9 … 11 V).
+func RailsOutward(pos, neg, tol float64) (posHigh, negLow float64) {
+	return pos + tol*math.Abs(pos), neg - tol*math.Abs(neg)
 }

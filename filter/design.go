@@ -104,7 +104,7 @@ func (d *Design) designParams() []designParam {
 		{Param{Key: "supply.neg", Label: "V− rail", Kind: Quantity, Dim: catalog.Volt, Default: "0 V",
 			Help: "nominal negative rail against 0 V"}, &d.Supply.Neg},
 		{Param{Key: "supply.tolerance", Label: "rail tolerance", Kind: Quantity, Dim: catalog.Ratio, Default: "0 %",
-			Help: "each rail moves toward 0 V by this; span min/max = span × (1 ∓ tolerance)"}, &d.Supply.Tolerance},
+			Help: "each rail moves by this × its own magnitude; span min/max = both rails inward/outward"}, &d.Supply.Tolerance},
 		{Param{Key: "environment.temp.low", Label: "ambient low", Kind: Quantity, Dim: catalog.Celsius, Default: "25 C",
 			Help: "lowest ambient temperature"}, &d.Temp[0]},
 		{Param{Key: "environment.temp.high", Label: "ambient high", Kind: Quantity, Dim: catalog.Celsius, Default: "25 C",

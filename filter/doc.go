@@ -24,7 +24,11 @@
 // # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
 // frequency, ε allowed gain error, default 1 %)
 //
-//   - Supply: span min/max = nominal span × (1 ∓ tolerance). A part passes
+//   - Supply: each rail moves by tolerance × its own magnitude; span_min =
+//     both rails inward (V+w − V−w, below), span_max = both outward,
+//     (pos + tol·|pos|) − (neg − tol·|neg|) (RailsOutward). With 0 V between
+//     the rails that is nominal span × (1 ∓ tolerance); V+ 12 V, V− 2 V at
+//     10 % gives 8.6 … 11.4 V, not 9 … 11 V. A part passes
 //     when its rated supply.min ≤ span_min and span_max ≤ supply.max;
 //     margin = the smaller spare in volts / span_min.
 //   - Rails for headroom: each rail moved toward the other by the
@@ -40,10 +44,14 @@
 //     output-resistance approximation; the check's note says so).
 //   - Range margin = the smallest spare volts / span_min.
 //   - slew: sine 2π·f·Vo; square 0.8·2Vo/rise (10–90 % of the step).
-//   - gbw: sine NG·f/√(1/(1−ε)² − 1) (single-pole loop, ≈ 7.02·NG·f at
+//   - gain error ε is split (circuit.GainErrorBudget): the aol floor takes
+//     ε/4 at DC, gbw the rest at f, so a single-pole part at both floors
+//     errs by exactly ε: (1 + NG/Aol)² + (NG·f/GBW)² = 1/(1−ε)².
+//   - gbw: sine NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) (single-pole loop, ≈ 8.09·NG·f at
 //     1 %); square NG·0.35/rise.
-//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε)/ε
-//     (circuit.AolForGainError).
+//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε/4)/(ε/4)
+//     (circuit.AolForGainError at ε/4); a square stage's gbw follows the
+//     rise time and does not draw on ε, so there Aol ≥ NG·(1 − ε)/ε.
 //
 // Every formula lives in filter/circuit with one test against its named
 // source; the templates call it and write the why line.
@@ -59,7 +67,9 @@
 //     not derated) since more bandwidth is more noise. The transimpedance
 //     stage integrates its own response (circuit.TIANoise).
 //   - relaxation gbw: the GBW at which the single-pole period model
-//     (circuit.AstablePeriodLimited, slew unlimited) is freq_error slow;
+//     (circuit.AstablePeriodLimited, slew unlimited) runs at
+//     (1 − freq_error)·f0, a period of T0/(1 − freq_error); relaxation
+//     slew: both transitions within that growth, T0·ε/(1 − ε);
 //     transimpedance gbw: the maximally flat response with Cf in the loop
 //     reaches the bandwidth (circuit.GBWForTIA).
 //   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
@@ -107,7 +117,7 @@
 // packages × unit cost, supply current = packages × channels × Iq.
 //
 // fmax per stage is the highest sine frequency at the stage's amplitude at
-// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG),
+// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG),
 // the inverses of the two requirement formulas (circuit.FullPowerBandwidth,
 // circuit.MaxFreqForGainError).
 //

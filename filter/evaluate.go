@@ -146,9 +146,9 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 // stageFMax is the highest sine frequency at the stage's output amplitude
 // at which slew and gbw still pass: the inverses of the two requirement
 // formulas, circuit.FullPowerBandwidth (of SlewForSine) and
-// circuit.MaxFreqForGainError (of GBWForGainError).
+// circuit.MaxFreqForGainError (of GainErrorBudget's gbw).
 func stageFMax(sp *StagePlan, f *PartFigures) float64 {
-	if sp.Shape != "sine" || sp.Vo <= 0 || sp.NoiseGain <= 0 || !f.Slew.Known || !f.GBW.Known {
+	if !sp.HasFMax() || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
 	fg, err := circuit.MaxFreqForGainError(f.GBW.V, sp.NoiseGain, sp.GainError)
@@ -294,7 +294,7 @@ func (ev *evaluator) numeric(c *Check, b Bound, fig Figure) {
 		if b == BoundMax {
 			d = -d
 		}
-		c.Margin = math.Pow(10, d/20) - 1
+		c.Margin = circuit.FromDB(d) - 1
 	case b == BoundMin:
 		c.Margin = fig.V/c.Required - 1
 	case b == BoundMax:

@@ -2,6 +2,7 @@ package filter_test
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/opsift/opsift/catalog"
@@ -69,8 +70,10 @@ dc_error = "10 mV"
 	}
 }
 
-// Tolerance: span min/max = span × (1 ∓ tol); each rail moves toward 0 V
-// by tol for headroom. ±15 V at 5 %: span 28.5 … 31.5 V, rails ±14.25 V.
+// Tolerance: each rail moves by tol × its own magnitude; the span runs from
+// both rails inward to both outward. With 0 V between the rails that is
+// span × (1 ∓ tol): ±15 V at 5 %: span 28.5 … 31.5 V, rails ±14.25 V (by
+// hand).
 func TestToleranceHandling(t *testing.T) {
 	_, p := mustDesign(t, `title = "t"
 [supply]
@@ -84,30 +87,15 @@ ref = "0 V"
 signal = { peak = "13 V", freq = "1 Hz" }
 `)
 	r := p.Rails
-	near(t, "span min", r.SpanMin, 28.5, 1e-12)
-	near(t, "span max", r.SpanMax, 31.5, 1e-12)
-	near(t, "V+ worst", r.PosWorst, 14.25, 1e-12)
-	near(t, "V− worst", r.NegWorst, -14.25, 1e-12)
-	tests := []struct {
-		name   string
-		supply catalog.Span
-		pass   bool
-	}{
+	wantRails(t, r, 28.5, 31.5, 14.25, -14.25)
+	tests := []supplyCase{
 		{"36 V part fits 31.5 V", catalog.Span{Min: opt(4), Max: opt(36)}, true},
 		{"30 V part fails 31.5 V at +5 %", catalog.Span{Min: opt(4), Max: opt(30)}, false},
 		{"part needing 29 V fails 28.5 V at −5 %", catalog.Span{Min: opt(29), Max: opt(40)}, false},
 		{"31.5 V part is exactly at +5 %", catalog.Span{Min: opt(4), Max: opt(31.5)}, true},
 		{"28.5 V minimum is exactly at −5 %", catalog.Span{Min: opt(28.5), Max: opt(40)}, true},
 	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			part := basePart("x")
-			part.Supply = tc.supply
-			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
-				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
-			}
-		})
-	}
+	supplyCases(t, p, tests)
 	// Output 13 V peak: the swing must reach 13 V from a 14.25 V rail, 1.25 V headroom.
 	// A part exactly at the headroom (1.25 V) ties and passes.
 	for _, tc := range []struct {
@@ -344,7 +332,8 @@ func TestMultiStage(t *testing.T) {
 	}
 }
 
-// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)²−1)/NG); at fmax both checks pass
+// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG), the inverses of
+// the slew and gbw requirements (by hand); at fmax both checks pass
 // with margin ≥ 0 and one binds at 0.
 func TestFMaxIsTheEdge(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
@@ -354,7 +343,7 @@ func TestFMaxIsTheEdge(t *testing.T) {
 	part.GBW = catalog.Spec{Min: opt(5e6)}
 	r := evalOne(t, p, part, filter.Options{})
 	fs := 2e6 / (2 * math.Pi * 5)
-	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1))
+	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1/(0.9975*0.9975)))
 	near(t, "fmax", r.FMax[0], math.Min(fs, fg), 1e-12)
 	// Re-derive at fmax: the binding check sits at margin 0.
 	d, _ := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
@@ -407,4 +396,76 @@ func TestSummaryMatchesFull(t *testing.T) {
 			}
 		}
 	}
+}
+
+// With both rails on one side of 0 V the span is not span × (1 ∓ tol): V+
+// 12 V, V− 2 V at 10 % gives inward 10.8 − 2.2 = 8.6 V and outward
+// 13.2 − 1.8 = 11.4 V (by hand, each rail ± 10 % of itself), where
+// 10 V × (1 ∓ 10 %) would say 9 … 11 V. The cases sit at and just past
+// both edges.
+func TestSupplySpanSameSignRails(t *testing.T) {
+	_, p := mustDesign(t, `title = "t"
+[supply]
+pos = "12 V"
+neg = "2 V"
+tolerance = "10 %"
+[[stage]]
+name = "s"
+kind = "follower"
+ref = "6 V"
+signal = { peak = "1 V", freq = "1 kHz" }
+`)
+	r := p.Rails
+	wantRails(t, r, 8.6, 11.4, 10.8, 2.2)
+	tests := []supplyCase{
+		{"11 V part is overstressed at 11.4 V", catalog.Span{Min: opt(3), Max: opt(11)}, false},
+		{"11.4 V part is exactly at the outward rails", catalog.Span{Min: opt(3), Max: opt(11.4)}, true},
+		{"11.39 V part is just short", catalog.Span{Min: opt(3), Max: opt(11.39)}, false},
+		{"9 V minimum is not met at 8.6 V", catalog.Span{Min: opt(9), Max: opt(36)}, false},
+		{"8.6 V minimum is exactly at the inward rails", catalog.Span{Min: opt(8.6), Max: opt(36)}, true},
+		{"8.61 V minimum is just short", catalog.Span{Min: opt(8.61), Max: opt(36)}, false},
+	}
+	supplyCases(t, p, tests)
+	var why string
+	for _, q := range p.Global {
+		if q.Key == filter.KeySupply {
+			why = q.Why
+		}
+	}
+	for _, w := range []string{"10.8 V − 2.2 V = 8.6 V", "13.2 V − 1.8 V = 11.4 V"} {
+		if !strings.Contains(why, w) {
+			t.Errorf("supply why %q lacks %q", why, w)
+		}
+	}
+}
+
+// supplyCase is a part's rated supply and whether it must pass the plan's
+// supply check.
+type supplyCase struct {
+	name   string
+	supply catalog.Span
+	pass   bool
+}
+
+// supplyCases evaluates a part of each rated supply against p.
+func supplyCases(t *testing.T, p *filter.Plan, tests []supplyCase) {
+	t.Helper()
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			part := basePart("x")
+			part.Supply = tc.supply
+			if c := check(t, evalOne(t, p, part, filter.Options{}), "", filter.KeySupply); c.Pass != tc.pass {
+				t.Errorf("supply pass = %v, want %v (margin %g)", c.Pass, tc.pass, c.Margin)
+			}
+		})
+	}
+}
+
+// wantRails checks the spans and the inward rails.
+func wantRails(t *testing.T, r filter.Rails, spanMin, spanMax, posWorst, negWorst float64) {
+	t.Helper()
+	near(t, "span min", r.SpanMin, spanMin, 1e-12)
+	near(t, "span max", r.SpanMax, spanMax, 1e-12)
+	near(t, "V+ worst", r.PosWorst, posWorst, 1e-12)
+	near(t, "V− worst", r.NegWorst, negWorst, 1e-12)
 }

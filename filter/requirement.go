@@ -154,12 +154,12 @@ type Rails struct {
 	PosWorst, NegWorst float64 // each rail moved toward the other by tolerance × its magnitude (RailsInward)
 	Tol                float64 // tolerance, fraction
 	Span               float64 // nominal span Pos − Neg
-	SpanMin, SpanMax   float64 // Span × (1 ∓ Tol)
+	SpanMin, SpanMax   float64 // PosWorst − NegWorst (rails inward) … the span with both rails outward (RailsOutward)
 }
 
 // StagePlan is what a template derived for one stage: the circuit
 // quantities part-dependent checks need (noise gain, source and load
-// resistance) and the stage's requirements.
+// resistance), the resolved circuit values, and the stage's requirements.
 type StagePlan struct {
 	Stage     *Stage
 	Name      string
@@ -174,8 +174,39 @@ type StagePlan struct {
 	GainError float64 // allowed gain error ε, fraction
 	SourceR   float64 // Ω, 0 when not given
 	LoadR     float64 // Ω, 0 when not given (no resistive load)
+	// Ref is the node the stage is centred on, V, resolved: the stage's
+	// ref or its default, the middle of the nominal rails (0 for kinds
+	// without one: direct, comparator).
+	Ref float64
+	// Values are the circuit values Derive resolved, SI, by stage key
+	// ("rf", "rg", "cin", "i_max", "threshold", "input.low", …), defaults
+	// applied; only the keys the stage gives or defaults are present.
+	// Front ends build the stage's circuit from them (StagePlan.Circuit)
+	// instead of re-reading the inputs.
+	Values map[string]float64
+	// Texts are the resolved choice inputs by stage key ("polarity"),
+	// defaults applied, for the kinds whose circuit depends on one.
+	Texts map[string]string
 	// Requirements of this stage, in derivation order.
 	Requirements []Requirement
+}
+
+// HasFMax reports whether fmax applies to the stage: an amplifier with a
+// sine signal, a noise gain and a gain error. Other stages (square signals,
+// filters, oscillators, comparators) have no fmax whatever the part.
+func (s *StagePlan) HasFMax() bool {
+	return s.Shape == "sine" && s.Vo > 0 && s.NoiseGain > 0 && s.GainError > 0 && s.GainError < 1
+}
+
+// HasFMax reports whether fmax applies to any stage of the plan; when not,
+// a part's fmax is "not applicable" rather than unknown.
+func (p *Plan) HasFMax() bool {
+	for i := range p.Stages {
+		if p.Stages[i].HasFMax() {
+			return true
+		}
+	}
+	return false
 }
 
 // Plan is a design with its requirements derived: the input to Evaluate.

@@ -6,6 +6,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
 
 // signalParams are the inputs every amplifier template shares.
@@ -138,7 +139,7 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	if eps <= 0 || eps >= 1 {
 		return sp, fieldErrorf("gain_error", "%q is out of range, want a ratio between 0 and 100 %% such as \"1 %%\"", in.Raw("gain_error"))
 	}
-	sp.Peak, sp.GainError = vp, eps
+	sp.Peak, sp.GainError, sp.Ref = vp, eps, ref
 	sp.Vo = a.gain * vp
 	sp.Shape = in.Text("signal.shape")
 	sp.SourceR, _ = in.Num("source_r")
@@ -177,13 +178,13 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		Hz := catalog.Format(f, catalog.Hertz)
 		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForSine(f, vo), Dim: catalog.VoltPerSecond,
 			Why: fmt.Sprintf("2π·f·Vo = 2π·%s·%s", Hz, V(vo))})
-		gbw, err := circuit.GBWForGainError(ng, f, eps)
+		gbw, _, _, err := circuit.GainErrorBudget(ng, f, eps)
 		if err != nil {
 			return sp, fmt.Errorf("field \"gain_error\": %w", err)
 		}
 		k := gbw / (ng * f)
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-			Why: fmt.Sprintf("NG·f/√(1/(1−ε)²−1) = %s·%s·%.3g (ε = %s)",
+			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) = %s·%s·%.3g (ε = %s, ε/4 of it left to the aol floor)",
 				catalog.Format(ng, catalog.Dimensionless), Hz, k, catalog.Format(eps, catalog.Ratio))})
 	case "square":
 		rise, err := in.Need("signal.rise")
@@ -201,13 +202,20 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: circuit.GBWForRise(ng, rise), Dim: catalog.Hertz,
 			Why: fmt.Sprintf("NG·0.35/rise = %s·0.35/%s", catalog.Format(ng, catalog.Dimensionless), s)})
 	}
-	_, aolDB, err := circuit.AolForGainError(ng, eps)
+	// A sine's gain error is shared with gbw at f (GainErrorBudget); a
+	// square's settled level is a DC gain, and its gbw rule (rise) does not
+	// draw on ε, so the aol floor has all of it there.
+	epsDC, aolWhy := circuit.AolShare*eps, "20·log10(NG·(1−ε/4)/(ε/4)) = 20·log10(%s·(1 − %s)/%s): ε/4 of ε = %s at DC, from NG/(1 + NG/Aol) = NG·(1 − ε/4); gbw takes the rest"
+	if sp.Shape == "square" {
+		epsDC, aolWhy = eps, "20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s): all of ε = %s on the settled level, from NG/(1 + NG/Aol) = NG·(1 − ε); gbw here follows the rise time"
+	}
+	_, aolDB, err := circuit.AolForGainError(ng, epsDC)
 	if err != nil {
 		return sp, fmt.Errorf("field \"gain_error\": %w", err)
 	}
 	add(Requirement{Key: KeyAol, Bound: BoundMin, Value: aolDB, Dim: catalog.Decibel,
-		Why: fmt.Sprintf("20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s), from NG/(1 + NG/Aol) = NG·(1 − ε)",
-			catalog.Format(ng, catalog.Dimensionless), catalog.Format(eps, catalog.Ratio), catalog.Format(eps, catalog.Ratio))})
+		Why: fmt.Sprintf(aolWhy, catalog.Format(ng, catalog.Dimensionless), catalog.Format(epsDC, catalog.Ratio),
+			catalog.Format(epsDC, catalog.Ratio), catalog.Format(eps, catalog.Ratio))})
 
 	// Drive: the load and the feedback network, both at the output peak.
 	if sp.LoadR > 0 || a.feedbackR > 0 {
@@ -301,4 +309,26 @@ func (n noiseSetup) output(p *catalog.Part, f *PartFigures) Figure {
 	}
 	enbw := circuit.NoiseBandwidthLoopBand(circuit.ClosedLoopBandwidth(f.GBWHigh.V, n.ng), band)
 	return Figure{V: a.OutputRMS(enbw), Known: true, Basis: basis, Note: f.En.Note}
+}
+
+// amplifierCircuit is the waveform preview of an amplifier stage: circuit
+// c driven with the stage's signal around its ref. A square without a
+// frequency repeats every squarePeriodRises allowed rise times.
+func amplifierCircuit(sp *StagePlan, c sim.Circuit) (StageCircuit, error) {
+	b := StageCircuit{Circuit: c}
+	switch sp.Shape {
+	case "sine":
+		b.Input = sim.Input{Shape: sim.Sine, Peak: sp.Peak, Freq: sp.Freq, Offset: sp.Ref}
+	case "square":
+		f := sp.Freq
+		if !(f > 0) {
+			f = 1 / (squarePeriodRises * sp.Rise)
+			b.Notes = append(b.Notes, fmt.Sprintf("the design gives the square no frequency; %s (a period of %d allowed rise times) is used",
+				catalog.Format(f, catalog.Hertz), squarePeriodRises))
+		}
+		b.Input = sim.Input{Shape: sim.Square, Peak: sp.Peak, Freq: f, Offset: sp.Ref}
+	default:
+		return b, fmt.Errorf("stage %q: signal shape %q has no waveform preview, want sine or square", sp.Name, sp.Shape)
+	}
+	return b, nil
 }

@@ -6,7 +6,10 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(comparatorTemplate{}) }
 
 // comparatorTemplate is an op-amp used open loop as a comparator: the
 // input signal on one input, the threshold on the other, the output
@@ -96,6 +99,7 @@ func (comparatorTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	sp.LoadR, _ = in.Num("load_r")
 	sp.Vo = math.Max(math.Abs(voh), math.Abs(vol))
 	sp.Rise = t
+	sp.Values = map[string]float64{"threshold": th, "input.low": lo, "input.high": hi, "out_low": vol, "out_high": voh}
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	add := func(r Requirement) { sp.Requirements = append(sp.Requirements, r) }
 
@@ -245,4 +249,25 @@ func biasDCError(f *PartFigures, ng, rs, rp float64) Figure {
 		v += f.Ib.V * (rs + rp)
 	}
 	return Figure{V: ng * v, Known: true, Basis: basis, Note: note}
+}
+
+// circuit is the comparator between the stage's levels, driven by a sine
+// over its input range with a period of comparatorPeriodTransitions
+// allowed transition times (a design gives the comparator no frequency).
+func (comparatorTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	v, err := sp.values("threshold", "input.low", "input.high", "out_low", "out_high")
+	if err != nil {
+		return StageCircuit{}, err
+	}
+	th, lo, hi, vol, voh := v[0], v[1], v[2], v[3], v[4]
+	f := 1 / (comparatorPeriodTransitions * sp.Rise)
+	return StageCircuit{
+		// The edge is timed between the stage's levels, as its slew
+		// requirement counts it.
+		Circuit: sim.Comparator{Threshold: th, Low: vol, High: voh},
+		Input:   sim.Input{Shape: sim.Sine, Peak: (hi - lo) / 2, Offset: (hi + lo) / 2, Freq: f},
+		InTrace: "input",
+		Notes: []string{fmt.Sprintf("driven by a sine over the input range %s … %s at %s (the design gives no frequency; a period of %d allowed transition times)",
+			catalog.Format(lo, catalog.Volt), catalog.Format(hi, catalog.Volt), catalog.Format(f, catalog.Hertz), comparatorPeriodTransitions)},
+	}, nil
 }

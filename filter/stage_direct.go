@@ -11,6 +11,8 @@ import (
 // parts against them.
 type directTemplate struct{}
 
+func init() { register(directTemplate{}) }
+
 func (directTemplate) Kind() string    { return "direct" }
 func (directTemplate) Summary() string { return "needs stated directly (no circuit template)" }
 func (directTemplate) Params() []Param {

@@ -1,5 +1,12 @@
 package filter
 
+import (
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter/sim"
+)
+
+func init() { register(followerTemplate{}) }
+
 // followerTemplate is a unity-gain buffer: output tied to the inverting
 // input, G = NG = 1.
 type followerTemplate struct{}
@@ -12,4 +19,9 @@ func (followerTemplate) Params() []Param {
 
 func (followerTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	return deriveAmplifier(in, p, amplifier{gain: 1, noiseGain: 1})
+}
+
+// circuit is the follower driven with the stage's signal.
+func (followerTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	return amplifierCircuit(sp, sim.Follower{})
 }

@@ -3,7 +3,10 @@ package filter
 import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(invertingTemplate{}) }
 
 // invertingTemplate is an inverting amplifier: signal through Rg into the
 // inverting input, which sits at ref; |G| = Rf/Rg, NG = 1 + |G|.
@@ -38,8 +41,10 @@ func (invertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		if !ok {
 			fb = rf
 		}
-		return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainInverting(g), inputAtRef: true,
+		sp, err := deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainInverting(g), inputAtRef: true,
 			feedbackR: fb, invR: circuit.Parallel(rf, rin), invName: "Rf∥Rin"})
+		sp.Values = map[string]float64{"rf": rf, "rin": rin}
+		return sp, err
 	}
 	g, err := in.Need("gain")
 	if err != nil {
@@ -49,5 +54,16 @@ func (invertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return StagePlan{}, fieldErrorf("gain", "%q is not positive, want the gain magnitude such as \"10\"", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
-	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: 1 + g, inputAtRef: true, feedbackR: fb})
+	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainInverting(g), inputAtRef: true, feedbackR: fb})
+}
+
+// circuit is the stage's resistors (Rf, Rin as given, else Rin = previewR
+// and Rf for the gain) driven with the stage's signal.
+func (invertingTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	rf, okF := sp.Values["rf"]
+	rin, okI := sp.Values["rin"]
+	if okF && okI {
+		return amplifierCircuit(sp, sim.Inverting{Rf: rf, Rin: rin, Ref: sp.Ref})
+	}
+	return amplifierCircuit(sp, sim.Inverting{Rf: sp.Gain * previewR, Rin: previewR, Ref: sp.Ref})
 }

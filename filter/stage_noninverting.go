@@ -3,7 +3,10 @@ package filter
 import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(noninvertingTemplate{}) }
 
 // noninvertingTemplate is a non-inverting amplifier: signal at the
 // non-inverting input, G = NG = 1 + Rf/Rg.
@@ -37,8 +40,10 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		if !ok {
 			fb = rf + rg
 		}
-		return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: g, feedbackR: fb,
+		sp, err := deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb,
 			invR: circuit.Parallel(rf, rg), invName: "Rf∥Rg"})
+		sp.Values = map[string]float64{"rf": rf, "rg": rg}
+		return sp, err
 	}
 	g, err := in.Need("gain")
 	if err != nil {
@@ -48,5 +53,19 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return StagePlan{}, fieldErrorf("gain", "%q is below 1, want a non-inverting gain ≥ 1 V/V", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
-	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: g, feedbackR: fb})
+	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb})
+}
+
+// circuit is the stage's divider (Rf, Rg as given, else Rg = previewR and
+// Rf for the gain; a follower at gain 1) driven with the stage's signal.
+func (noninvertingTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	rf, okF := sp.Values["rf"]
+	rg, okG := sp.Values["rg"]
+	switch {
+	case okF && okG:
+		return amplifierCircuit(sp, sim.NonInverting{Rf: rf, Rg: rg, Ref: sp.Ref})
+	case sp.Gain == 1:
+		return amplifierCircuit(sp, sim.Follower{})
+	}
+	return amplifierCircuit(sp, sim.NonInverting{Rf: (sp.Gain - 1) * previewR, Rg: previewR, Ref: sp.Ref})
 }

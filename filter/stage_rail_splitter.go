@@ -38,6 +38,8 @@ import (
 //	dc_error        Vos + Ib·source_r ≤ allowed
 type railSplitterTemplate struct{}
 
+func init() { register(railSplitterTemplate{}) }
+
 func (railSplitterTemplate) Kind() string { return "rail_splitter" }
 func (railSplitterTemplate) Summary() string {
 	return "virtual-ground buffer holding a mid-rail on a single supply"
@@ -73,6 +75,7 @@ func (railSplitterTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return sp, fieldErrorf("i_source", "missing, want the return current to source and/or sink (i_source, i_sink) such as \"5 mA\"")
 	}
 	ref := tmplRef(in, p)
+	sp.Ref = ref
 	if !(p.Rails.Neg < ref && ref < p.Rails.Pos) {
 		return sp, fieldErrorf("ref", "%s is not between the rails %s and %s, want a mid-rail inside the supply",
 			catalog.Format(ref, catalog.Volt), catalog.Format(p.Rails.Neg, catalog.Volt), catalog.Format(p.Rails.Pos, catalog.Volt))

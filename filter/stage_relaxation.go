@@ -6,7 +6,10 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(relaxationTemplate{}) }
 
 // relaxationTemplate is the op-amp relaxation oscillator (astable
 // multivibrator): timing R from the output to the inverting input, timing C
@@ -20,8 +23,8 @@ import (
 //	ref         V     reference the capacitor and R1 return to [mid of the nominal rails]
 //	out_low     V     output low level assumed, VOL [the nominal V− rail]
 //	out_high    V     output high level assumed, VOH [the nominal V+ rail]
-//	freq_error  ratio allowed frequency error: the share of the period the two
-//	                  output transitions may take [5 %]
+//	freq_error  ratio allowed frequency error ε below the ideal: f ≥ (1 − ε)·f0,
+//	                  so the period may grow to T/(1 − ε) [5 %]
 //	load_r      Ω     load from the output to ref [none]
 //
 // Ideal timing (Sedra & Smith, astable multivibrator; from memory), with
@@ -35,9 +38,10 @@ import (
 //
 //	input_range     VTL … VTH (both inputs move between the thresholds)
 //	output_range    out_low … out_high, only when the stage states the levels
-//	slew            2·(VOH − VOL)/(freq_error·T): both transitions within the allowed share
+//	slew            2·(VOH − VOL)/(T·ε/(1 − ε)): both transitions within the period's
+//	                allowed growth (circuit.PeriodStretch)
 //	gbw             the GBW at which a single-pole op-amp with unlimited slew rate runs
-//	                freq_error slow (circuit.GBWForAstable): after each switch the output
+//	                at (1 − ε)·f0 (circuit.GBWForAstable): after each switch the output
 //	                leaves its level as e^(2π·GBW·β·t), several time constants
 //	                1/(2π·GBW·β) of regeneration before it moves far
 //	vdiff           β·(VOH − VOL): the step at each switching instant
@@ -45,8 +49,8 @@ import (
 //	                + max(VOH − ref, ref − VOL)/load_r
 //
 // The ideal frequency is in the slew requirement's formula; a candidate's
-// predicted frequency with its own swing, slew and GBW is PredictedFrequency,
-// reported beside its gbw check (Aside "predicted_freq"). Each of slew and
+// predicted frequency with its own swing, slew and GBW (astable.predicted)
+// is reported beside its gbw check (Aside "predicted_freq"). Each of slew and
 // gbw may use the whole freq_error; a part near both limits runs up to
 // about twice that slow, which the predicted frequency shows.
 type relaxationTemplate struct{}
@@ -72,7 +76,7 @@ func (relaxationTemplate) Params() []Param {
 		{Key: "out_high", Label: "output high level", Kind: Quantity, Dim: catalog.Volt,
 			Help: "output high level VOH assumed for the ideal frequency; default: the nominal V+ rail"},
 		{Key: "freq_error", Label: "allowed frequency error", Kind: Quantity, Dim: catalog.Ratio, Default: "5 %",
-			Help: "share of the period the two output transitions may take"},
+			Help: "allowed frequency error below the ideal: f ≥ (1 − ε)·f0"},
 		{Key: "load_r", Label: "load resistance", Kind: Quantity, Dim: catalog.Ohm,
 			Help: "resistive load at the output, to ref"},
 	}
@@ -139,6 +143,8 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	sp.Freq = 1 / period
 	sp.Vo = math.Max(a.voh-a.ref, a.ref-a.vol)
 	sp.LoadR = a.loadR
+	sp.Ref = a.ref
+	sp.Values = map[string]float64{"r": a.r, "c": a.c, "r1": a.r1, "r2": a.r2}
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	W := tmplOperand
 	s := func(x float64) string { return catalog.Format(x, catalog.Second) }
@@ -156,9 +162,10 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	if !a.levelsGiven {
 		levels = "the rails"
 	}
-	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForAstable(a.vol, a.voh, period, a.share), Dim: catalog.VoltPerSecond,
-		Why: fmt.Sprintf("2·(VOH − VOL)/(ε·T) = 2·(%s − %s)/(%s·%s); ideal T = t_high + t_low = %s + %s, f = %s (levels: %s)",
-			W(a.voh), W(a.vol), catalog.Format(a.share, catalog.Ratio), s(period), s(th), s(tl),
+	stretch := circuit.PeriodStretch(a.share)
+	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForAstable(a.vol, a.voh, period, stretch), Dim: catalog.VoltPerSecond,
+		Why: fmt.Sprintf("2·(VOH − VOL)/(T·ε/(1 − ε)) = 2·(%s − %s)/(%s·%s), f ≥ (1 − ε)·f0 with ε = %s; ideal T = t_high + t_low = %s + %s, f0 = %s (levels: %s)",
+			W(a.voh), W(a.vol), s(period), catalog.Format(stretch, catalog.Ratio), catalog.Format(a.share, catalog.Ratio), s(th), s(tl),
 			catalog.Format(sp.Freq, catalog.Hertz), levels)})
 	gbw, err := circuit.GBWForAstable(a.r, a.c, a.ref, beta, a.vol, a.voh, a.share)
 	if err != nil {
@@ -171,7 +178,7 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			}
 			return Aside{}
 		},
-		Why: fmt.Sprintf("period ≤ (1 + ε)·T on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
+		Why: fmt.Sprintf("f ≥ (1 − ε)·f0, period ≤ T/(1 − ε) on a single-pole op-amp, ε = %s, β = %s: after each switch the output regenerates as e^(2π·GBW·β·t), τ = 1/(2π·GBW·β) = %s at this GBW (ideal f = %s; the check shows the part's predicted f with its GBW and slew)",
 			catalog.Format(a.share, catalog.Ratio), b, s(circuit.RegenerationTimeConstant(gbw, beta)), catalog.Format(sp.Freq, catalog.Hertz))})
 	add(Requirement{Key: KeyVdiff, Bound: BoundMin, Value: circuit.AstableVdiff(beta, a.vol, a.voh), Dim: catalog.Volt, Measure: measureVdiff,
 		Why: fmt.Sprintf("β·(VOH − VOL) = %s·(%s − %s), the step at each switching instant", b, W(a.voh), W(a.vol))})
@@ -186,29 +193,18 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	return sp, nil
 }
 
-// PredictedFrequency returns the frequency a relaxation stage runs at on a
-// part with worst-case figures f: the output moves between the part's own
-// swing (at the stage's load, on the plan's nominal rails, no further than
-// the levels the stage states), limited by the part's worst-case slew rate
-// and, when the catalog gives it, its worst-case GBW, with the single-pole
-// model of circuit.AstablePeriodLimited (without a GBW figure, the ramp
-// model circuit.AstablePeriodSlewLimited). It is an optimistic prediction
-// (saturation recovery and the rounding near the rails slow a real part
-// further). ok is false when sp is not a relaxation stage, the part's slew
-// or swing is unknown, or the part cannot complete a full swing before the
-// capacitor reaches the next threshold.
-func PredictedFrequency(p *Plan, sp *StagePlan, f *PartFigures) (freq float64, ok bool) {
-	if sp == nil || sp.Stage == nil || sp.Kind != "relaxation" {
-		return 0, false
-	}
-	a, err := readAstable(NewStageInput(sp.Stage, relaxationTemplate{}), p)
-	if err != nil {
-		return 0, false
-	}
-	return a.predicted(p, f)
-}
-
-// predicted is PredictedFrequency for the stage's circuit values a.
+// predicted returns the frequency a relaxation stage with circuit values a
+// runs at on a part with worst-case figures f: the output moves between the
+// part's own swing (at the stage's load, on the plan's nominal rails, no
+// further than the levels the stage states), limited by the part's
+// worst-case slew rate and, when the catalog gives it, its worst-case GBW,
+// with the single-pole model of circuit.AstablePeriodLimited (without a GBW
+// figure, the ramp model circuit.AstablePeriodSlewLimited). It is an
+// optimistic prediction (saturation recovery and the rounding near the
+// rails slow a real part further). ok is false when the part's slew or
+// swing is unknown, or the part cannot complete a full swing before the
+// capacitor reaches the next threshold. The gbw check shows it beside the
+// part (Aside "predicted_freq").
 func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
 	if !f.Slew.Known || !(f.Slew.V > 0) {
 		return 0, false
@@ -229,4 +225,18 @@ func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
 		return 0, false
 	}
 	return 1 / t, true
+}
+
+// circuit is the free-running astable with the stage's timing network and
+// divider; the model's output swings between the part's own limits.
+func (relaxationTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	v, err := sp.values("r", "c", "r1", "r2")
+	if err != nil {
+		return StageCircuit{}, err
+	}
+	return StageCircuit{
+		Circuit: sim.Relaxation{R: v[0], C: v[1], R1: v[2], R2: v[3], Ref: sp.Ref},
+		InTrace: "capacitor",
+		Notes:   []string{"free-running: the output swings between the part's own limits; \"in\" is the capacitor voltage"},
+	}, nil
 }

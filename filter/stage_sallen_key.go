@@ -5,7 +5,10 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(sallenKeyTemplate{}) }
 
 // sallenKeyTemplate is the unity-gain second-order Sallen–Key low-pass:
 // input ─R1─┬─R2─┬─ non-inverting input, output tied to the inverting
@@ -120,7 +123,12 @@ func (sallenKeyTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	pk := circuit.LowPass2Peak(q)
 	vo := vp * pk
 	src, _ := in.Num("source_r")
-	sp.Peak, sp.Vo, sp.Freq = vp, vo, f0
+	sp.Peak, sp.Vo, sp.Freq, sp.Ref = vp, vo, f0, ref
+	if comps {
+		sp.Values = map[string]float64{"r1": r1, "r2": r2, "c1": c1, "c2": c2}
+	} else {
+		sp.Values = map[string]float64{"f0": f0, "q": q}
+	}
 	sp.SourceR = src + r1 + r2
 	sp.LoadR, _ = in.Num("load_r")
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
@@ -165,4 +173,37 @@ func (sallenKeyTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			Why: fmt.Sprintf("Vos + Ib·(source_r + R1 + R2) ≤ %s with source_r + R1 + R2 = %s", V(v), catalog.Format(sp.SourceR, catalog.Ohm))})
 	}
 	return sp, nil
+}
+
+// circuit is the filter with the stage's components, or with equal
+// resistors previewR and the capacitors for its f0 and Q
+// (circuit.SallenKeyEqualR), driven by a sine of the stage's peak at f0.
+func (sallenKeyTemplate) circuit(sp *StagePlan, _ *catalog.Part, _ *PartFigures) (StageCircuit, error) {
+	var c sim.SallenKeyLowPass
+	f0 := sp.Freq
+	chosen := false
+	if _, ok := sp.Values["r1"]; ok {
+		v, err := sp.values("r1", "r2", "c1", "c2")
+		if err != nil {
+			return StageCircuit{}, err
+		}
+		c.R1, c.R2, c.C1, c.C2 = v[0], v[1], v[2], v[3]
+	} else {
+		v, err := sp.values("q")
+		if err != nil {
+			return StageCircuit{}, err
+		}
+		c.R1, c.R2 = previewR, previewR
+		c.C1, c.C2 = circuit.SallenKeyEqualR(previewR, f0, v[0])
+		chosen = true
+	}
+	b := StageCircuit{Circuit: c,
+		Input: sim.Input{Shape: sim.Sine, Peak: sp.Peak, Freq: f0, Offset: sp.Ref},
+		Notes: []string{fmt.Sprintf("driven by a sine of the stage's peak at f0 = %s, where the output is steepest", catalog.Format(f0, catalog.Hertz))},
+	}
+	if chosen {
+		b.Notes = append(b.Notes, fmt.Sprintf("components chosen for f0 and Q: R1 = R2 = %s, C1 = %s, C2 = %s",
+			catalog.Format(c.R1, catalog.Ohm), catalog.Format(c.C1, catalog.Farad), catalog.Format(c.C2, catalog.Farad)))
+	}
+	return b, nil
 }

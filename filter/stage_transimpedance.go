@@ -6,7 +6,10 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/filter/sim"
 )
+
+func init() { register(transimpedanceTemplate{}) }
 
 // transimpedanceTemplate is a photodiode amplifier: the photocurrent flows
 // into the inverting input, Rf ∥ Cf from there to the output, the
@@ -114,7 +117,9 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 	}
 	ref := tmplRef(in, p)
 	vo := t.imax * t.rf
-	sp.NoiseGain, sp.Vo, sp.Freq = t.ng, vo, t.f
+	sp.NoiseGain, sp.Vo, sp.Freq, sp.Ref = t.ng, vo, t.f, ref
+	sp.Values = map[string]float64{"rf": t.rf, "cin": t.cin, "i_max": t.imax}
+	sp.Texts = map[string]string{"polarity": in.Text("polarity")}
 	sp.Rise = circuit.RiseBandwidth / t.f
 	sp.LoadR, _ = in.Num("load_r")
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
@@ -231,27 +236,62 @@ func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 	return Figure{V: ng*f.Vos.V + f.Ib.V*rf, Known: true, Basis: weaker(f.Vos.Basis, f.Ib.Basis), Note: note}
 }
 
-// TIAFeedbackCap returns the feedback capacitor that makes a
+// tiaFeedbackCap returns the feedback capacitor that makes a
 // transimpedance stage maximally flat on a part with worst-case figures f:
 // circuit.FeedbackCapForTIAFlat with the stage's cin plus the part's own
 // input capacitance (when the catalog gives it) and the part's worst-case
 // GBW; bw is the −3 dB bandwidth it then reaches (circuit.TIAResponse and
 // LowPass2Bandwidth, = circuit.BandwidthTIA).
-// ok is false when sp is not a transimpedance stage or the GBW is unknown.
-func TIAFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
-	if sp == nil || sp.Stage == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
+// ok is false when sp is not a derived transimpedance stage or the GBW is
+// unknown.
+func tiaFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
+	if sp == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
 		return 0, 0, false
 	}
-	t, err := readTIA(NewStageInput(sp.Stage, transimpedanceTemplate{}))
+	v, err := sp.values("rf", "cin")
 	if err != nil {
 		return 0, 0, false
 	}
-	cin := t.cin + partCin(part)
-	cf = circuit.FeedbackCapForTIAFlat(t.rf, cin, f.GBW.V)
-	f0, q := circuit.TIAResponse(t.rf, cin, cf, f.GBW.V)
+	rf, cin := v[0], v[1]+partCin(part)
+	cf = circuit.FeedbackCapForTIAFlat(rf, cin, f.GBW.V)
+	f0, q := circuit.TIAResponse(rf, cin, cf, f.GBW.V)
 	bw = circuit.LowPass2Bandwidth(f0, q)
 	if math.IsNaN(bw) {
 		return 0, 0, false
 	}
 	return cf, bw, true
+}
+
+// circuit is the stage with the Cf a maximally flat response needs on the
+// part's worst-case GBW (tiaFeedbackCap: the circuit as it would be built
+// for the part; a typical run keeps it), driven by a light step of i_max
+// shown over tiaStepRises rise times of the stage's bandwidth, so that
+// parts share one time axis and a slow part is seen not to settle in time.
+func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *PartFigures) (StageCircuit, error) {
+	v, err := sp.values("rf", "cin", "i_max")
+	if err != nil {
+		return StageCircuit{}, err
+	}
+	rf, cin, imax := v[0], v[1], v[2]
+	bw := sp.Freq
+	cf, _, ok := tiaFeedbackCap(sp, part, f)
+	if !ok {
+		return StageCircuit{}, fmt.Errorf("stage %q: part %q: no feedback capacitor can be chosen without a gbw figure", sp.Name, part.ID)
+	}
+	cin += partCin(part)
+	step := imax
+	if sp.Texts["polarity"] == "negative" {
+		step = -imax
+	}
+	dur := tiaStepRises * sp.Rise // sp.Rise = 0.35/bandwidth
+	return StageCircuit{
+		Circuit:  sim.Transimpedance{Rf: rf, Cf: cf, Cin: cin, Ref: sp.Ref},
+		Input:    sim.Input{Shape: sim.Step, Peak: step, At: tiaStepAt * dur},
+		Duration: dur,
+		Notes: []string{
+			fmt.Sprintf("driven by a light step 0 … %s at %s, shown over %d rise times of the %s bandwidth; \"in\" is the photocurrent, A",
+				catalog.Format(imax, catalog.Ampere), catalog.Format(tiaStepAt*dur, catalog.Second), tiaStepRises, catalog.Format(bw, catalog.Hertz)),
+			fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw with Cin = %s", catalog.Format(cf, catalog.Farad), catalog.Format(cin, catalog.Farad)),
+		},
+	}, nil
 }

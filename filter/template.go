@@ -2,6 +2,7 @@ package filter
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -9,8 +10,9 @@ import (
 )
 
 // Template is a stage kind: the inputs it takes and how it turns them into
-// requirements. Adding a kind is a new stage_<kind>.go file with a type
-// implementing Template plus one line in templates.
+// requirements. A kind lives in one file, filter/stage_<kind>.go: the type
+// implementing Template, its waveform-preview circuit when it has one
+// (previewer), and an init function that registers it.
 type Template interface {
 	// Kind is the value of the stage's kind key: "noninverting".
 	Kind() string
@@ -21,28 +23,31 @@ type Template interface {
 	Params() []Param
 	// Derive computes the stage's circuit quantities and requirements. in
 	// reads the stage's values with defaults applied; p has the rails and
-	// temperatures already filled in.
+	// temperatures already filled in. The StagePlan it returns carries the
+	// resolved circuit (Ref, Values, Texts) its previewer builds from.
 	Derive(in *StageInput, p *Plan) (StagePlan, error)
 }
 
-// templates is the registry of stage kinds: one line per kind.
-func templates() []Template {
-	return []Template{
-		directTemplate{},
-		followerTemplate{},
-		noninvertingTemplate{},
-		invertingTemplate{},
-		comparatorTemplate{},
-		relaxationTemplate{},
-		sallenKeyTemplate{},
-		railSplitterTemplate{},
-		transimpedanceTemplate{},
+// registry holds the stage kinds, sorted by kind. Each stage_<kind>.go
+// adds its template from an init function (register); it is not written
+// after package initialisation.
+var registry []Template
+
+// register adds a stage kind to the registry. A second template of the
+// same kind is a programming error, caught when the package initialises.
+func register(t Template) {
+	i, found := slices.BinarySearchFunc(registry, t.Kind(), func(e Template, k string) int {
+		return strings.Compare(e.Kind(), k)
+	})
+	if found {
+		panic("filter: stage kind " + t.Kind() + " registered twice")
 	}
+	registry = slices.Insert(registry, i, t)
 }
 
 // TemplateFor returns the template of a stage kind.
 func TemplateFor(kind string) (Template, bool) {
-	for _, t := range templates() {
+	for _, t := range registry {
 		if t.Kind() == kind {
 			return t, true
 		}
@@ -50,11 +55,12 @@ func TemplateFor(kind string) (Template, bool) {
 	return nil, false
 }
 
-// KnownKinds lists the stage kinds that have a template.
+// KnownKinds lists the stage kinds that have a template, in alphabetical
+// order.
 func KnownKinds() []string {
-	var out []string
-	for _, t := range templates() {
-		out = append(out, t.Kind())
+	out := make([]string, len(registry))
+	for i, t := range registry {
+		out[i] = t.Kind()
 	}
 	return out
 }

@@ -41,4 +41,34 @@ const (
 	// stays on one goroutine: starting a goroutine costs about as much as
 	// evaluating a few hundred parts.
 	parallelMin = 1000
+
+	// The waveform preview's choices where a stage gives no value for
+	// the model to run with (StagePlan.Circuit); the notes state them.
+
+	// previewR is the resistor the preview picks when a stage gives only a
+	// gain (Ω): the model's amp draws no input current and drives its
+	// output from zero impedance, so only the ratio matters.
+	previewR = 10e3
+
+	// squarePeriodRises is the period of a square signal that gives no
+	// frequency, in allowed rise times (dimensionless): each half period
+	// is then 20 rise times, long enough for a passing part to settle.
+	squarePeriodRises = 40
+
+	// comparatorPeriodTransitions is the period of the sine a comparator
+	// is driven with, in allowed transition times (dimensionless): a
+	// design gives the comparator's input range but no frequency; at 100
+	// transitions per period a passing part's edges are a few percent of
+	// the period and a failing part's slow edges stand out.
+	comparatorPeriodTransitions = 100
+
+	// tiaStepRises is how long a transimpedance stage's light step is
+	// shown, in rise times of the stage's bandwidth (0.35/bandwidth)
+	// (dimensionless): a part that meets the bandwidth settles within a
+	// few; 20 leave room to see a slow one.
+	tiaStepRises = 20
+
+	// tiaStepAt is where in the window the light step comes, as a fraction
+	// of it (dimensionless): the dark level is seen first.
+	tiaStepAt = 0.1
 )

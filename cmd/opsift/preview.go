@@ -143,7 +143,7 @@ func previewCheckStage(plan *filter.Plan, name string) error {
 	}
 	for _, s := range plan.Stages {
 		if s.Name == name {
-			if preview.HasWaveform(s.Kind) {
+			if filter.HasWaveform(s.Kind) {
 				return nil
 			}
 			return fmt.Errorf("--stage %q: stage kind %s has no waveform preview, %s", name, s.Kind, want)
@@ -273,11 +273,8 @@ func previewSeries(r *preview.Result) []plot.Series {
 		{Name: "out", X: wf.T, Y: wf.Out, Mark: plot.Solid},
 		{Name: "ideal", X: wf.T, Y: wf.Ideal, Mark: plot.Marker},
 	}
-	switch r.Kind {
-	case "comparator":
-		s = append(s, plot.Series{Name: "input", X: wf.T, Y: wf.In, Mark: plot.Dotted})
-	case "relaxation":
-		s = append(s, plot.Series{Name: "capacitor", X: wf.T, Y: wf.In, Mark: plot.Dotted})
+	if r.InTrace != "" {
+		s = append(s, plot.Series{Name: r.InTrace, X: wf.T, Y: wf.In, Mark: plot.Dotted})
 	}
 	return s
 }

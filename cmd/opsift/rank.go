@@ -8,14 +8,18 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [--strict-catalog] [-o FILE [--force]]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--strict-catalog]
+                  [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
 is named). With --all the failing parts follow, each with the checks it
 fails and by how much. Formats: table (terminal), csv (the caution in the
 last column of every row), json (SI units), md (a shortlist for design
-review), toml (the ranked parts as a catalog file). Sort keys: margin
+review), toml (the ranked parts as a catalog file). json and md give each
+passing candidate's headroom: for every design input, moved alone, the
+value at which the part fails and the requirement that breaks there.
+Sort keys: margin
 (default), cost, supply_current, fmax, id. -o writes atomically: a
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
@@ -39,6 +43,7 @@ type rankFlags struct {
 	top      int
 	sort     string
 	strict   bool
+	noHead   bool
 	// strictCatalog refuses the catalog on any problem.
 	strictCatalog bool
 	output        outputFlags
@@ -55,6 +60,7 @@ func runRank(e *env, args []string) error {
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
+	fset.BoolVar(&f.noHead, "no-headroom", false, "leave each candidate's headroom out of json and md (faster on a long list)")
 	f.output.register(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
@@ -83,7 +89,7 @@ func runRank(e *env, args []string) error {
 	}
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
-	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict,
+	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead,
 		Sources: cat.Sources, SetAside: cat.SetAside, Width: e.columns(report.DefaultWidth)}
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer

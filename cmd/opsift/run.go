@@ -21,6 +21,7 @@ func commands() []command {
 		{"derive", "show what a design needs from the op-amp, with formulas", runDerive},
 		{"check", "validate catalog files and summarise them", runCheck},
 		{"replace", "find parts that can take a part's place", runReplace},
+		{"compare", "lay 2 to 6 parts side by side for a design", runCompare},
 		{"preview", "simulate a part in a design's stage and plot it", runPreview},
 		{"init", "write a starter catalog and design to edit", runInit},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},

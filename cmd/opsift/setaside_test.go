@@ -85,18 +85,22 @@ func TestBadPartCostsOnePart(t *testing.T) {
 	}
 }
 
-// TestSetAsidePartByID: replace and preview name a set-aside part as
+// TestSetAsidePartByID: replace, preview and compare name a set-aside part as
 // such, with its problem, rather than as an unknown id; the other parts
 // work as usual.
 func TestSetAsidePartByID(t *testing.T) {
 	demo, bad := demoPlusBroken(t)
-	for _, cmd := range []string{"replace", "preview"} {
+	for _, cmd := range []string{"replace", "preview", "compare"} {
 		t.Run(cmd, func(t *testing.T) {
-			r := runOpsift(t, nil, cmd, "zz1-broken", "--catalog", demo, "--catalog", bad)
+			bad1, good := []string{cmd, "zz1-broken"}, []string{cmd, "gp4-bip"}
+			if cmd == "compare" {
+				bad1, good = append(bad1, "gp4-bip"), append(good, "rr4-cmos")
+			}
+			r := runOpsift(t, nil, append(bad1, "--catalog", demo, "--catalog", bad)...)
 			if r.code != 2 || !strings.Contains(r.stderr, `opsift: `+cmd+`: part "zz1-broken" is set aside for problems: `+bad+`:9:`) {
 				t.Errorf("exit %d, stderr:\n%s", r.code, r.stderr)
 			}
-			ok := runOpsift(t, nil, cmd, "gp4-bip", "--catalog", demo, "--catalog", bad)
+			ok := runOpsift(t, nil, append(good, "--catalog", demo, "--catalog", bad)...)
 			if ok.code != 0 || !strings.Contains(ok.stderr, "1 of 53 parts set aside") {
 				t.Errorf("a valid part: exit %d, stderr:\n%s", ok.code, ok.stderr)
 			}

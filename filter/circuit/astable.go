@@ -76,39 +76,6 @@ func AstablePeriod(r, c, ref, beta, vol, voh float64) (float64, error) {
 	return th + tl, err
 }
 
-// AstableFrequency returns 1/AstablePeriod.
-func AstableFrequency(r, c, ref, beta, vol, voh float64) (float64, error) {
-	t, err := AstablePeriod(r, c, ref, beta, vol, voh)
-	if err != nil {
-		return 0, err
-	}
-	return 1 / t, nil
-}
-
-// AstableDuty returns the share of the ideal period the output is high,
-// t_high/(t_high + t_low); 0.5 when the levels sit symmetric about ref.
-func AstableDuty(r, c, ref, beta, vol, voh float64) (float64, error) {
-	th, tl, err := astableTimes(r, c, ref, beta, vol, voh)
-	if err != nil {
-		return 0, err
-	}
-	return th / (th + tl), nil
-}
-
-// AstablePeriodSymmetric returns the ideal period when the output levels sit
-// symmetric about the reference, T = 2RC·ln((1 + β)/(1 − β)) (Sedra & Smith,
-// from memory); it does not depend on the swing. It wants 0 < β < 1.
-func AstablePeriodSymmetric(r, c, beta float64) (float64, error) {
-	const fn = "astable symmetric period"
-	if err := checkRC(fn, r, c); err != nil {
-		return 0, err
-	}
-	if !(beta > 0 && beta < 1) {
-		return 0, domainErr(fn, "beta", beta, "0 < beta < 1")
-	}
-	return 2 * r * c * math.Log((1+beta)/(1-beta)), nil
-}
-
 // AstableVdiff returns the largest differential input voltage of the
 // astable in ideal operation, VTH − VTL = β·(VOH − VOL): at each switching
 // instant the capacitor sits at one threshold while the non-inverting input
@@ -130,7 +97,8 @@ func AstableOutputCurrent(r, r1, r2, ref, vol, voh float64) float64 {
 
 // SlewForAstable returns the slew rate at which the two full-swing output
 // transitions of one cycle, each (VOH − VOL)/SR long, take no more than
-// share (0…1) of the period: SR = 2·(VOH − VOL)/(share·period).
+// share (> 0) of the period: SR = 2·(VOH − VOL)/(share·period). For a
+// frequency error ε the share is PeriodStretch(ε) = ε/(1 − ε).
 //
 // The frequency actually lost is smaller than share: the capacitor moves
 // toward the new level while the output ramps, so in the symmetric case the
@@ -138,6 +106,14 @@ func AstableOutputCurrent(r, r1, r2, ref, vol, voh float64) float64 {
 // see AstablePeriodSlewLimited). The bound is conservative.
 func SlewForAstable(vol, voh, period, share float64) float64 {
 	return 2 * (voh - vol) / (share * period)
+}
+
+// PeriodStretch returns the share of the ideal period an oscillator may add
+// while its frequency stays within the error ferr (0 < ε < 1) below the
+// ideal: f ≥ (1 − ε)·f0 ⇔ T ≤ T0/(1 − ε) = T0·(1 + ε/(1 − ε)), so the share
+// is ε/(1 − ε) (5 %: 5.263 %, not 5 %, which would allow only −4.76 %).
+func PeriodStretch(ferr float64) float64 {
+	return ferr / (1 - ferr)
 }
 
 func astableTimes(r, c, ref, beta, vol, voh float64) (th, tl float64, err error) {

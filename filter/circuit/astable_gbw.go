@@ -138,9 +138,10 @@ func AstablePeriodLimited(r, c, ref, beta, vol, voh, sr, gbw float64) (float64, 
 // in AstablePeriodLimited.
 const astableStepsPerTau = 16
 
-// GBWForAstable returns the gain-bandwidth at which the astable's period on
-// a single-pole op-amp with unlimited slew rate (AstablePeriodLimited)
-// exceeds the ideal period by the share eps (0 < ε < 1): the regeneration
+// GBWForAstable returns the gain-bandwidth at which the astable's frequency
+// on a single-pole op-amp with unlimited slew rate (AstablePeriodLimited)
+// falls short of the ideal by the frequency error eps (0 < ε < 1): f =
+// (1 − ε)·f0, a period of T0/(1 − ε) (5 %: 1.0526·T0). The regeneration
 // after each switch must fit the allowed frequency error. The period falls
 // monotonically as GBW rises, so the inverse is found by bisection on the
 // same function.
@@ -156,7 +157,7 @@ func GBWForAstable(r, c, ref, beta, vol, voh, eps float64) (float64, error) {
 	inf := math.Inf(1)
 	slow := func(g float64) bool {
 		t, err := AstablePeriodLimited(r, c, ref, beta, vol, voh, inf, g)
-		return err != nil || t > ideal*(1+eps)
+		return err != nil || t > ideal/(1-eps)
 	}
 	// Start one decade either side of 1/(β·RC·ε) per 2π, the scale where
 	// a few regeneration time constants fill ε of the period.

@@ -69,15 +69,15 @@ func TestGBWForGainError(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			gbw, err := GBWForGainError(tt.ng, tt.f, tt.eps)
+			gbw, err := GBWForGainError(tt.ng, tt.f, tt.eps, math.Inf(1))
 			mustOK(t, err)
 			assertRel(t, "gbw", gbw, tt.want, 1e-5)
 			// The inverse must give the error back.
-			assertRel(t, "round trip", GainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
+			assertRel(t, "round trip", gainErrorAt(gbw, tt.ng, tt.f), tt.eps, 1e-9)
 		})
 	}
 	for _, eps := range []float64{0, 1, -0.01, 1.5, math.NaN()} {
-		_, err := GBWForGainError(1, 1, eps)
+		_, err := GBWForGainError(1, 1, eps, math.Inf(1))
 		var de *DomainError
 		if !errors.As(err, &de) || de.Param != "eps" {
 			t.Errorf("GBWForGainError(eps=%g) error = %v, want a DomainError on eps", eps, err)
@@ -92,7 +92,7 @@ func TestGainErrorAtMatchesComplexGain(t *testing.T) {
 	a := complex(0, -gbw/f) // GBW/(j·f)
 	acl := a / (1 + a/complex(ng, 0))
 	want := 1 - cmplxAbs(acl)/ng
-	assertRel(t, "gain error", GainErrorAt(gbw, ng, f), want, 1e-9)
+	assertRel(t, "gain error", gainErrorAt(gbw, ng, f), want, 1e-9)
 }
 
 func TestAolForGainError(t *testing.T) {
@@ -108,6 +108,72 @@ func TestAolForGainError(t *testing.T) {
 	}
 }
 
+// gainErrorSinglePole against the complex closed loop A/(1 + A/NG) with
+// A = Aol/(1 + j·f·Aol/GBW) (single pole at GBW/Aol), and GBWForGainError
+// as its inverse. The 4 % case is the demo gain stage (NG 6.2, 24 kHz):
+// 510.2 kHz and 148.8 V/V, the floors when each rule took the whole ε,
+// err by 7.55 % (by hand: (1 + 6.2/148.8)² + (6.2·24 kHz/510.2 kHz)² =
+// 1.0851 + 0.0851).
+func TestGainErrorSinglePole(t *testing.T) {
+	for _, tc := range []struct{ gbw, aol, ng, f float64 }{
+		{1e6, 1e5, 10, 30e3},
+		{510.2e3, 148.8, 6.2, 24e3},
+		{4e6, 50, 2, 100e3},
+	} {
+		a := complex(tc.aol, 0) / complex(1, tc.f*tc.aol/tc.gbw)
+		acl := a / (1 + a/complex(tc.ng, 0))
+		want := 1 - cmplxAbs(acl)/tc.ng
+		assertRel(t, "gain error", gainErrorSinglePole(tc.gbw, tc.aol, tc.ng, tc.f), want, 1e-12)
+	}
+	assertAbs(t, "both whole-ε floors", gainErrorSinglePole(510.2e3, 148.8, 6.2, 24e3), 0.0755, 5e-4)
+	assertRel(t, "ideal Aol is gainErrorAt", gainErrorSinglePole(1e6, math.Inf(1), 10, 30e3), gainErrorAt(1e6, 10, 30e3), 1e-15)
+	g, err := GBWForGainError(6.2, 24e3, 0.04, 613.8)
+	mustOK(t, err)
+	assertRel(t, "inverse", gainErrorSinglePole(g, 613.8, 6.2, 24e3), 0.04, 1e-12)
+	// Aol alone spends the whole budget: no GBW is enough.
+	var de *DomainError
+	if _, err := GBWForGainError(6.2, 24e3, 0.04, 148.8); !errors.As(err, &de) || de.Param != "aol" {
+		t.Errorf("aol at the whole-ε floor: err = %v, want a DomainError on aol", err)
+	}
+}
+
+// GainErrorBudget: Aol takes ε/4 at DC, GBW the rest at f. By hand for the
+// demo gain stage, NG 6.2, 24 kHz, ε 4 %: Aol = 6.2·0.99/0.01 = 613.8 V/V
+// = 55.7605 dB; 1 + NG/Aol = 1/0.99, so GBW = 6.2·24 kHz/√(1/0.96² −
+// 1/0.99²) = 148.8 kHz/0.254490 = 584.698 kHz. NG 100 at 1 %: 39 900 V/V
+// = 92.0195 dB and 8.08842·NG·f. The single-pole error at both floors is
+// exactly ε, and 0.1 % below either floor it exceeds ε (ngspice checks the
+// same circuit in TestGainErrorBudgetAgainstNgspice).
+func TestGainErrorBudget(t *testing.T) {
+	for _, tc := range []struct {
+		name           string
+		ng, f, eps     float64
+		gbw, aol, aoDB float64
+	}{
+		{"demo gain stage", 6.2, 24e3, 0.04, 584697.75, 613.8, 55.760538},
+		{"NG 100 at 1 %", 100, 1e3, 0.01, 808842.38, 39900, 92.019458},
+		{"follower at 4 %", 1, 24e3, 0.04, 94306.089, 99, 39.912704},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			gbw, aol, db, err := GainErrorBudget(tc.ng, tc.f, tc.eps)
+			mustOK(t, err)
+			assertRel(t, "gbw", gbw, tc.gbw, 1e-7)
+			assertRel(t, "aol", aol, tc.aol, 1e-12)
+			assertAbs(t, "aol dB", db, tc.aoDB, 1e-6)
+			assertRel(t, "error at both floors", gainErrorSinglePole(gbw, aol, tc.ng, tc.f), tc.eps, 1e-12)
+			if e := gainErrorSinglePole(0.999*gbw, aol, tc.ng, tc.f); !(e > tc.eps) {
+				t.Errorf("GBW 0.1 %% below its floor: error %g, want > %g", e, tc.eps)
+			}
+			if e := gainErrorSinglePole(gbw, 0.999*aol, tc.ng, tc.f); !(e > tc.eps) {
+				t.Errorf("Aol 0.1 %% below its floor: error %g, want > %g", e, tc.eps)
+			}
+		})
+	}
+	if _, _, _, err := GainErrorBudget(1, 1, 1); err == nil {
+		t.Error("eps 1: no error")
+	}
+}
+
 func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
 
 func TestRegenerationTimeConstant(t *testing.T) {
@@ -116,14 +182,15 @@ func TestRegenerationTimeConstant(t *testing.T) {
 }
 
 func TestMaxFreqForGainError(t *testing.T) {
-	// Inverse of GBWForGainError: 1 MHz in NG 10 at 1 % reaches
-	// 1e6/(10·7.0179) = 14.249 kHz (by hand, 7.0179 = 1/√(1/0.99² − 1)).
+	// Inverse in f of GainErrorBudget's gbw: 1 MHz in NG 10 at 1 % reaches
+	// 1e6/(10·8.08842) = 12.3633 kHz (by hand, 8.08842 =
+	// 1/√(1/0.99² − 1/0.9975²)).
 	f, err := MaxFreqForGainError(1e6, 10, 0.01)
 	if err != nil {
 		t.Fatal(err)
 	}
-	assertRel(t, "fmax", f, 14249.4, 1e-4)
-	g, _ := GBWForGainError(10, f, 0.01)
+	assertRel(t, "fmax", f, 12363.3, 1e-4)
+	g, _, _, _ := GainErrorBudget(10, f, 0.01)
 	assertRel(t, "round trip", g, 1e6, 1e-12)
 	if _, err := MaxFreqForGainError(1e6, 10, 0); err == nil {
 		t.Error("eps 0: no error")

@@ -2,6 +2,7 @@ package circuit
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
 )
@@ -12,7 +13,7 @@ func TestErrorMessages(t *testing.T) {
 		err  error
 		want string
 	}{
-		{"gain error out of range", second(GBWForGainError(1, 1e3, 1.5)), "gbw for gain error: eps = 1.5, want 0 < eps < 1"},
+		{"gain error out of range", second(GBWForGainError(1, 1e3, 1.5, math.Inf(1))), "gbw for gain error: eps = 1.5, want 0 < eps < 1"},
 		{"threshold above output", second(HighTime(1e3, 1e-9, 5, 6, 1)), "astable high time: vth = 6, want vth < voh"},
 		{"no full swing", second(AstablePeriodSlewLimited(1e3, 1e-9, 0, 0.5, -5, 5, 1e6)),
 			"slew-limited astable period: slew rate 1e+06 V/s: output does not reach its level"},

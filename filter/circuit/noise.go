@@ -7,13 +7,6 @@ func KelvinFromCelsius(c float64) float64 {
 	return c + ZeroCelsius
 }
 
-// ThermalNoiseDensity returns the Johnson–Nyquist voltage noise density of a
-// resistance r at temperature tempK, e = √(4kTR) in V/√Hz (Johnson 1928,
-// Nyquist 1928; k is Boltzmann, exact).
-func ThermalNoiseDensity(r, tempK float64) float64 {
-	return math.Sqrt(4 * Boltzmann * tempK * r)
-}
-
 // NoiseBandwidthSinglePole returns the equivalent noise bandwidth of a
 // single-pole low-pass with −3 dB frequency f3db, ENBW = (π/2)·f3db (the
 // integral of 1/(1 + (f/f3)²) from 0 to ∞).

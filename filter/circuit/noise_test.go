@@ -19,7 +19,7 @@ func TestThermalNoise(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			assertRel(t, "density", ThermalNoiseDensity(tt.r, tt.tK), tt.want, 1e-6)
+			assertRel(t, "density", thermalNoiseDensity(tt.r, tt.tK), tt.want, 1e-6)
 		})
 	}
 }

@@ -44,16 +44,6 @@ func SallenKeyGBW(k, q, f0 float64) float64 {
 	return k * q * f0
 }
 
-// LowPass2Gain returns the gain magnitude at frequency f of a second-order
-// low-pass of natural frequency f0, quality factor q and unity DC gain:
-// |H| = 1/√((1 − x²)² + (x/Q)²) with x = f/f0; at f0 it equals Q.
-func LowPass2Gain(f, f0, q float64) float64 {
-	x := f / f0
-	a := 1 - x*x
-	b := x / q
-	return 1 / math.Sqrt(a*a+b*b)
-}
-
 // LowPass2Peak returns the largest gain magnitude of a unity-DC-gain
 // second-order low-pass: Q/√(1 − 1/(4Q²)) for Q > 1/√2 (at
 // f = f0·√(1 − 1/(2Q²))), else 1 (no peaking, the maximum is at DC).

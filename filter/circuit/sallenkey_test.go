@@ -51,7 +51,7 @@ func TestSallenKey(t *testing.T) {
 			assertAbs(t, "phase at f0", cmplx.Phase(h), -math.Pi/2, 1e-9)
 			// And the closed-form magnitude matches nodal analysis elsewhere.
 			for _, x := range []float64{0.1, 0.7, 1.3, 4} {
-				got := LowPass2Gain(x*f0, f0, q)
+				got := lowPass2Gain(x*f0, f0, q)
 				assertRel(t, "|H| off f0", got, cmplx.Abs(sallenKeyNodal(tt.r1, tt.r2, tt.c1, tt.c2, x*f0)), 1e-9)
 			}
 		})
@@ -79,7 +79,7 @@ func TestLowPass2(t *testing.T) {
 	t.Run("bandwidth is the half-power point", func(t *testing.T) {
 		for _, q := range []float64{0.5, 1, 3} {
 			f3 := LowPass2Bandwidth(1e3, q)
-			assertRel(t, "|H(f3)|", LowPass2Gain(f3, 1e3, q), 1/math.Sqrt2, 1e-12)
+			assertRel(t, "|H(f3)|", lowPass2Gain(f3, 1e3, q), 1/math.Sqrt2, 1e-12)
 		}
 		// Q = 0.5 (two real poles at f0): f3 = f0·√(√2 − 1) = 0.643594·f0.
 		assertRel(t, "Q 0.5", LowPass2Bandwidth(1e3, 0.5), 643.594253, 1e-8)
@@ -90,7 +90,7 @@ func TestLowPass2(t *testing.T) {
 		assertRel(t, "peak Q 1", LowPass2Peak(1), 1.154700538, 1e-9)
 		best := 0.0
 		for i := 1; i < 200000; i++ {
-			best = math.Max(best, LowPass2Gain(float64(i)*1e-5, 1, 3))
+			best = math.Max(best, lowPass2Gain(float64(i)*1e-5, 1, 3))
 		}
 		assertRel(t, "peak Q 3", LowPass2Peak(3), best, 1e-8)
 		assertRel(t, "no peaking at 0.6", LowPass2Peak(0.6), 1, 0)

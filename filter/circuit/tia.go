@@ -76,17 +76,6 @@ func BandwidthTIA(rf, cin, gbw float64) float64 {
 	return LowPass2Bandwidth(TIAResponse(rf, cin, cf, gbw))
 }
 
-// FeedbackCapForTIA returns Graeme's feedback capacitor for 45° phase
-// margin, Cf = √(Cin/(2π·Rf·GBW)): it puts the feedback pole 1/(2π·Rf·Cf) at
-// the frequency where the noise gain 1 + Cin/Cf meets the op-amp's gain
-// (Cf ≪ Cin). The 45° comes from the straight-line Bode construction; the
-// exact single-pole loop has about 52° and Q ≈ 1 — about 1.2 dB of peaking
-// and a −3 dB bandwidth about 1.26·BandwidthTIA. For a maximally flat
-// response use FeedbackCapForTIAFlat, √2 times larger.
-func FeedbackCapForTIA(rf, cin, gbw float64) float64 {
-	return math.Sqrt(cin / (2 * math.Pi * rf * gbw))
-}
-
 // FeedbackCapForTIAFlat returns the feedback capacitor that makes the
 // transimpedance response maximally flat (Q = 1/√2 exactly, for the
 // single-pole op-amp model above): setting Q² = ½ in the transfer function,

@@ -79,7 +79,7 @@ func TestTIA(t *testing.T) {
 
 	t.Run("45 degree choice", func(t *testing.T) {
 		gbw := shortcut
-		cf := FeedbackCapForTIA(rf, cin, gbw)
+		cf := feedbackCapForTIA45(rf, cin, gbw)
 		assertRel(t, "45° Cf", cf, 1.5915494309e-12, 1e-8)
 		// Graeme: the feedback pole sits at the bandwidth.
 		assertRel(t, "feedback pole", 1/(2*math.Pi*rf*cf), math.Sqrt(gbw/(2*math.Pi*rf*cin)), 1e-12)
@@ -103,7 +103,7 @@ func TestTIA(t *testing.T) {
 		for _, cf := range []float64{0.5e-12, 2e-12, 10e-12} {
 			f0, q := TIAResponse(rf, cin, cf, gbw)
 			for _, x := range []float64{0.2, 1, 3} {
-				got := LowPass2Gain(x*f0, f0, q) * rf
+				got := lowPass2Gain(x*f0, f0, q) * rf
 				assertRel(t, "|Z|", got, cmplx.Abs(tiaNodal(rf, cin, cf, gbw, x*f0)), 1e-9)
 			}
 		}

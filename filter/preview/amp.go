@@ -2,10 +2,10 @@ package preview
 
 import (
 	"fmt"
-	"math"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/circuit"
 	"github.com/opsift/opsift/filter/sim"
 )
 
@@ -95,7 +95,7 @@ func buildAmp(plan *filter.Plan, sp *filter.StagePlan, p *catalog.Part, typical 
 			catalog.Format(gbw.V, catalog.Hertz), catalog.Format(slew.V, catalog.VoltPerSecond), catalog.Format(aol.V, catalog.Decibel))
 	}
 	b.figs = append(b.figs, gbw, slew, aol)
-	b.amp = sim.Amp{Aol: math.Pow(10, aol.V/20), GBW: gbw.V, SlewRise: slew.V}
+	b.amp = sim.Amp{Aol: circuit.FromDB(aol.V), GBW: gbw.V, SlewRise: slew.V}
 
 	// The rails: at their tolerance extremes for worst case, as the
 	// output_range and input_range checks take them; nominal for typical.

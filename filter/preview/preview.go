@@ -42,6 +42,10 @@ type Result struct {
 	Amp     sim.Amp
 	Circuit sim.Circuit
 	Input   sim.Input
+	// InTrace names Waveform.In when it shares the output's volts and is
+	// worth drawing beside it ("input", "capacitor"); "" when it is not
+	// (filter.StageCircuit.InTrace).
+	InTrace string
 	// Metrics are Waveform.Metrics; Waveform holds the sampled arrays.
 	Metrics  sim.Metrics
 	Waveform *sim.Waveform
@@ -50,10 +54,6 @@ type Result struct {
 	// range", clipping, an oscillator that does not start).
 	Notes []string
 }
-
-// ErrNoWaveform is wrapped by Run's error for a stage kind that has no
-// waveform (direct, rail_splitter).
-var ErrNoWaveform = errors.New("no waveform preview")
 
 // Run simulates part in the stage of plan called stage. The amp uses the
 // figures filter.Figures gives (or the typical ones with opts.Typical);
@@ -66,33 +66,33 @@ func Run(plan *filter.Plan, stage string, part *catalog.Part, opts Options) (*Re
 	if err != nil {
 		return nil, err
 	}
-	if !HasWaveform(sp.Kind) {
+	if !filter.HasWaveform(sp.Kind) {
 		return nil, fmt.Errorf("stage %q: stage kind %s has %w (pick a stage of kind %s)",
-			sp.Name, sp.Kind, ErrNoWaveform, strings.Join(waveformKinds(), ", "))
+			sp.Name, sp.Kind, filter.ErrNoWaveform, strings.Join(filter.WaveformKinds(), ", "))
 	}
 	ab, err := buildAmp(plan, sp, part, opts.Typical)
 	if err != nil {
 		return nil, fmt.Errorf("stage %q: %w", sp.Name, err)
 	}
-	sb, err := buildStage(plan, sp, part, &ab.worst)
+	sb, err := sp.Circuit(part, &ab.worst)
 	if err != nil {
 		return nil, err
 	}
 	so := opts.Sim
 	if so.Duration == 0 {
-		so.Duration = sb.duration
+		so.Duration = sb.Duration
 	}
-	w, err := sim.Run(sb.circuit, ab.amp, sb.input, so)
+	w, err := sim.Run(sb.Circuit, ab.amp, sb.Input, so)
 	if err != nil {
 		return nil, fmt.Errorf("stage %q: part %q: %w", sp.Name, part.ID, err)
 	}
 	res := &Result{Part: part, Stage: sp.Name, Kind: sp.Kind, Basis: WorstCase, Figures: ab.figs,
-		Amp: ab.amp, Circuit: sb.circuit, Input: sb.input, Metrics: w.Metrics, Waveform: w}
+		Amp: ab.amp, Circuit: sb.Circuit, Input: sb.Input, InTrace: sb.InTrace, Metrics: w.Metrics, Waveform: w}
 	if opts.Typical {
 		res.Basis = Typical
 	}
 	res.Notes = append(res.Notes, ab.notes...)
-	res.Notes = append(res.Notes, sb.notes...)
+	res.Notes = append(res.Notes, sb.Notes...)
 	res.Notes = append(res.Notes, w.Metrics.Notes...)
 	res.Notes = append(res.Notes, ab.checkCM(&w.Metrics)...)
 	return res, nil
@@ -103,7 +103,7 @@ func Run(plan *filter.Plan, stage string, part *catalog.Part, opts Options) (*Re
 func Stages(plan *filter.Plan) []string {
 	var out []string
 	for _, s := range plan.Stages {
-		if HasWaveform(s.Kind) {
+		if filter.HasWaveform(s.Kind) {
 			out = append(out, s.Name)
 		}
 	}
@@ -129,14 +129,4 @@ func findStage(plan *filter.Plan, name string) (*filter.StagePlan, error) {
 		names = append(names, fmt.Sprintf("%q", plan.Stages[i].Name))
 	}
 	return nil, fmt.Errorf("no stage %q in the design, want one of %s", name, strings.Join(names, ", "))
-}
-
-func waveformKinds() []string {
-	var out []string
-	for _, k := range filter.KnownKinds() {
-		if HasWaveform(k) {
-			out = append(out, k)
-		}
-	}
-	return out
 }

@@ -88,6 +88,9 @@ type jsonCandidate struct {
 	Failed        int             `json:"failed"`
 	Unknown       int             `json:"unknown"`
 	Checks        []jsonCheck     `json:"checks"`
+	// Headroom is how far each design input can move before the part
+	// fails (passing candidates; empty for failing ones).
+	Headroom []jsonHeadroom `json:"headroom"`
 }
 
 type jsonCheck struct {
@@ -217,10 +220,12 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 	if p.Design != nil {
 		out.Design = p.Design.Name
 	}
+	doc.prepareHeadroom()
 	for _, r := range doc.Listed() {
 		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(r.WorstMargin),
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
-			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r)}
+			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
+			Headroom: jsonHeadrooms(doc.Headroom(r))}
 		if !math.IsNaN(r.WorstMargin) {
 			c.Binding = &jsonBinding{Stage: stagePtr(r.Binding.Stage), Key: string(r.Binding.Key)}
 		}

@@ -12,6 +12,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/headroom"
 )
 
 // WriteMarkdown writes a shortlist document for design review: the design
@@ -68,9 +69,10 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 		}
 		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
 			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
-			quantity(r.MinFMax(), catalog.Hertz), r.Unknown)
+			fmaxText(doc.Plan, r), r.Unknown)
 	}
 	b.WriteString("\n## Candidates\n")
+	doc.prepareHeadroom()
 	for _, r := range listed {
 		fmt.Fprintf(b, "\n### `%s` — %s\n\n", r.Part.ID, mdText(r.Part.Name))
 		facts := []string{"tech " + orUnknown(string(r.Part.Tech)), fmt.Sprintf("%d channel(s)", r.Part.Channels),
@@ -95,8 +97,28 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
 				mdText(Need(c.Req)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
+		writeMarkdownHeadroom(b, doc.Headroom(r))
 	}
 	return b.Flush()
+}
+
+// writeMarkdownHeadroom writes a candidate's headroom table: how far each
+// input can move, the rest held, and what breaks there.
+func writeMarkdownHeadroom(b *bufio.Writer, ls []headroom.Limit) {
+	if len(ls) == 0 {
+		return
+	}
+	b.WriteString("\nHeadroom: each input moved alone, the rest held, until the part fails.\n\n")
+	b.WriteString("| Stage | Input | Design | Limit | Breaks | Method |\n|---|---|---:|---:|---|---|\n")
+	for _, l := range ls {
+		word := "up to "
+		if l.Dir == headroom.Down {
+			word = "down to "
+		}
+		fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(l.Stage)), mdText(l.Input),
+			mdText(catalog.Format(l.Value, l.Dim)), mdText(word+catalog.Format(l.Limit, l.Dim)),
+			mdText(CheckName(l.Breaks.Stage, l.Breaks.Key)), l.Method)
+	}
 }
 
 func stageOrDesign(s string) string {
@@ -125,10 +147,11 @@ func webLink(s string) bool {
 // policy, filters and stages.
 func summaryLines(p *filter.Plan) []string {
 	r := p.Rails
+	posOut, negOut := filter.RailsOutward(r.Pos, r.Neg, r.Tol)
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	out := []string{
-		fmt.Sprintf("Supply: V+ %s, V− %s, tolerance %s: span %s … %s; rails at worst case %s / %s",
-			V(r.Pos), V(r.Neg), catalog.Format(r.Tol, catalog.Ratio), V(r.SpanMin), V(r.SpanMax), V(r.PosWorst), V(r.NegWorst)),
+		fmt.Sprintf("Supply: V+ %s, V− %s, tolerance %s: span %s … %s; rails at worst case %s / %s (inward), %s / %s (outward)",
+			V(r.Pos), V(r.Neg), catalog.Format(r.Tol, catalog.Ratio), V(r.SpanMin), V(r.SpanMax), V(r.PosWorst), V(r.NegWorst), V(posOut), V(negOut)),
 		fmt.Sprintf("Ambient: %s … %s", catalog.Format(p.TempLow, catalog.Celsius), catalog.Format(p.TempHigh, catalog.Celsius)),
 		fmt.Sprintf("Policy: typical figures × %s (bigger is better) or × %s (smaller is better)",
 			catalog.Format(p.DerateTyp, catalog.Dimensionless), catalog.Format(p.InflateTyp, catalog.Dimensionless)),

@@ -17,6 +17,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/headroom"
 )
 
 // Caution is carried by every export: opsift's results are advisory.
@@ -70,6 +71,11 @@ type Doc struct {
 	SetAside []catalog.SetAside
 	Width    int  // table: terminal width in columns (0 = 100)
 	Color    bool // table: ANSI colour
+	// NoHeadroom leaves the candidates' headroom out of the json and md
+	// documents (a large shortlist searches every input of every part).
+	NoHeadroom bool
+	// headroom holds each listed candidate's headroom once computed.
+	headroom map[*catalog.Part][]headroom.Limit
 }
 
 // Listed returns the candidates the document lists: passing ones (all of
@@ -255,6 +261,18 @@ func cost(v float64) string {
 	}
 	return fmt.Sprintf("%.2f", v)
 }
+
+// fmaxText is a candidate's smallest stage fmax: "—" when no stage of the
+// plan has one (not applicable), "?" when a figure it needs is unknown.
+func fmaxText(p *filter.Plan, r *filter.Result) string {
+	if !p.HasFMax() {
+		return notApplicable
+	}
+	return quantity(r.MinFMax(), catalog.Hertz)
+}
+
+// notApplicable marks a figure that does not apply to the design.
+const notApplicable = "—"
 
 // quantity renders an SI value, "?" when unknown (NaN).
 func quantity(v float64, d catalog.Dim) string {

@@ -281,3 +281,89 @@ func TestMargin(t *testing.T) {
 		}
 	}
 }
+
+// The FMAX column: a frequency where a stage has a sine signal, "?" where
+// a figure it needs is unknown, and "—" (not applicable) for every part
+// when no stage has fmax (the square-signal design), so the column does
+// not read as a row of unknowns.
+func TestFMaxColumn(t *testing.T) {
+	cell := func(t *testing.T, p *filter.Plan, rs []filter.Result) []string {
+		t.Helper()
+		var b bytes.Buffer
+		if err := report.WriteMarkdown(&b, &report.Doc{Plan: p, Results: rs, All: true}); err != nil {
+			t.Fatal(err)
+		}
+		var out []string
+		for _, line := range strings.Split(b.String(), "\n") {
+			f := strings.Split(line, "|")
+			if len(f) == 12 && strings.HasPrefix(strings.TrimSpace(f[2]), "`") {
+				out = append(out, strings.TrimSpace(f[9]))
+			}
+		}
+		if len(out) != len(rs) {
+			t.Fatalf("%d ranking rows, want %d:\n%s", len(out), len(rs), b.String())
+		}
+		return out
+	}
+	t.Run("no stage has fmax", func(t *testing.T) {
+		p, rs := fixture(t, "square-5v.toml", false)
+		if p.HasFMax() {
+			t.Fatal("square design reports fmax")
+		}
+		for i, c := range cell(t, p, rs) {
+			if c != "—" {
+				t.Errorf("%s: fmax %q, want —", rs[i].Part.ID, c)
+			}
+		}
+	})
+	t.Run("sine stages", func(t *testing.T) {
+		p, rs := fixture(t, "audio-split.toml", false)
+		parts := make([]*catalog.Part, len(rs))
+		for i := range rs {
+			part := *rs[i].Part
+			if i == 0 {
+				part.Slew = catalog.Spec{} // unknown slew: fmax unknown
+			}
+			parts[i] = &part
+		}
+		rs = filter.Evaluate(p, parts, filter.Options{})
+		unknownID := parts[0].ID
+		for i, c := range cell(t, p, rs) {
+			want := catalog.Format(rs[i].MinFMax(), catalog.Hertz)
+			if rs[i].Part.ID == unknownID {
+				want = "?"
+			}
+			if c != want || c == "—" {
+				t.Errorf("%s: fmax %q, want %q", rs[i].Part.ID, c, want)
+			}
+		}
+	})
+}
+
+// A failing cost check says "per unit": the COST column beside it is
+// packages × unit cost, so a part in 2 packages at 0.92 shows 1.84 there
+// while its check compares 0.92 with the limit.
+func TestCostMissPerUnit(t *testing.T) {
+	p, rs := fixture(t, "probe-3v3.toml", false)
+	var limit float64
+	for _, q := range p.Global {
+		if q.Key == filter.KeyCost {
+			limit = q.Value
+		}
+	}
+	if limit == 0 {
+		t.Fatal("probe-3v3.toml sets no max_unit_cost")
+	}
+	part := *rs[0].Part
+	part.UnitCost = catalog.Some(2 * limit)
+	r := filter.Evaluate(p, []*catalog.Part{&part}, filter.Options{})
+	var b bytes.Buffer
+	if err := report.WriteTable(&b, &report.Doc{Plan: p, Results: r, All: true}); err != nil {
+		t.Fatal(err)
+	}
+	want := "cost needs ≤ " + catalog.Format(limit, catalog.Dimensionless) + " per unit, has " +
+		catalog.Format(2*limit, catalog.Dimensionless) + " per unit"
+	if !strings.Contains(b.String(), want) {
+		t.Errorf("table lacks %q:\n%s", want, b.String())
+	}
+}

@@ -35,7 +35,7 @@ type column struct {
 	cell  func(rank int, r *filter.Result) string
 }
 
-func tableColumns(strict bool) []column {
+func tableColumns(strict bool, p *filter.Plan) []column {
 	return []column{
 		{head: "#", right: true, cell: func(rank int, r *filter.Result) string {
 			if !r.Pass {
@@ -63,9 +63,7 @@ func tableColumns(strict bool) []column {
 		{head: "SUPPLY I", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
 			return quantity(r.SupplyCurrent, catalog.Ampere)
 		}},
-		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string {
-			return quantity(r.MinFMax(), catalog.Hertz)
-		}},
+		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string { return fmaxText(p, r) }},
 		{head: "?", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
 			if r.Unknown == 0 {
 				return ""
@@ -98,7 +96,7 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		wrap(b, "Caution: "+Caution, width)
 		return b.Flush()
 	}
-	cols := tableColumns(doc.Strict)
+	cols := tableColumns(doc.Strict, p)
 	rows := make([][]string, len(listed))
 	for i, r := range listed {
 		rows[i] = make([]string, len(cols))
@@ -182,7 +180,12 @@ func failingOrUnknown(r *filter.Result, strict bool) []*filter.Check {
 // missText says what a check needs, what the part has and by how much it
 // misses: "gain/slew needs ≥ 0.628 V/µs, has 0.35 V/µs (−44 %, typical)".
 func missText(c *filter.Check, p *catalog.Part) string {
-	s := fmt.Sprintf("%s needs %s, has %s", CheckName(c.Req.Stage, c.Req.Key), Need(c.Req), Has(c, p))
+	need, has := Need(c.Req), Has(c, p)
+	if c.Req.Key == filter.KeyCost && has != "?" {
+		// The COST column is packages × unit cost; the check is per unit.
+		need, has = need+" per unit", has+" per unit"
+	}
+	s := fmt.Sprintf("%s needs %s, has %s", CheckName(c.Req.Stage, c.Req.Key), need, has)
 	var extra []string
 	if c.HasMargin() {
 		extra = append(extra, Margin(c.Margin))

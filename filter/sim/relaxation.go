@@ -2,7 +2,8 @@ package sim
 
 import (
 	"fmt"
-	"math"
+
+	"github.com/opsift/opsift/filter/circuit"
 )
 
 // Relaxation is an astable multivibrator: R from the output charges C at
@@ -22,24 +23,31 @@ type Relaxation struct {
 // Kind names the stage.
 func (Relaxation) Kind() string { return "relaxation" }
 
-// Beta is the divider fraction R1/(R1 + R2).
-func (c Relaxation) Beta() float64 { return c.R1 / (c.R1 + c.R2) }
+// Beta is the divider fraction R1/(R1 + R2) (circuit.HysteresisBeta).
+func (c Relaxation) Beta() float64 { return circuit.HysteresisBeta(c.R1, c.R2) }
 
 // Thresholds are the switching levels of the capacitor voltage for an
-// output that swings between vol and voh.
+// output that swings between vol and voh (circuit.Thresholds).
 func (c Relaxation) Thresholds(vol, voh float64) (vtl, vth float64) {
-	b := c.Beta()
-	return c.Ref + b*(vol-c.Ref), c.Ref + b*(voh-c.Ref)
+	vth, vtl = circuit.Thresholds(c.Ref, c.Beta(), vol, voh)
+	return vtl, vth
 }
 
 // IdealTimes are the high and low times of the ideal astable (infinite
-// slew rate and GBW) between vol and voh:
+// slew rate and GBW) between vol and voh (circuit.HighTime, LowTime):
 //
 //	t_high = RC·ln((VOH − VTL)/(VOH − VTH)),  t_low = RC·ln((VTH − VOL)/(VTL − VOL)).
-func (c Relaxation) IdealTimes(vol, voh float64) (tHigh, tLow float64) {
+//
+// It wants vol < Ref < voh, which the stage checks before it asks.
+func (c Relaxation) IdealTimes(vol, voh float64) (tHigh, tLow float64, err error) {
 	vtl, vth := c.Thresholds(vol, voh)
-	rc := c.R * c.C
-	return rc * math.Log((voh-vtl)/(voh-vth)), rc * math.Log((vth-vol)/(vtl-vol))
+	if tHigh, err = circuit.HighTime(c.R, c.C, voh, vth, vtl); err != nil {
+		return 0, 0, fmt.Errorf("sim: relaxation: %w", err)
+	}
+	if tLow, err = circuit.LowTime(c.R, c.C, vol, vth, vtl); err != nil {
+		return 0, 0, fmt.Errorf("sim: relaxation: %w", err)
+	}
+	return tHigh, tLow, nil
 }
 
 func (c Relaxation) stage(a *ampParams) (*stage, error) {
@@ -66,7 +74,10 @@ func (c Relaxation) stage(a *ampParams) (*stage, error) {
 	s.sys.minus.c[1] = 1
 	s.inTrace = &pin{c: vec{0, 1}}
 	vtl, _ := c.Thresholds(a.vol, a.voh)
-	th, tl := c.IdealTimes(a.vol, a.voh)
+	th, tl, err := c.IdealTimes(a.vol, a.voh)
+	if err != nil {
+		return nil, err
+	}
 	s.osc = &astable{init: vec{a.voh, vtl}, tHigh: th, tLow: tl}
 	return s, nil
 }

@@ -76,7 +76,10 @@ func spiceNetlist(name string, c Circuit, a Amp, in Input, y0 vec) (spiceDeck, e
 		fmt.Fprintf(&b, "R1 inp ref %s\nR2 inp out %s\nVref ref 0 DC %s\nRt out inn %s\nCt inn 0 %s\n",
 			n(c.R1), n(c.R2), n(c.Ref), n(c.R), n(c.C))
 		ic = append(ic, "v(inn)="+n(y0[1]))
-		th, tl := c.IdealTimes(ap.vol, ap.voh)
+		th, tl, err := c.IdealTimes(ap.vol, ap.voh)
+		if err != nil {
+			return deck, err
+		}
 		per := th + tl
 		deck.oscillator = true
 		deck.skip = 3 * per
