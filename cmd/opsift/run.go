@@ -24,6 +24,7 @@ func commands() []command {
 		{"compare", "lay 2 to 6 parts side by side for a design", runCompare},
 		{"preview", "simulate a part in a design's stage and plot it", runPreview},
 		{"init", "write a starter catalog and design to edit", runInit},
+		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
 	}
 }
