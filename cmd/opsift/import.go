@@ -153,4 +153,3 @@ func importDoc(file string, res *sheet.Result) ([]byte, error) {
 	}
 	return buf.Bytes(), nil
 }
-
