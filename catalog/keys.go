@@ -144,3 +144,58 @@ func didYouMean(got string, known []string) string {
 	}
 	return ""
 }
+
+// FigureKey describes one numeric figure of a part by its catalog key: a
+// datasheet figure with typical and guaranteed values ("gbw", "vos", …) or
+// a single-quantity key ("vdiff_max", "cload", …). Designs bound figures by
+// these keys ([choose.limit]) and listings show them as columns.
+type FigureKey struct {
+	Key    string
+	Dim    Dim
+	Scalar bool // a single quantity, not a {typ, min, max, …} table
+}
+
+// FigureKeys lists every numeric figure key of a part, in catalog order:
+// the figure tables, then the single quantities.
+func FigureKeys() []FigureKey {
+	out := make([]FigureKey, 0, len(figures)+len(scalars))
+	for _, f := range figures {
+		out = append(out, FigureKey{Key: f.key, Dim: f.dim})
+	}
+	for _, s := range scalars {
+		out = append(out, FigureKey{Key: s.key, Dim: s.dim, Scalar: true})
+	}
+	return out
+}
+
+// Spec returns the figure table of p under key ("gbw", "vos", …); ok is
+// false when key is not a figure table.
+func (p *Part) Spec(key string) (s Spec, ok bool) {
+	for _, f := range figures {
+		if f.key == key {
+			return *f.spec(p), true
+		}
+	}
+	return Spec{}, false
+}
+
+// Scalar returns the single quantity of p under key ("vdiff_max",
+// "cload", …); ok is false when key is not a single-quantity key.
+func (p *Part) Scalar(key string) (v Opt, ok bool) {
+	for _, s := range scalars {
+		if s.key == key {
+			return *s.opt(p), true
+		}
+	}
+	return Opt{}, false
+}
+
+// Suggest returns the known word the user most likely meant by got ("" when
+// nothing is close or got is itself known), by the rule catalog messages
+// use for did-you-mean.
+func Suggest(got string, known []string) string {
+	if s := suggest(got, known); s != got {
+		return s
+	}
+	return ""
+}

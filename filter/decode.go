@@ -94,6 +94,10 @@ func (dec *designDecoder) design(raw map[string]any) *Design {
 			}
 			for _, sub := range sortedKeys(tbl) {
 				path := k + "." + sub
+				if path == "choose.limit" {
+					dec.limits(d, tbl[sub])
+					continue
+				}
 				if path == "environment.temp" {
 					dec.pair(path, tbl[sub], "", func(lo, hi Value) { d.Temp = [2]Value{lo, hi} }, byPath["environment.temp.low"].Param)
 					continue

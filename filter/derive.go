@@ -25,6 +25,9 @@ func Derive(d *Design) (*Plan, error) {
 	if err := p.deriveFilters(d); err != nil {
 		return nil, err
 	}
+	if err := p.deriveLimits(d); err != nil {
+		return nil, err
+	}
 	seen := map[string]bool{}
 	for _, s := range d.Stages {
 		if seen[s.Name] {

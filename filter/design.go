@@ -37,6 +37,9 @@ type Choose struct {
 	Lifecycle     Value // List: any of; not set = anything but obsolete
 	MaxUnitCost   Value // plain number in the catalog's currency
 	SupplyCurrent Value // A, budget for every channel of the packages used
+	// Limits are the figure bounds of [choose.limit], by catalog figure
+	// key ("vos", "gbw", …).
+	Limits map[string]Limit
 }
 
 // Policy holds the worst-case rules of the design's [policy] table.
@@ -77,6 +80,7 @@ func (d *Design) Stage(name string) *Stage {
 // Clone returns a deep copy of d that can be edited independently.
 func (d *Design) Clone() *Design {
 	c := *d
+	c.Choose.Limits = maps.Clone(d.Choose.Limits)
 	c.Stages = make([]*Stage, len(d.Stages))
 	for i, s := range d.Stages {
 		cs := *s
@@ -137,7 +141,9 @@ func (d *Design) designParams() []designParam {
 }
 
 // Fields lists every editable input of the design in form order: the
-// design-level inputs, then each stage's kind and template parameters.
+// design-level inputs, each stage's kind and template parameters, then a
+// [choose.limit] row per catalog figure ("choose.limit.vos", edited as
+// "max 6 mV", "min 1 MHz" or both joined by a comma).
 func (d *Design) Fields() []Field {
 	var out []Field
 	for _, p := range d.designParams() {
@@ -168,7 +174,7 @@ func (d *Design) Fields() []Field {
 			out = append(out, f)
 		}
 	}
-	return out
+	return append(out, d.limitFields()...)
 }
 
 func fieldOf(path string, p Param, v Value) Field {
@@ -182,6 +188,9 @@ func fieldOf(path string, p Param, v Value) Field {
 // wanted) is returned for inline display.
 func (d *Design) Set(path, raw string) error {
 	raw = strings.TrimSpace(raw)
+	if key, ok := strings.CutPrefix(path, "choose.limit."); ok {
+		return d.setLimit(key, raw)
+	}
 	for _, p := range d.designParams() {
 		if p.Key == path {
 			v, err := parseParam(p.Param, raw)

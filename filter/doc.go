@@ -18,8 +18,11 @@
 // (stage_direct.go, stage_follower.go, stage_noninverting.go,
 // stage_inverting.go, stage_comparator.go, stage_relaxation.go,
 // stage_sallen_key.go, stage_rail_splitter.go, stage_transimpedance.go)
-// plus one line in templates(). An unknown kind is an error listing the
-// known kinds, with a did-you-mean.
+// that registers itself from init. Derive resolves the stage's circuit
+// into its StagePlan (Ref, Values, Texts); a kind with a waveform preview
+// also builds the filter/sim circuit from that (StagePlan.Circuit, see
+// waveform.go). An unknown kind is an error listing the known kinds, with a
+// did-you-mean, never another kind's circuit.
 //
 // # Derivation rules (G signal gain, NG noise gain, Vp input peak, f
 // frequency, ε allowed gain error, default 1 %)
@@ -75,6 +78,8 @@
 //   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
 //     between the stage's levels, as the preview measures it.
 //   - supply_current (when [choose] sets it): packages × channels × Iq.
+//   - limit.<figure> (one per side of each [choose.limit] entry): the
+//     part's worst-case figure (FigureFor) against the stated min or max.
 //   - vdiff, cload: a stage states the differential input or load
 //     capacitance; the part's vdiff_max / cload must reach it.
 //   - Hard filters (pass/fail, margin null): temperature (the part's rated

@@ -35,10 +35,12 @@ func EncodeDesign(w io.Writer, d *Design) error {
 			}
 			lines = append(lines, key+" = "+valueTOML(p.Param, *p.v))
 		}
-		if len(lines) == 0 {
-			continue
+		if len(lines) > 0 {
+			fmt.Fprintf(b, "\n[%s]\n%s\n", table, strings.Join(lines, "\n"))
 		}
-		fmt.Fprintf(b, "\n[%s]\n%s\n", table, strings.Join(lines, "\n"))
+		if table == "choose" {
+			b.WriteString(encodeLimits(d))
+		}
 	}
 	for _, s := range d.Stages {
 		fmt.Fprintf(b, "\n[[stage]]\nname = %s\nkind = %s\n", quoteTOML(s.Name), quoteTOML(s.Kind))

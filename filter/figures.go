@@ -41,14 +41,7 @@ const (
 // Basis is guaranteed for limits, typical or graph (Source "graph") for
 // typical figures.
 func Figures(p *catalog.Part, plan *Plan) PartFigures {
-	w := worst{leaves: plan.TempLow < RoomTemp || plan.TempHigh > RoomTemp,
-		derate: plan.DerateTyp, inflate: plan.InflateTyp}
-	if w.derate == 0 {
-		w.derate = DefaultDerateTyp
-	}
-	if w.inflate == 0 {
-		w.inflate = DefaultInflateTyp
-	}
+	w := newWorst(plan)
 	dtAbs := math.Max(math.Abs(plan.TempLow-RoomTemp), math.Abs(plan.TempHigh-RoomTemp))
 	dtHot := math.Max(0, plan.TempHigh-RoomTemp)
 	f := PartFigures{
@@ -124,6 +117,99 @@ func typBasis(s catalog.Source) Basis {
 type worst struct {
 	leaves          bool // the design's range leaves 25 °C
 	derate, inflate float64
+}
+
+// newWorst returns the rules of plan (the default factors where the plan
+// leaves them zero).
+func newWorst(plan *Plan) worst {
+	w := worst{leaves: plan.TempLow < RoomTemp || plan.TempHigh > RoomTemp,
+		derate: plan.DerateTyp, inflate: plan.InflateTyp}
+	if w.derate == 0 {
+		w.derate = DefaultDerateTyp
+	}
+	if w.inflate == 0 {
+		w.inflate = DefaultInflateTyp
+	}
+	return w
+}
+
+// WorstBound is the side a figure's worst case lies on: BoundMin for a
+// bigger-is-better figure (gbw, slew, aol, iout, vdiff_max, cload), whose
+// worst case is its lowest value, BoundMax for every other figure key
+// (offset, bias and noise, supply current, cin, the noise corners).
+func WorstBound(key string) Bound {
+	switch key {
+	case "gbw", "slew", "aol", "iout", "vdiff_max", "cload":
+		return BoundMin
+	}
+	return BoundMax
+}
+
+// byKey returns the worst-case figure under a catalog figure key for the
+// figures PartFigures holds.
+func (f *PartFigures) byKey(key string) (Figure, bool) {
+	switch key {
+	case "gbw":
+		return f.GBW, true
+	case "slew":
+		return f.Slew, true
+	case "aol":
+		return f.Aol, true
+	case "iout":
+		return f.Iout, true
+	case "vos":
+		return f.Vos, true
+	case "ib":
+		return f.Ib, true
+	case "ios":
+		return f.Ios, true
+	case "en":
+		return f.En, true
+	case "in":
+		return f.In, true
+	case "iq":
+		return f.Iq, true
+	}
+	return Figure{}, false
+}
+
+// FigureFor returns the worst-case figure of part p under a catalog figure
+// key ("vos", "gbw", "cload", …) for a bound: BoundMin asks for the lowest
+// value the part may have over the plan's range, BoundMax the highest. f
+// holds p's Figures at plan.
+//
+// On the side of a figure's worst case (WorstBound: the lower side of gbw,
+// slew, aol, iout, the upper side of vos, ib, ios, en, in, iq) this is the
+// figure every other check uses, with all its temperature rules. vos_drift's upper side is its max, else
+// typical × inflate_typ. Against the direction (a ceiling on GBW, a floor
+// on offset) the mirror rule applies without temperature moves: the upper
+// side is max_ot / max / typical × inflate_typ, the lower side min_ot / min
+// / typical × derate_typ (a dB figure moves by 20·log10 of the factor). A
+// single-quantity key (vdiff_max, cload, cin, en_corner, in_corner) is
+// its stated value, guaranteed, on both sides. ok is false for a key that
+// is no figure.
+func FigureFor(p *catalog.Part, f *PartFigures, plan *Plan, key string, b Bound) (fig Figure, ok bool) {
+	if v, ok := p.Scalar(key); ok {
+		return Figure{V: v.V, Known: v.Set, Basis: BasisGuaranteed}, true
+	}
+	s, ok := p.Spec(key)
+	if !ok {
+		return Figure{}, false
+	}
+	if b == WorstBound(key) {
+		if fig, ok := f.byKey(key); ok {
+			return fig, true
+		}
+	}
+	w := newWorst(plan)
+	if b == BoundMin {
+		return w.bigger(s), true
+	}
+	fig = w.smaller(s)
+	if key == "aol" && fig.Known && fig.Basis != BasisGuaranteed {
+		fig.V = s.Typ.V + circuit.DB(w.inflate)
+	}
+	return fig, true
 }
 
 func (w worst) bigger(s catalog.Spec) Figure {
@@ -255,4 +341,23 @@ func (w worst) cold(f Figure, k, dtCold float64) Figure {
 		f.Note = noteTypBipCold
 	}
 	return f
+}
+
+// TypicalFor returns the typical figure of part p under a catalog figure
+// key, as the catalog gives it (not derated or inflated), with basis
+// typical or graph; a single-quantity key is its stated value, guaranteed.
+// Known is false when the catalog gives no typical; ok is false for a key
+// that is no figure.
+func TypicalFor(p *catalog.Part, key string) (fig Figure, ok bool) {
+	if v, ok := p.Scalar(key); ok {
+		return Figure{V: v.V, Known: v.Set, Basis: BasisGuaranteed}, true
+	}
+	s, ok := p.Spec(key)
+	if !ok {
+		return Figure{}, false
+	}
+	if !s.Typ.Set {
+		return Figure{}, true
+	}
+	return Figure{V: s.Typ.V, Known: true, Basis: typBasis(s.Source)}, true
 }

@@ -21,9 +21,9 @@ t typical, r read off a graph) and one per design check (the margin), the
 best value of each row marked ◆ (md: bold and ◆; csv: a best column; json:
 "best"). Rows whose differences decide the choice come first: checks some
 of the parts fail, then checks and figures by how far apart they lie.
-Part ids are those of the catalog: opsift rank --all or opsift check list
-them. Parts with problems are set aside (listed on stderr) unless
---strict-catalog refuses the catalog; exit status as for rank.
+Part ids are those of the catalog: opsift list shows them all. Parts with
+problems are set aside (listed on stderr) unless --strict-catalog refuses
+the catalog; exit status as for rank.
 
 Options:
 `

@@ -104,7 +104,7 @@ func TestCompareErrors(t *testing.T) {
 		{"one id", []string{"compare", "tc-rr-quad"}, "want 2 to 6 PART-IDs, got 1"},
 		{"seven ids", []string{"compare", "a", "b", "c", "d", "e", "f", "g"}, "want 2 to 6 PART-IDs, got 7"},
 		{"unknown id", []string{"compare", "tc-rr-quad", "tb-fet-fas", "--catalog", rankCat}, `no part with id "tb-fet-fas" in the catalog; did you mean "tb-fet-fast"?`},
-		{"far id", []string{"compare", "tc-rr-quad", "zzzzzzzz", "--catalog", rankCat}, `no part with id "zzzzzzzz" in the catalog (opsift check lists the catalog)`},
+		{"far id", []string{"compare", "tc-rr-quad", "zzzzzzzz", "--catalog", rankCat}, `no part with id "zzzzzzzz" in the catalog (opsift list shows every part id)`},
 		{"twice", []string{"compare", "tc-rr-quad", "tc-rr-quad", "--catalog", rankCat}, `part "tc-rr-quad" given twice`},
 		{"format", []string{"compare", "tc-rr-quad", "tb-fet-fast", "--format", "toml", "--catalog", rankCat}, `--format "toml": want one of table, md, json, csv`},
 	}

@@ -174,6 +174,11 @@ lifecycle = ["active"]                     # default: anything but obsolete
 max_unit_cost = 1.0
 supply_current = "2 mA"    # budget for every channel of the packages used
 
+# [choose.limit]           # bounds on any catalog figure, checked at worst case
+# vos = { max = "5 mV" }   # over the temperature range above, like every check
+# ib = { max = "100 pA" }  # (keys: gbw, slew, aol, vos, vos_drift, ib, ios, en,
+# gbw = { min = "1 MHz", max = "20 MHz" }   # in, iq, iout, vdiff_max, cload, ...)
+
 [policy]                   # how figures known only as typical are treated
 derate_typ = 0.7           # bigger-is-better (gbw, slew, iout): x 0.7
 inflate_typ = 2.0          # smaller-is-better (vos, ib, iq, noise): x 2

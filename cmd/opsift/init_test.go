@@ -183,3 +183,35 @@ func TestInitDesignCaution(t *testing.T) {
 		t.Errorf("design.toml comments lack the caution %q:\n%s", caution, b)
 	}
 }
+
+// TestStarterDesignLimitExample uncomments the starter design's
+// [choose.limit] example: it must decode and derive to one limit.<figure>
+// requirement per side written, so the example a user copies works.
+func TestStarterDesignLimitExample(t *testing.T) {
+	var lines []string
+	for _, l := range strings.Split(starterDesign, "\n") {
+		for _, key := range []string{"[choose.limit]", "vos = ", "ib = ", "gbw = "} {
+			if rest, ok := strings.CutPrefix(l, "# "); ok && strings.HasPrefix(rest, key) {
+				l = rest
+			}
+		}
+		lines = append(lines, l)
+	}
+	d, err := filter.DecodeDesign("design.toml", []byte(strings.Join(lines, "\n")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	plan, err := filter.Derive(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var keys []string
+	for _, q := range plan.Global {
+		if strings.HasPrefix(string(q.Key), filter.LimitPrefix) {
+			keys = append(keys, string(q.Key)+" "+q.Bound.String())
+		}
+	}
+	if got := strings.Join(keys, ", "); got != "limit.gbw min, limit.gbw max, limit.vos max, limit.ib max" {
+		t.Errorf("limits of the uncommented example: %s", got)
+	}
+}

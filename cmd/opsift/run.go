@@ -18,6 +18,7 @@ type command struct {
 func commands() []command {
 	return []command{
 		{"rank", "rank the catalog's parts for a design", runRank},
+		{"list", "list every part with the figures you choose, sorted by any", runList},
 		{"derive", "show what a design needs from the op-amp, with formulas", runDerive},
 		{"check", "validate catalog files and summarise them", runCheck},
 		{"replace", "find parts that can take a part's place", runReplace},

@@ -1,11 +1,12 @@
 // Package preview is the adapter from opsift's design stages to the
-// time-domain model: given a derived plan, a stage and a part, it builds the
-// stage's circuit (filter/sim Follower … Transimpedance), the part's amp
-// from the same worst-case figures the engine's margins use
-// (filter.Figures), or from its typical figures on request, drives the
-// stage with the design's signal and runs the model.
+// time-domain model: given a derived plan, a stage and a part, it takes the
+// stage's circuit and drive from the stage kind (StagePlan.Circuit, built in
+// the kind's filter/stage_<kind>.go from the circuit its derivation
+// resolved), builds the part's amp from the same worst-case figures the
+// engine's margins use (filter.Figures), or from its typical figures on
+// request, and runs the model.
 //
-//	Plan ─► StagePlan (kind, gain, ref, signal, R/C) ─► sim.Circuit + sim.Input ─┐
+//	Plan ─► StagePlan.Circuit (ref, R/C, signal) ─► sim.Circuit + sim.Input ─────┐
 //	Part ─► filter.Figures (worst case) | typical  ─► sim.Amp (Aol, GBW, SR,    ├─► sim.Run ─► Result
 //	        swing at the design's rails and the stage's load, CM range) ───────┘
 //

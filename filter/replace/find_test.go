@@ -264,6 +264,10 @@ func TestLookup(t *testing.T) {
 			if len(tt.suggest) > 0 && (!strings.Contains(err.Error(), "did you mean") || !strings.Contains(err.Error(), "\""+tt.suggest[0]+"\"")) {
 				t.Errorf("message %q", err)
 			}
+			// Every unknown id points at the command that lists the ids.
+			if !strings.HasSuffix(err.Error(), "(opsift list shows every part id)") {
+				t.Errorf("message %q does not name opsift list", err)
+			}
 		})
 	}
 }

@@ -15,21 +15,23 @@ type UnknownPartError struct {
 	Suggestions []string
 }
 
-// Error names the id and offers the suggestions: "no part with id "x" in
-// the catalog; did you mean "y"?".
+// Error names the id, offers the suggestions and points at the command
+// that lists every id: "no part with id "x" in the catalog; did you mean
+// "y"? (opsift list shows every part id)".
 func (e *UnknownPartError) Error() string {
+	const hint = " (opsift list shows every part id)"
 	msg := fmt.Sprintf("no part with id %q in the catalog", e.ID)
 	switch len(e.Suggestions) {
 	case 0:
-		return msg + " (opsift check lists the catalog)"
+		return msg + hint
 	case 1:
-		return msg + fmt.Sprintf("; did you mean %q?", e.Suggestions[0])
+		return msg + fmt.Sprintf("; did you mean %q?", e.Suggestions[0]) + hint
 	}
 	q := make([]string, len(e.Suggestions))
 	for i, s := range e.Suggestions {
 		q[i] = fmt.Sprintf("%q", s)
 	}
-	return msg + "; did you mean one of " + strings.Join(q, ", ") + "?"
+	return msg + "; did you mean one of " + strings.Join(q, ", ") + "?" + hint
 }
 
 // maxSuggestions caps the ids an UnknownPartError offers.

@@ -10,7 +10,9 @@ import (
 // The set is closed; each type turns its component values into the linear
 // network the integrator works on.
 type Circuit interface {
-	// Kind names the stage the way design files do ("follower", …).
+	// Kind names the circuit for messages, in the words design files use
+	// for the stage it models ("follower", …); the stage kinds themselves
+	// live in package filter, which picks the circuit for each stage.
 	Kind() string
 	stage(a *ampParams) (*stage, error)
 }
