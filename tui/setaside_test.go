@@ -13,18 +13,6 @@ import (
 	"github.com/opsift/opsift/data"
 )
 
-// brokenPart is a part whose slew rate is written as a frequency.
-const brokenPart = `[[part]]
-id = "zz1-broken"
-name = "Part with a typo"
-tech = "cmos"
-channels = 1
-packages = ["soic8"]
-supply = { min = "2 V", max = "5.5 V" }
-gbw = { typ = "3 MHz" }
-slew = { typ = "3 MHz" }
-`
-
 // TestSelectorSetsAsideBadPart is the issue's case in the selector: the
 // demo catalog (52 parts) plus one broken part ranks the 52, the status
 // line counts the one set aside, and a reload keeps the partial catalog.
@@ -43,7 +31,11 @@ func TestSelectorSetsAsideBadPart(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	if err := os.WriteFile(filepath.Join(dir, "zz-broken.toml"), []byte(brokenPart), 0o644); err != nil {
+	broken, err := os.ReadFile(filepath.Join("..", "testdata", "partial", "broken.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "zz-broken.toml"), broken, 0o644); err != nil {
 		t.Fatal(err)
 	}
 	load := func() (*catalog.Catalog, error) {

@@ -2,33 +2,16 @@ package main
 
 import (
 	"encoding/json"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
 
-// brokenPart is one part whose slew rate is written as a frequency.
-const brokenPart = `[[part]]
-id = "zz1-broken"
-name = "Part with a typo"
-tech = "cmos"
-channels = 1
-packages = ["soic8"]
-supply = { min = "2 V", max = "5.5 V" }
-gbw = { typ = "3 MHz" }
-slew = { typ = "3 MHz" }
-`
-
 // demoPlusBroken returns the demo catalog directory (52 parts) and a file
-// holding one broken part: 53 parts, one of them bad.
+// holding one broken part, its slew rate on line 12: 53 parts, one bad.
 func demoPlusBroken(t *testing.T) (demo, bad string) {
 	t.Helper()
-	bad = filepath.Join(t.TempDir(), "broken.toml")
-	if err := os.WriteFile(bad, []byte(brokenPart), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return filepath.Join("..", "..", "data", "catalog"), bad
+	return filepath.Join("..", "..", "data", "catalog"), filepath.Join("..", "..", "testdata", "partial", "broken.toml")
 }
 
 // TestBadPartCostsOnePart: with one broken part out of 53, rank ranks the
@@ -37,7 +20,7 @@ func demoPlusBroken(t *testing.T) (demo, bad string) {
 func TestBadPartCostsOnePart(t *testing.T) {
 	demo, bad := demoPlusBroken(t)
 	cat := []string{"--catalog", demo, "--catalog", bad}
-	problem := bad + `:9: part "zz1-broken": field "slew": typ = "3 MHz" is a frequency`
+	problem := bad + `:12: part "zz1-broken": field "slew": typ = "3 MHz" is a frequency`
 
 	r := runOpsift(t, nil, append([]string{"rank", "--format", "json", "--all"}, cat...)...)
 	if r.code != 0 {
@@ -65,7 +48,7 @@ func TestBadPartCostsOnePart(t *testing.T) {
 	if doc.Parts != 52 || len(doc.SetAside) != 1 {
 		t.Fatalf("json: %d parts, set aside %+v; want 52 and one", doc.Parts, doc.SetAside)
 	}
-	if s := doc.SetAside[0]; s.Kind != "part" || s.ID != "zz1-broken" || s.File != bad || s.Line != 9 ||
+	if s := doc.SetAside[0]; s.Kind != "part" || s.ID != "zz1-broken" || s.File != bad || s.Line != 12 ||
 		len(s.Problems) != 1 || !strings.HasPrefix(s.Problems[0], problem) {
 		t.Errorf("json set_aside %+v", s)
 	}
@@ -97,7 +80,7 @@ func TestSetAsidePartByID(t *testing.T) {
 				bad1, good = append(bad1, "gp4-bip"), append(good, "rr4-cmos")
 			}
 			r := runOpsift(t, nil, append(bad1, "--catalog", demo, "--catalog", bad)...)
-			if r.code != 2 || !strings.Contains(r.stderr, `opsift: `+cmd+`: part "zz1-broken" is set aside for problems: `+bad+`:9:`) {
+			if r.code != 2 || !strings.Contains(r.stderr, `opsift: `+cmd+`: part "zz1-broken" is set aside for problems: `+bad+`:12:`) {
 				t.Errorf("exit %d, stderr:\n%s", r.code, r.stderr)
 			}
 			ok := runOpsift(t, nil, append(good, "--catalog", demo, "--catalog", bad)...)
