@@ -68,13 +68,17 @@ func stage() obj {
 	for _, k := range kinds {
 		t, _ := filter.TemplateFor(k)
 		summaries = append(summaries, k+": "+t.Summary())
-		props := obj{}
+		// name and kind again, so that additionalProperties inside the
+		// branch (which sees only the branch's own properties) leaves them
+		// alone: this closes the stage without unevaluatedProperties,
+		// which language servers on older drafts ignore.
+		props := obj{"name": obj{}, "kind": obj{}}
 		for _, p := range t.Params() {
 			put(props, strings.Split(p.Key, "."), p)
 		}
 		branches = append(branches, obj{
 			"if":   obj{"properties": obj{"kind": obj{"const": k}}, "required": []string{"kind"}},
-			"then": obj{"properties": props},
+			"then": obj{"properties": props, "additionalProperties": false},
 		})
 	}
 	return obj{
@@ -83,10 +87,9 @@ func stage() obj {
 			"name": obj{"type": "string", "pattern": "^[A-Za-z0-9_-]+$", "description": "the stage's name: letters, digits, _ or -"},
 			"kind": enum(kinds, "the stage template: "+strings.Join(summaries, "; ")),
 		},
-		"required":              []string{"name", "kind"},
-		"allOf":                 branches,
-		"unevaluatedProperties": false,
-		"description":           "one circuit stage",
+		"required":    []string{"name", "kind"},
+		"allOf":       branches,
+		"description": "one circuit stage",
 	}
 }
 

@@ -230,7 +230,13 @@ func TestSchemaExampleDecodes(t *testing.T) {
 			t.Errorf("%s: decoder does not know a schema key: %v", kind, err)
 		}
 		// And the reverse: every key the template takes is in the schema.
-		var want []string
+		// An unknown stage key fails the branch (additionalProperties).
+		st["gian"] = 11
+		if err := sch.Validate(roundTrip(t, design)); err == nil {
+			t.Errorf("%s: a stage with an unknown key passes the schema", kind)
+		}
+		delete(st, "gian")
+		want := []string{"kind", "name"} // repeated in the branch so additionalProperties spares them
 		for _, p := range mustTemplate(t, kind).Params() {
 			want = append(want, p.Key)
 		}
