@@ -47,14 +47,18 @@
 //     output-resistance approximation; the check's note says so).
 //   - Range margin = the smallest spare volts / span_min.
 //   - slew: sine 2π·f·Vo; square 0.8·2Vo/rise (10–90 % of the step).
-//   - gain error ε is split (circuit.GainErrorBudget): the aol floor takes
-//     ε/4 at DC, gbw the rest at f, so a single-pole part at both floors
-//     errs by exactly ε: (1 + NG/Aol)² + (NG·f/GBW)² = 1/(1−ε)².
-//   - gbw: sine NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) (single-pole loop, ≈ 8.09·NG·f at
-//     1 %); square NG·0.35/rise.
-//   - aol: from A_cl = NG/(1 + NG/Aol), Aol ≥ NG·(1 − ε/4)/(ε/4)
-//     (circuit.AolForGainError at ε/4); a square stage's gbw follows the
-//     rise time and does not draw on ε, so there Aol ≥ NG·(1 − ε)/ε.
+//   - gain error ε at f, single-pole loop: a part meets it when
+//     (1 + NG/Aol)² + (NG·f/GBW)² ≤ 1/(1−ε)² with its own worst-case Aol
+//     and GBW (loop-gain relation, Sedra & Smith).
+//   - aol: the DC floor Aol ≥ NG·(1 − ε)/ε (circuit.AolForGainError with
+//     all of ε): necessary, since below it no GBW helps.
+//   - gbw: sine, per part, NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with the
+//     part's own Aol (circuit.GBWForGainError; Requirement.Need). The
+//     requirement's Value is the floor as Aol → ∞, NG·f/√(1/(1−ε)² − 1)
+//     (≈ 7.02·NG·f at 1 %). A part with no Aol, or one below the aol floor,
+//     is held to the ε/4 split instead (circuit.GainErrorBudget: an Aol at
+//     NG·(1 − ε/4)/(ε/4) assumed, ≈ 8.09·NG·f at 1 %); the check's note
+//     says which. Square: NG·0.35/rise, which does not draw on ε.
 //
 // Every formula lives in filter/circuit with one test against its named
 // source; the templates call it and write the why line.
@@ -122,9 +126,10 @@
 // packages × unit cost, supply current = packages × channels × Iq.
 //
 // fmax per stage is the highest sine frequency at the stage's amplitude at
-// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG),
-// the inverses of the two requirement formulas (circuit.FullPowerBandwidth,
-// circuit.MaxFreqForGainError).
+// which slew and gbw still pass: min(SR/(2π·Vo), GBW·√(1/(1−ε)² − (1 +
+// NG/Aol)²)/NG) with the part's Aol as in its gbw check (the ε/4 split's
+// Aol without one), the inverses of the two requirement formulas
+// (circuit.FullPowerBandwidth, circuit.MaxFreqForGainError).
 //
 // # Speed
 //

@@ -145,17 +145,17 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 
 // stageFMax is the highest sine frequency at the stage's output amplitude
 // at which slew and gbw still pass: the inverses of the two requirement
-// formulas, circuit.FullPowerBandwidth (of SlewForSine) and
-// circuit.MaxFreqForGainError (of GainErrorBudget's gbw).
+// formulas, circuit.FullPowerBandwidth (of SlewForSine) and GBW over the
+// part's gbw need at 1 Hz (gainErrorGBW, linear in f).
 func stageFMax(sp *StagePlan, f *PartFigures) float64 {
 	if !sp.HasFMax() || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
-	fg, err := circuit.MaxFreqForGainError(f.GBW.V, sp.NoiseGain, sp.GainError)
-	if err != nil {
+	g1, _ := gainErrorGBW(sp.NoiseGain, 1, sp.GainError, f.Aol)
+	if !(g1 > 0) {
 		return math.NaN()
 	}
-	return math.Min(circuit.FullPowerBandwidth(f.Slew.V, sp.Vo), fg)
+	return math.Min(circuit.FullPowerBandwidth(f.Slew.V, sp.Vo), f.GBW.V/g1)
 }
 
 // check evaluates one requirement into c.
@@ -164,6 +164,28 @@ func (ev *evaluator) check(c *Check, q *Requirement, sp *StagePlan, p *catalog.P
 	if q.Aside != nil && !ev.summary {
 		c.Aside = q.Aside(p, f)
 	}
+	if q.Need != nil {
+		var note string
+		c.Required, note = q.Need(p, f)
+		ev.figure(c, q, sp, p, f, r)
+		if c.Status != StatusUnknown && !ev.summary {
+			c.Note = joinNote(c.Note, note)
+		}
+		return
+	}
+	ev.figure(c, q, sp, p, f, r)
+}
+
+// joinNote puts the note of a part's figure before a requirement's own.
+func joinNote(fig, need string) string {
+	if fig == "" {
+		return need
+	}
+	return fig + "; " + need
+}
+
+// figure evaluates one requirement into c against c.Required.
+func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.Part, f *PartFigures, r *Result) {
 	if q.Measure != nil {
 		ev.numeric(c, q.Bound, q.Measure(p, f))
 		return

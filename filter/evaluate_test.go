@@ -332,19 +332,25 @@ func TestMultiStage(t *testing.T) {
 	}
 }
 
-// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)² − 1/(1−ε/4)²)/NG), the inverses of
-// the slew and gbw requirements (by hand); at fmax both checks pass
-// with margin ≥ 0 and one binds at 0.
+// fmax is min(SR/(2π·Vo), GBW·√(1/(1−ε)² − (1 + NG/Aol)²)/NG), the
+// inverses of the slew and gbw requirements with the part's own Aol (by
+// hand from the single-pole error; Sedra & Smith loop-gain relation, from
+// memory); at fmax both checks pass with margin ≥ 0 and one binds at 0.
 func TestFMaxIsTheEdge(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
 		`kind = "noninverting"`+"\ngain = 10\n"+`ref = "0 V"`+"\n"+`signal = { peak = "0.5 V", freq = "1 kHz" }`))
 	part := basePart("x")
 	part.Slew = catalog.Spec{Min: opt(2e6)}
 	part.GBW = catalog.Spec{Min: opt(5e6)}
+	part.Aol = catalog.Spec{Min: opt(60)} // 1000 V/V: 1 % of the 1 % budget spent at DC
+	part.Slew = catalog.Spec{Min: opt(4e6)}
 	r := evalOne(t, p, part, filter.Options{})
-	fs := 2e6 / (2 * math.Pi * 5)
-	fg := 5e6 / (10 / math.Sqrt(1/(0.99*0.99)-1/(0.9975*0.9975)))
-	near(t, "fmax", r.FMax[0], math.Min(fs, fg), 1e-12)
+	fs := 4e6 / (2 * math.Pi * 5)
+	fg := 5e6 * math.Sqrt(1/(0.99*0.99)-1.01*1.01) / 10
+	if fg > fs {
+		t.Fatalf("by hand: gbw edge %g above slew edge %g; the case should bind on gbw", fg, fs)
+	}
+	near(t, "fmax", r.FMax[0], fg, 1e-12)
 	// Re-derive at fmax: the binding check sits at margin 0.
 	d, _ := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
 		`kind = "noninverting"`+"\ngain = 10\n"+`ref = "0 V"`+"\n"+`signal = { peak = "0.5 V", freq = "1 kHz" }`))

@@ -25,9 +25,11 @@ load_r = "10 kOhm"
 // Derive turns a design's circuit-level inputs into requirements, each
 // with the formula and numbers behind it. The slew rate a 1.1 V peak sine
 // at 2 kHz needs is 2π·2 kHz·1.1 V ≈ 13.8 kV/s (0.0138 V/µs); the GBW for 1 % gain error
-// at a noise gain of 11 is 11·2 kHz·8.09 ≈ 178 kHz: the single-pole loop
-// 1/√(1/(1−ε)² − 1/(1−ε/4)²) = 8.088 by hand, with ε/4 left to the Aol
-// floor (the design brief's 7.02 spends all of ε on GBW).
+// at a noise gain of 11 is at least 11·2 kHz·7.02 ≈ 154 kHz (the design
+// brief's single-pole loop with an ideal DC gain); each part is held to the
+// GBW its own Aol leaves room for, and a part without Aol to
+// 11·2 kHz·8.09 ≈ 178 kHz (1/√(1/(1−ε)² − 1/(1−ε/4)²) = 8.088 by hand,
+// with ε/4 left to the Aol).
 func ExampleDerive() {
 	d, err := filter.DecodeDesign("probe.toml", []byte(exampleDesign))
 	if err != nil {
@@ -44,7 +46,7 @@ func ExampleDerive() {
 	}
 	// Output:
 	// slew ≥ 0.0138 V/µs: 2π·f·Vo = 2π·2 kHz·1.1 V
-	// gbw ≥ 178 kHz: NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) = 11·2 kHz·8.09 (ε = 1 %, ε/4 of it left to the aol floor)
+	// gbw ≥ 154 kHz: NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with each part's own Aol; as Aol → ∞ 11·2 kHz·7.018 (ε = 1 %); 178 kHz for a part with no Aol (ε/4 left to it)
 }
 
 // Evaluate checks every part against the plan at worst case and Rank puts

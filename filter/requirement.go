@@ -82,6 +82,11 @@ type Requirement struct {
 	// template-specific check instead of the built-in rule for Key.
 	// Known false makes the check unknown.
 	Measure func(p *catalog.Part, f *PartFigures) Figure
+	// Need, when set, computes the required figure for a part instead of
+	// Value, with a constant note saying what was used (the amplifier gbw
+	// with the part's own Aol). Value is then the floor no part goes
+	// below, shown where no part is at hand (derive).
+	Need func(p *catalog.Part, f *PartFigures) (float64, string)
 	// Aside, when set, computes a per-part quantity shown beside the check
 	// (the transimpedance Cf, the relaxation stage's predicted frequency).
 	// It runs only when checks are kept (not in Options.Summary).

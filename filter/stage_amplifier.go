@@ -178,14 +178,19 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		Hz := catalog.Format(f, catalog.Hertz)
 		add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForSine(f, vo), Dim: catalog.VoltPerSecond,
 			Why: fmt.Sprintf("2π·f·Vo = 2π·%s·%s", Hz, V(vo))})
-		gbw, _, _, err := circuit.GainErrorBudget(ng, f, eps)
+		floor, err := circuit.GBWForGainError(ng, f, eps, math.Inf(1))
 		if err != nil {
 			return sp, fmt.Errorf("field \"gain_error\": %w", err)
 		}
-		k := gbw / (ng * f)
-		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − 1/(1−ε/4)²) = %s·%s·%.3g (ε = %s, ε/4 of it left to the aol floor)",
-				catalog.Format(ng, catalog.Dimensionless), Hz, k, catalog.Format(eps, catalog.Ratio))})
+		split, _, _, err := circuit.GainErrorBudget(ng, f, eps)
+		if err != nil {
+			return sp, fmt.Errorf("field \"gain_error\": %w", err)
+		}
+		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: floor, Dim: catalog.Hertz,
+			Need: func(_ *catalog.Part, pf *PartFigures) (float64, string) { return gainErrorGBW(ng, f, eps, pf.Aol) },
+			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with each part's own Aol; as Aol → ∞ %s·%s·%.4g (ε = %s); %s for a part with no Aol (ε/4 left to it)",
+				catalog.Format(ng, catalog.Dimensionless), Hz, floor/(ng*f),
+				catalog.Format(eps, catalog.Ratio), catalog.Format(split, catalog.Hertz))})
 	case "square":
 		rise, err := in.Need("signal.rise")
 		if err != nil {
@@ -202,12 +207,12 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: circuit.GBWForRise(ng, rise), Dim: catalog.Hertz,
 			Why: fmt.Sprintf("NG·0.35/rise = %s·0.35/%s", catalog.Format(ng, catalog.Dimensionless), s)})
 	}
-	// A sine's gain error is shared with gbw at f (GainErrorBudget); a
-	// square's settled level is a DC gain, and its gbw rule (rise) does not
-	// draw on ε, so the aol floor has all of it there.
-	epsDC, aolWhy := circuit.AolShare*eps, "20·log10(NG·(1−ε/4)/(ε/4)) = 20·log10(%s·(1 − %s)/%s): ε/4 of ε = %s at DC, from NG/(1 + NG/Aol) = NG·(1 − ε/4); gbw takes the rest"
+	// The aol floor is what DC alone allows: all of ε (NG·(1−ε)/ε). It is
+	// necessary, not sufficient, for a sine: the gbw check then asks for
+	// the loop gain at f that the part's own Aol leaves room for.
+	epsDC, aolWhy := eps, "20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s): all of ε = %s at DC, from NG/(1 + NG/Aol) = NG·(1 − ε); the gbw check counts what the part's Aol spends"
 	if sp.Shape == "square" {
-		epsDC, aolWhy = eps, "20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s): all of ε = %s on the settled level, from NG/(1 + NG/Aol) = NG·(1 − ε); gbw here follows the rise time"
+		aolWhy = "20·log10(NG·(1−ε)/ε) = 20·log10(%s·(1 − %s)/%s): all of ε = %s on the settled level, from NG/(1 + NG/Aol) = NG·(1 − ε); gbw here follows the rise time"
 	}
 	_, aolDB, err := circuit.AolForGainError(ng, epsDC)
 	if err != nil {
@@ -244,6 +249,33 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 		useInvertingInputR(&sp, a.invR, a.invName)
 	}
 	return sp, nil
+}
+
+// The notes of a sine stage's gbw check: which Aol its need was computed with.
+const (
+	noteGBWOwnAol   = "need with the part's own Aol: (1 + NG/Aol)² + (NG·f/GBW)² ≤ 1/(1−ε)²"
+	noteGBWNoAol    = "the catalog gives no Aol: need with ε/4 left to an Aol at NG·(1−ε/4)/(ε/4)"
+	noteGBWAolShort = "the part's Aol alone spends the gain error (see aol): need shown with ε/4 left to an Aol at NG·(1−ε/4)/(ε/4)"
+)
+
+// gainErrorGBW is the gain-bandwidth a single-pole part of worst-case DC
+// gain aol (dB) needs to keep a loop of noise gain ng within gain error
+// eps at f (circuit.GBWForGainError with the part's own Aol), and a note.
+// Without an Aol, or with one that alone spends ε, it is the ε/4 split
+// (circuit.GainErrorBudget).
+func gainErrorGBW(ng, f, eps float64, aol Figure) (float64, string) {
+	note := noteGBWNoAol
+	if aol.Known {
+		if g, err := circuit.GBWForGainError(ng, f, eps, circuit.FromDB(aol.V)); err == nil {
+			return g, noteGBWOwnAol
+		}
+		note = noteGBWAolShort
+	}
+	g, _, _, err := circuit.GainErrorBudget(ng, f, eps)
+	if err != nil {
+		return math.NaN(), note
+	}
+	return g, note
 }
 
 // appendErrorBudgets adds the dc_error and noise allowances a stage sets;

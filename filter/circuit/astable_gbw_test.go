@@ -64,6 +64,34 @@ func TestAstablePeriodLimitedAgainstNgspice(t *testing.T) {
 		assertRel(t, "error", 1/p/ideal-1, -0.116, 0.01)
 	})
 
+	t.Run("demo clock at both limits: the lengthenings overlap", func(t *testing.T) {
+		// The pickup-counter clock (33 kΩ, 10 nF, β = 10/37, ±6 V) at its
+		// derived gbw (410.34 kHz) and slew (1.2464 V/µs) for freq_error
+		// 5 %, each of which alone spends the 5 %. ngspice-39 runs it at
+		// 2553.73 Hz, 6.57 % under f0 = 2733.40 Hz. By hand from the periods:
+		// T0 = 365.85 µs, gbw alone +19.26 µs (T0/0.95), slew alone
+		// +15.13 µs, both +25.74 µs = 75 % of the sum 34.39 µs: the output
+		// already moves during the regeneration, so T0 + Δslew + Δgbw is
+		// not the period, only a bound above it here.
+		beta := HysteresisBeta(10e3, 27e3)
+		t0, _ := AstablePeriod(33e3, 10e-9, 0, beta, -6, 6)
+		sr := SlewForAstable(-6, 6, t0, PeriodStretch(0.05))
+		assertRel(t, "derived slew", sr, 1.246429e6, 1e-6)
+		both, err := AstablePeriodLimited(33e3, 10e-9, 0, beta, -6, 6, sr, 410338.54)
+		if err != nil {
+			t.Fatal(err)
+		}
+		spice := ngspiceFrequency(t, "relax-demo-clock-both")
+		assertRel(t, "frequency vs ngspice", 1/both, spice, 2e-4)
+		assertRel(t, "ngspice error", 1-spice*t0, 0.0657, 2e-3)
+		slewOnly, _ := AstablePeriodLimited(33e3, 10e-9, 0, beta, -6, 6, sr, inf)
+		gbwOnly, _ := AstablePeriodLimited(33e3, 10e-9, 0, beta, -6, 6, inf, 410338.54)
+		sum := (slewOnly - t0) + (gbwOnly - t0)
+		if r := (1/spice - t0) / sum; !(r > 0.7 && r < 0.8) {
+			t.Errorf("ngspice lengthening / (Δslew + Δgbw) = %.4f, want about 0.75", r)
+		}
+	})
+
 	t.Run("limits", func(t *testing.T) {
 		ideal, _ := AstablePeriod(10e3, 1e-9, 0, 0.5, -5, 5)
 		p, _ := AstablePeriodLimited(10e3, 1e-9, 0, 0.5, -5, 5, inf, 1e12)

@@ -45,14 +45,15 @@ func ClosedLoopBandwidth(gbw, ng float64) float64 {
 	return gbw / ng
 }
 
-// AolShare is the part of a stage's allowed gain error ε that the finite DC
-// open-loop gain may take; the loop gain at the signal frequency (GBW) takes
-// the rest (GainErrorBudget). Each rule spending the whole ε on its own
-// let a part at both limits miss by about 2× (7.6 % against 4 %). A quarter
-// keeps the gbw figure within about 15 % of the ideal-Aol formula at 1 %
-// (1.153 × 7.02·NG·f) while asking Aol for 12 dB more than the whole-ε
-// rule; the split is a choice (common practice, no source), stated in
-// derive's why lines and the README.
+// AolShare is the part of a stage's allowed gain error ε that an op-amp
+// whose catalog entry gives no DC open-loop gain is assumed to spend at DC
+// (its Aol taken at NG·(1 − ε/4)/(ε/4)); GBW then takes the rest
+// (GainErrorBudget). A part whose Aol is known is checked with its own Aol
+// instead (GBWForGainError), which is exact for a single-pole part and
+// never stricter than the split when its Aol is above the split's floor.
+// A quarter keeps the fallback gbw within about 15 % of the ideal-Aol
+// formula at 1 % (1.153 × 7.02·NG·f); the share is a choice (common
+// practice, no source), stated in derive's why lines and the README.
 const AolShare = 0.25
 
 // GBWForGainError returns the gain-bandwidth that keeps the closed-loop gain
@@ -93,15 +94,37 @@ func GainErrorBudget(ng, f, eps float64) (gbw, aolVV, aolDB float64, err error) 
 }
 
 // MaxFreqForGainError returns the highest frequency at which a loop of
-// noise gain ng around a single-pole op-amp of gain-bandwidth gbw keeps
-// within the gbw requirement of GainErrorBudget for eps: that requirement is
-// linear in f, so f = GBW/gbw(NG, 1 Hz, ε).
-func MaxFreqForGainError(gbw, ng, eps float64) (float64, error) {
-	g1, _, _, err := GainErrorBudget(ng, 1, eps)
+// noise gain ng around a single-pole op-amp of gain-bandwidth gbw and DC
+// open-loop gain aol (V/V; +Inf ideal) keeps its gain error within eps:
+// GBWForGainError is linear in f, so f = GBW/GBWForGainError(NG, 1 Hz, ε,
+// Aol) = GBW·√(1/(1−ε)² − (1 + NG/Aol)²)/NG.
+func MaxFreqForGainError(gbw, ng, eps, aol float64) (float64, error) {
+	g1, err := GBWForGainError(ng, 1, eps, aol)
 	if err != nil {
 		return 0, err
 	}
 	return gbw / g1, nil
+}
+
+// MaxNoiseGainForGainError returns the largest noise gain a loop around a
+// single-pole op-amp of gain-bandwidth gbw and DC open-loop gain aol (V/V)
+// can have at frequency f and keep its gain error within eps: the positive
+// root in NG of the single-pole error (1 + NG/Aol)² + (NG·f/GBW)² =
+// 1/(1−ε)² (GBWForGainError), a quadratic a·NG² + 2·NG/Aol − (K − 1) = 0
+// with a = 1/Aol² + (f/GBW)², K = 1/(1−ε)².
+func MaxNoiseGainForGainError(gbw, aol, f, eps float64) (float64, error) {
+	if !(eps > 0 && eps < 1) {
+		return 0, domainErr("noise gain for gain error", "eps", eps, "0 < eps < 1")
+	}
+	if !(gbw > 0 && aol > 0 && f >= 0) {
+		return 0, domainErr("noise gain for gain error", "gbw", gbw, "gbw > 0, aol > 0, f ≥ 0")
+	}
+	k := 1/((1-eps)*(1-eps)) - 1
+	b := 1 / aol
+	a := b*b + (f/gbw)*(f/gbw)
+	// The root (−b + √(b² + a·k))/a, written as k/(b + √(b² + a·k)) so that
+	// it stays accurate when b² ≫ a·k or a → 0.
+	return k / (b + math.Sqrt(b*b+a*k)), nil
 }
 
 // GBWForRise returns the gain-bandwidth that gives a 10–90 % rise time of

@@ -182,17 +182,63 @@ func TestRegenerationTimeConstant(t *testing.T) {
 }
 
 func TestMaxFreqForGainError(t *testing.T) {
-	// Inverse in f of GainErrorBudget's gbw: 1 MHz in NG 10 at 1 % reaches
-	// 1e6/(10·8.08842) = 12.3633 kHz (by hand, 8.08842 =
-	// 1/√(1/0.99² − 1/0.9975²)).
-	f, err := MaxFreqForGainError(1e6, 10, 0.01)
+	// Inverse in f of GBWForGainError. By hand from the single-pole error
+	// (Sedra & Smith loop-gain relation, from memory):
+	//   - 1 MHz, Aol 10⁵ (100 dB) in NG 10 at 1 % reaches
+	//     1e6·√(1/0.99² − 1.0001²)/10 = 14.178872 kHz;
+	//   - at the ε/4 split's Aol 10·0.9975/0.0025 = 3990 it reaches
+	//     1e6/(10·8.08842) = 12.36335 kHz (8.088415 = 1/√(1/0.99² − 1/0.9975²)).
+	for _, tc := range []struct {
+		aol, want float64
+	}{{1e5, 14178.872}, {3990, 12363.348}} {
+		f, err := MaxFreqForGainError(1e6, 10, 0.01, tc.aol)
+		if err != nil {
+			t.Fatal(err)
+		}
+		assertRel(t, "fmax", f, tc.want, 1e-6)
+		g, err := GBWForGainError(10, f, 0.01, tc.aol)
+		if err != nil {
+			t.Fatal(err)
+		}
+		assertRel(t, "round trip", g, 1e6, 1e-12)
+	}
+	if _, err := MaxFreqForGainError(1e6, 10, 0, 1e5); err == nil {
+		t.Error("eps 0: no error")
+	}
+	if _, err := MaxFreqForGainError(1e6, 10, 0.01, 990); err == nil {
+		t.Error("Aol at the whole-ε floor NG·(1−ε)/ε = 990: no error")
+	}
+}
+
+func TestMaxNoiseGainForGainError(t *testing.T) {
+	// By hand: GBW 1 MHz, Aol 10⁴, f 10 kHz, ε 1 %: the root of
+	// (10⁻⁸ + 10⁻⁴)·NG² + 2·10⁻⁴·NG − (1/0.99² − 1) = 0 is NG = 13.28366.
+	ng, err := MaxNoiseGainForGainError(1e6, 1e4, 1e4, 0.01)
 	if err != nil {
 		t.Fatal(err)
 	}
-	assertRel(t, "fmax", f, 12363.3, 1e-4)
-	g, _, _, _ := GainErrorBudget(10, f, 0.01)
-	assertRel(t, "round trip", g, 1e6, 1e-12)
-	if _, err := MaxFreqForGainError(1e6, 10, 0); err == nil {
-		t.Error("eps 0: no error")
+	assertRel(t, "NG", ng, 13.283657, 1e-6)
+	// Round trips through GBWForGainError, and at f = 0 the DC floor
+	// NG = Aol·ε/(1 − ε) (AolForGainError inverted).
+	for _, tc := range []struct{ gbw, aol, f, eps float64 }{
+		{1e6, 1e5, 14178.87, 0.01}, {584.698e3, 613.8, 24e3, 0.04}, {3e6, 1e7, 1e3, 0.001},
+	} {
+		ng, err := MaxNoiseGainForGainError(tc.gbw, tc.aol, tc.f, tc.eps)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, err := GBWForGainError(ng, tc.f, tc.eps, tc.aol)
+		if err != nil {
+			t.Fatal(err)
+		}
+		assertRel(t, "round trip", g, tc.gbw, 1e-9)
+	}
+	ng, _ = MaxNoiseGainForGainError(1e6, 1e4, 0, 0.01)
+	assertRel(t, "DC", ng, 1e4*0.01/0.99, 1e-12)
+	if _, err := MaxNoiseGainForGainError(1e6, 1e4, 1e3, 1); err == nil {
+		t.Error("eps 1: no error")
+	}
+	if _, err := MaxNoiseGainForGainError(0, 1e4, 1e3, 0.01); err == nil {
+		t.Error("gbw 0: no error")
 	}
 }

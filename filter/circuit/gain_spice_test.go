@@ -3,6 +3,7 @@ package circuit
 import (
 	"context"
 	"fmt"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -106,4 +107,45 @@ func runGainDeck(t *testing.T, deck string) float64 {
 		t.Fatal(err)
 	}
 	return v
+}
+
+// TestGBWForOwnAolAgainstNgspice: a single-pole op-amp whose Aol is its
+// own (well above the floor NG·(1−ε)/ε, or just above it) and whose GBW is
+// exactly GBWForGainError with that Aol errs by exactly ε in ngspice; 0.5 %
+// less GBW errs by more. Recorded ratios from ngspice-39 as above.
+func TestGBWForOwnAolAgainstNgspice(t *testing.T) {
+	_, errLook := exec.LookPath("ngspice")
+	live := errLook == nil
+	for _, tc := range []struct {
+		name            string
+		ng, f, eps, aol float64
+		kGBW            float64 // the op-amp's GBW as a multiple of the need
+		ratio           float64 // |A_cl|/NG from ngspice
+	}{
+		{"battery sense stage, Aol 94 dB, at the need", 5, 1e3, 0.01, 50118.72336, 1, 0.99},
+		{"battery sense stage, Aol 94 dB, GBW 0.5 % low", 5, 1e3, 0.01, 50118.72336, 0.995, 0.9899017412446},
+		{"demo gain stage, Aol 100 dB, at the need", 6.2, 24e3, 0.04, 1e5, 1, 0.96},
+		{"demo gain stage, Aol 100 dB, GBW 0.5 % low", 6.2, 24e3, 0.04, 1e5, 0.995, 0.9596216151894},
+		{"NG 100 at 1 %, Aol 1 % over the floor 9900, at the need", 100, 1e3, 0.01, 9999, 1, 0.99},
+		{"NG 100 at 1 %, Aol 1 % over the floor 9900, GBW 0.5 % low", 100, 1e3, 0.01, 9999, 0.995, 0.9899990124515},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			need, err := GBWForGainError(tc.ng, tc.f, tc.eps, tc.aol)
+			mustOK(t, err)
+			gbw := tc.kGBW * need
+			ratio := tc.ratio
+			if live {
+				ratio = runGainDeck(t, gainDeck(tc.ng, tc.f, gbw, tc.aol))
+				assertRel(t, "live ngspice vs recorded", ratio, tc.ratio, 1e-9)
+			}
+			got := 1 - ratio
+			assertRel(t, "closed form vs ngspice", gainErrorSinglePole(gbw, tc.aol, tc.ng, tc.f), got, 1e-8)
+			switch {
+			case tc.kGBW == 1 && math.Abs(got-tc.eps) > tc.eps*1e-8:
+				t.Errorf("at the need the error is %.9g, want exactly ε = %g", got, tc.eps)
+			case tc.kGBW < 1 && !(got > tc.eps):
+				t.Errorf("below the need the error is %.9g, want > ε = %g", got, tc.eps)
+			}
+		})
+	}
 }

@@ -64,9 +64,9 @@ func stageChecks(r *filter.Result, stage string) map[filter.Key]*filter.Check {
 }
 
 // freqLimits: a sine's slew need 2π·f·Vo and its gbw need (circuit's
-// GainErrorBudget) are linear in f; their inverses are the full-power
-// bandwidth SR/(2π·Vo) and f·available/required (the two halves of
-// filter's fmax).
+// GBWForGainError with the part's Aol, or GainErrorBudget without one) are
+// linear in f; their inverses are the full-power bandwidth SR/(2π·Vo) and
+// f·available/required (the two halves of filter's fmax).
 func freqLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter.Key]float64 {
 	out := map[filter.Key]float64{}
 	if sp.Shape != "sine" {
@@ -126,8 +126,12 @@ func windowLimit(w *filter.Check, x float64) (float64, bool) {
 }
 
 // gainLimits: noise gain NG = G + (NG − G) (non-inverting: NG = G;
-// inverting: NG = 1 + G). The gbw and aol floors are proportional to NG. Slew, swing and drive are linear in G as in
-// peakLimits; the DC error NG·(Vos + Ib·Rs) is linear in NG.
+// inverting: NG = 1 + G). The aol floor is proportional to NG, and so is
+// the gbw need of a square (rise) or of a sine on a part checked with the
+// ε/4 split; a sine's gbw need with the part's own Aol is not, and its
+// limit is the root of the single-pole error in NG
+// (circuit.MaxNoiseGainForGainError). Slew, swing and drive are linear in G
+// as in peakLimits; the DC error NG·(Vos + Ib·Rs) is linear in NG.
 func gainLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter.Key]float64 {
 	out := map[filter.Key]float64{}
 	g := sp.Gain
@@ -135,13 +139,14 @@ func gainLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter
 		return out
 	}
 	off := sp.NoiseGain - g
-	// Both the gbw and the aol floors are proportional to NG at a fixed
-	// signal and budget (NG·f/√(1/(1−ε)² − 1/(1−ε/4)²), NG·0.35/rise,
-	// NG·(1−ε′)/ε′: circuit.GainErrorBudget, GBWForRise, AolForGainError),
-	// so the check's own ratio available/required scales NG; nothing of the
-	// budget split is repeated here.
+	// The linear needs (NG·f/√(1/(1−ε)² − 1/(1−ε/4)²), NG·0.35/rise,
+	// NG·(1−ε)/ε: circuit.GainErrorBudget, GBWForRise, AolForGainError)
+	// scale NG by the check's own ratio available/required.
 	if x := c[filter.KeyGBW]; x != nil && x.Required > 0 && (sp.Shape == "sine" || sp.Shape == "square") {
 		out[filter.KeyGBW] = sp.NoiseGain*x.Available/x.Required - off
+		if ng, ok := ownAolNoiseGain(sp, x, c[filter.KeyAol]); ok {
+			out[filter.KeyGBW] = ng - off
+		}
 	}
 	if x := c[filter.KeyAol]; x != nil && x.Required > 0 {
 		out[filter.KeyAol] = sp.NoiseGain*circuit.FromDB(x.Available)/circuit.FromDB(x.Required) - off
@@ -166,4 +171,20 @@ func gainLimits(sp *filter.StagePlan, c map[filter.Key]*filter.Check) map[filter
 		out[filter.KeyDCError] = sp.NoiseGain*d.Required/d.Available - off
 	}
 	return out
+}
+
+// ownAolNoiseGain is the largest NG at which a sine's gbw check with the
+// part's own Aol still passes: ok is false for a square, without a known
+// aol check, or when the part's Aol alone spends ε (its gbw need is then
+// the linear ε/4 split; filter's gainErrorGBW).
+func ownAolNoiseGain(sp *filter.StagePlan, g, a *filter.Check) (float64, bool) {
+	if sp.Shape != "sine" || a == nil || !(sp.Freq > 0) {
+		return 0, false
+	}
+	aol := circuit.FromDB(a.Available)
+	if _, err := circuit.GBWForGainError(sp.NoiseGain, sp.Freq, sp.GainError, aol); err != nil {
+		return 0, false
+	}
+	ng, err := circuit.MaxNoiseGainForGainError(g.Available, aol, sp.Freq, sp.GainError)
+	return ng, err == nil
 }

@@ -90,16 +90,20 @@ func find(ls []Limit, stage, in string, dir Direction) (Limit, bool) {
 //     "Microelectronic Circuits", slew rate and full-power bandwidth; from
 //     memory), and its rearrangement for the peak, Vp = SR/(2π·f·G);
 //   - the single-pole closed loop |A| = NG/√((1 + NG/Aol)² + (NG·f/GBW)²)
-//     (Sedra & Smith, from memory) held to 1 − ε, with the aol floor taking
-//     ε/4 at DC (README, gain error), so 1 + NG/Aol = 1/(1 − ε/4):
-//     f = GBW·k/NG and NG = GBW·k/f, k = √(1/(1−ε)² − 1/(1−ε/4)²) = 0.123634
-//     at 1 %;
+//     (Sedra & Smith, from memory) held to 1 − ε with the part's own Aol
+//     (100 dB = 10⁵ V/V): f = GBW·√(1/(1−ε)² − (1 + NG/Aol)²)/NG =
+//     10 MHz·√(1/0.99² − 1.0001²)/10 = 141.7887 kHz; in NG the root of
+//     (1/Aol² + (f/GBW)²)·NG² + 2·NG/Aol − (1/(1−ε)² − 1) = 0, with
+//     f/GBW = 10⁻³: NG = 132.8357 (by hand, quadratic formula);
 //   - swing: G·Vp ≤ V+ − 1.5 V (the part's stated headroom);
 //   - rails: V+ − 1.5 V ≥ G·Vp and V+ − V− ≤ 36 V (arithmetic);
 //   - temperature: the rated range's end (the hard check).
 func TestHandCases(t *testing.T) {
 	d, plan := decodeDesign(t, "hand.toml", []byte(handDesign))
-	k := math.Sqrt(1/(0.99*0.99) - 1/(0.9975*0.9975)) // 0.123634
+	kDC := 1/(0.99*0.99) - 1                                   // 1/(1−ε)² − 1 at 1 %
+	a := 1e-10 + 1e-6                                          // 1/Aol² + (f/GBW)²
+	ngMax := (-1e-5 + math.Sqrt(1e-10+a*kDC)) / a              // 132.8357
+	fMax := 10e6 * math.Sqrt(kDC+1-(1+10/1e5)*(1+10/1e5)) / 10 // 141.7887 kHz
 	cases := []struct {
 		part, input string
 		dir         Direction
@@ -108,18 +112,18 @@ func TestHandCases(t *testing.T) {
 		method      Method
 		tol         float64
 	}{
-		// 0.35 V/µs / (2π·0.5 V) = 127.324 kHz (Vo = 10 × 50 mV), under gbw's 123.634 kHz.
+		// 0.35 V/µs / (2π·0.5 V) = 127.324 kHz (Vo = 10 × 50 mV), under gbw's 141.789 kHz.
 		{"hand-slow", "signal.freq", Up, 0.35e6 / (2 * math.Pi * 0.5), filter.KeySlew, ClosedForm, 1e-9},
-		// 10 MHz × 0.123634 / 10 = 123.634 kHz.
-		{"hand-fast", "signal.freq", Up, 10e6 * k / 10, filter.KeyGBW, ClosedForm, 1e-9},
+		// 10 MHz·√(1/0.99² − 1.0001²)/10 = 141.789 kHz.
+		{"hand-fast", "signal.freq", Up, fMax, filter.KeyGBW, ClosedForm, 1e-9},
 		// 0.35 V/µs / (2π·10 kHz·10) = 0.636620 V, under the swing's 1.35 V.
 		{"hand-slow", "signal.peak", Up, 0.35e6 / (2 * math.Pi * 10e3 * 10), filter.KeySlew, ClosedForm, 1e-9},
 		// (15 V − 1.5 V)/10 = 1.35 V.
 		{"hand-fast", "signal.peak", Up, 1.35, filter.KeyOutputRange, ClosedForm, 1e-9},
-		// 0.35 V/µs / (2π·10 kHz·50 mV) = 127.324, under gbw's 123.634.
+		// 0.35 V/µs / (2π·10 kHz·50 mV) = 127.324, under gbw's 132.836.
 		{"hand-slow", "gain", Up, 0.35e6 / (2 * math.Pi * 10e3 * 0.05), filter.KeySlew, ClosedForm, 1e-9},
-		// 10 MHz × 0.123634 / 10 kHz = 123.634 (NG = G).
-		{"hand-fast", "gain", Up, 10e6 * k / 10e3, filter.KeyGBW, ClosedForm, 1e-9},
+		// the quadratic's root 132.836 (NG = G).
+		{"hand-fast", "gain", Up, ngMax, filter.KeyGBW, ClosedForm, 1e-9},
 		// swing: V+ − 1.5 V ≥ 10 × 50 mV → V+ ≥ 2 V (before the inputs,
 		// V+ − 1 V ≥ 50 mV, and the 5 V minimum span, V+ ≥ −10 V).
 		{"hand-fast", "supply.pos", Down, 2, filter.KeyOutputRange, Bisection, 0},
