@@ -249,8 +249,10 @@ func TestInvertingNoiseGain(t *testing.T) {
 // = 35.2633 kHz (by hand; ngspice gives exactly 1 % there, see
 // circuit.TestGBWForOwnAolAgainstNgspice). GBW at the need passes at
 // margin 0, 0.5 % below fails; without an Aol the ε/4 split applies
-// (5·1 kHz·8.0884 = 40.442 kHz), and an Aol that alone spends ε falls back
-// to it too (the aol check fails such a part).
+// (5·1 kHz·8.0884 = 40.442 kHz). An Aol that alone spends ε leaves
+// nothing for GBW: the need is infinite, also when the aol check passes
+// at the limit (NG·(1−ε)/ε = 495 V/V = 53.8921 dB exactly: the DC error is
+// then ε by itself, so any finite GBW errs by more).
 func TestGBWNeedWithOwnAol(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "15 V"`+"\n"+`neg = "-15 V"`,
 		`kind = "noninverting"`+"\ngain = 5\n"+`ref = "0 V"`+"\n"+`signal = { peak = "10 mV", freq = "1 kHz" }`))
@@ -266,14 +268,21 @@ func TestGBWNeedWithOwnAol(t *testing.T) {
 		{"own Aol, GBW at the need", catalog.Spec{Min: opt(94)}, 35263.321, 35263.32, true, "own Aol", false},
 		{"own Aol, GBW 0.5 % low", catalog.Spec{Min: opt(94)}, 0.995 * 35263.321, 35263.32, false, "own Aol", false},
 		{"no Aol: the ε/4 split", catalog.Spec{}, 40e3, 40442, false, "no Aol", false},
-		{"Aol below the whole-ε floor", catalog.Spec{Min: opt(53)}, 40443, 40442, true, "alone spends", true},
+		{"Aol below the whole-ε floor", catalog.Spec{Min: opt(53)}, 1e9, math.Inf(1), false, "alone spends", true},
+		{"Aol exactly at the whole-ε floor", catalog.Spec{Min: opt(20 * math.Log10(495))}, 1e9, math.Inf(1), false, "alone spends", false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			part := basePart("x")
 			part.Aol, part.GBW = tc.aol, catalog.Spec{Min: opt(tc.gbw)}
 			r := evalOne(t, p, part, filter.Options{})
 			c := check(t, r, "s", filter.KeyGBW)
-			near(t, "need", c.Required, tc.need, 1e-5)
+			if math.IsInf(tc.need, 1) {
+				if !math.IsInf(c.Required, 1) {
+					t.Errorf("need = %g, want +Inf", c.Required)
+				}
+			} else {
+				near(t, "need", c.Required, tc.need, 1e-5)
+			}
 			if c.Pass != tc.pass || !strings.Contains(c.Note, tc.noteHas) {
 				t.Errorf("pass %v (margin %g) note %q, want pass %v and a note with %q", c.Pass, c.Margin, c.Note, tc.pass, tc.noteHas)
 			}

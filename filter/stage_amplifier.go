@@ -255,27 +255,28 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 const (
 	noteGBWOwnAol   = "need with the part's own Aol: (1 + NG/Aol)² + (NG·f/GBW)² ≤ 1/(1−ε)²"
 	noteGBWNoAol    = "the catalog gives no Aol: need with ε/4 left to an Aol at NG·(1−ε/4)/(ε/4)"
-	noteGBWAolShort = "the part's Aol alone spends the gain error (see aol): need shown with ε/4 left to an Aol at NG·(1−ε/4)/(ε/4)"
+	noteGBWAolShort = "the part's own Aol alone spends the whole gain error (1 + NG/Aol ≥ 1/(1−ε)): no GBW is enough"
 )
 
 // gainErrorGBW is the gain-bandwidth a single-pole part of worst-case DC
 // gain aol (dB) needs to keep a loop of noise gain ng within gain error
 // eps at f (circuit.GBWForGainError with the part's own Aol), and a note.
-// Without an Aol, or with one that alone spends ε, it is the ε/4 split
-// (circuit.GainErrorBudget).
+// Without an Aol it is the ε/4 split (circuit.GainErrorBudget); with one
+// that alone spends ε it is +Inf (the check fails by −100 %).
 func gainErrorGBW(ng, f, eps float64, aol Figure) (float64, string) {
-	note := noteGBWNoAol
 	if aol.Known {
 		if g, err := circuit.GBWForGainError(ng, f, eps, circuit.FromDB(aol.V)); err == nil {
 			return g, noteGBWOwnAol
 		}
-		note = noteGBWAolShort
+		// The DC loop-gain error alone reaches ε: even a part whose aol
+		// check passes at the limit (TieMargin) has nothing left for GBW.
+		return math.Inf(1), noteGBWAolShort
 	}
 	g, _, _, err := circuit.GainErrorBudget(ng, f, eps)
 	if err != nil {
-		return math.NaN(), note
+		return math.NaN(), noteGBWNoAol
 	}
-	return g, note
+	return g, noteGBWNoAol
 }
 
 // appendErrorBudgets adds the dc_error and noise allowances a stage sets;

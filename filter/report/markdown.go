@@ -95,7 +95,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 		for j := range r.Checks {
 			c := &r.Checks[j]
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
-				mdText(Need(c.Req)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
+				mdText(CheckNeed(c)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
 		writeMarkdownHeadroom(b, doc.Headroom(r))
 	}

@@ -196,6 +196,28 @@ func Need(q *filter.Requirement) string {
 	return strings.Join(q.Allowed, " | ")
 }
 
+// CheckNeed renders what a check asked of its part: Need, except that a
+// requirement computed per part (Requirement.Need: the gbw a sine stage
+// needs with the part's own Aol) shows that part's figure, "≥ 585 kHz",
+// and an unbounded one reads "more than any finite value".
+func CheckNeed(c *filter.Check) string {
+	q := c.Req
+	if q.Need == nil || (q.Bound != filter.BoundMin && q.Bound != filter.BoundMax) {
+		return Need(q)
+	}
+	if math.IsInf(c.Required, 1) {
+		return "more than any finite value"
+	}
+	if math.IsNaN(c.Required) {
+		return "?"
+	}
+	op := "≥ "
+	if q.Bound == filter.BoundMax {
+		op = "≤ "
+	}
+	return op + catalog.Format(c.Required, q.Dim)
+}
+
 // Has renders what the part offers for a check, in the requirement's unit.
 func Has(c *filter.Check, p *catalog.Part) string {
 	q := c.Req

@@ -180,7 +180,7 @@ func failingOrUnknown(r *filter.Result, strict bool) []*filter.Check {
 // missText says what a check needs, what the part has and by how much it
 // misses: "gain/slew needs ≥ 0.628 V/µs, has 0.35 V/µs (−44 %, typical)".
 func missText(c *filter.Check, p *catalog.Part) string {
-	need, has := Need(c.Req), Has(c, p)
+	need, has := CheckNeed(c), Has(c, p)
 	if c.Req.Key == filter.KeyCost && has != "?" {
 		// The COST column is packages × unit cost; the check is per unit.
 		need, has = need+" per unit", has+" per unit"
