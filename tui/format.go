@@ -10,6 +10,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // fit truncates s to w cells (with an ellipsis) and pads it with spaces
@@ -89,18 +90,9 @@ func bar(m float64, cells int) string {
 	return b.String()
 }
 
-// basisMark is the one-letter marker beside a figure that did not come
-// from a guaranteed limit: "~" for a typical table figure (derated or
-// inflated), "g" for a typical read off a graph, "" otherwise.
-func basisMark(b filter.Basis) string {
-	switch b {
-	case filter.BasisTypical:
-		return "~"
-	case filter.BasisGraph:
-		return "g"
-	}
-	return ""
-}
+// basisMark is the marker beside a figure that did not come from a
+// guaranteed limit, the same in every output (report.BasisMark).
+func basisMark(b filter.Basis) string { return report.BasisMark(b) }
 
 // bindingCheck returns the check that sets a result's worst margin, or nil.
 func bindingCheck(r *filter.Result) *filter.Check {

@@ -39,25 +39,13 @@ type CompareMeta struct {
 const BestMark = "◆"
 
 // compareLegend explains the mark and the basis letters.
-const compareLegend = BestMark + " best in the row. Basis: (g) guaranteed limit, (t) typical figure × the design's policy, " +
-	"(r) typical read off a graph × the policy. Rows whose differences decide the choice come first: " +
+const compareLegend = BestMark + " best in the row. Basis: unmarked guaranteed limit, ~ typical figure × the design's policy, " +
+	"g typical read off a graph × the policy; — the catalog does not give it; ? a check its figures cannot decide. Rows whose differences decide the choice come first: " +
 	"checks some parts fail, then checks and figures by how far apart they lie; rows with no difference last."
 
-// basisLetter abbreviates a basis for the table: g, t, r or "".
-func basisLetter(b filter.Basis) string {
-	switch b {
-	case filter.BasisGuaranteed:
-		return "g"
-	case filter.BasisTypical:
-		return "t"
-	case filter.BasisGraph:
-		return "r"
-	}
-	return ""
-}
-
 // compareCell renders one cell for people: a figure with its basis
-// letter, a check's margin (or pass/fail for a hard filter), "?" unknown.
+// mark (BasisMark), a check's margin (or pass/fail for a hard filter), "?" an
+// unknown check, "—" a figure the catalog does not give.
 func compareCell(r *compare.Row, c compare.Cell) string {
 	var s string
 	switch {
@@ -71,15 +59,13 @@ func compareCell(r *compare.Row, c compare.Cell) string {
 			s += " fail"
 		}
 	case !c.Known:
-		s = "?"
+		s = "—"
 	default:
 		s = catalog.Format(c.V, r.Dim)
 		if r.Key == "cost" {
 			s = cost(c.V)
 		}
-		if l := basisLetter(c.Basis); l != "" {
-			s += " (" + l + ")"
-		}
+		s = WithBasis(s, c.Basis)
 	}
 	return s
 }

@@ -51,25 +51,35 @@ func WriteList(w io.Writer, f Format, doc *ListDoc) error {
 	return fmt.Errorf("list: format %q is not one of table, csv, json, md", f)
 }
 
-// BasisMark is the mark a listing puts after a figure to say what it rests
-// on: "" guaranteed (or not a datasheet figure), "*" typical, "†" typical
-// read from a graph. BasisLegend explains the marks.
+// BasisMark is the one mark every output (tables, md, the selector) puts
+// after a figure to say what it rests on: "" a guaranteed limit (or not a
+// datasheet figure), "~" a typical figure, "g" a typical read off a graph.
+// BasisLegend explains the marks.
 func BasisMark(b filter.Basis) string {
 	switch b {
 	case filter.BasisTypical:
-		return "*"
+		return "~"
 	case filter.BasisGraph:
-		return "†"
+		return "g"
 	}
 	return ""
+}
+
+// WithBasis puts a figure's basis mark after its text, a space between
+// so the mark never reads as part of the unit: "0.273 V/µs g".
+func WithBasis(text string, b filter.Basis) string {
+	if m := BasisMark(b); m != "" {
+		return text + " " + m
+	}
+	return text
 }
 
 // BasisLegend is the line under a listing that explains BasisMark.
 func BasisLegend(typical bool) string {
 	if typical {
-		return "Figures as the catalog gives them: * typical, † typical read from a graph; unmarked: a stated limit (no typical exists for it); — the catalog does not give it."
+		return "Figures as the catalog gives them: ~ typical, g typical read off a graph; unmarked: a stated limit (no typical exists for it); — the catalog does not give it."
 	}
-	return "Figures at worst case: unmarked guaranteed limits; * typical × derate_typ or × inflate_typ; † the same, read from a graph; — the catalog does not give it."
+	return "Figures at worst case: unmarked guaranteed limits; ~ typical × derate_typ or × inflate_typ; g the same, read off a graph; — the catalog does not give it."
 }
 
 // ListCell renders one cell for people: the value with its unit and basis
@@ -89,7 +99,7 @@ func ListCell(c listing.Column, v listing.Cell) string {
 	case "unit_cost":
 		return cost(v.V)
 	}
-	return catalog.Format(v.V, c.Dim) + BasisMark(v.Basis)
+	return WithBasis(catalog.Format(v.V, c.Dim), v.Basis)
 }
 
 // Verdict is a row's verdict in words: "pass", "fails 2 check(s)", "" when
