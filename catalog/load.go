@@ -1,6 +1,8 @@
 package catalog
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -44,12 +46,24 @@ type Catalog struct {
 	// SetAside lists the parts and files left out, each with its
 	// problems (the same problems Load returns as its error).
 	SetAside []SetAside
+	// FileSums lists every catalog file read, in load order, with the hash of
+	// its content, so an export can say exactly which catalog it ranked.
+	FileSums []FileSum
 	// Figures counts the datasheet figures (gbw, slew, …) the final parts
 	// give; TypicalOnly those known only as a typical value, FromGraph
 	// those read off a graph, Estimated those marked as estimates.
 	Figures, TypicalOnly, FromGraph, Estimated int
 
 	byID map[string]*Part
+}
+
+// FileSum identifies one catalog file read: its name as shown in
+// positions, the SHA-256 of its bytes (lower-case hex) and how many valid
+// parts it gave.
+type FileSum struct {
+	Path   string
+	SHA256 string
+	Parts  int
 }
 
 // ByID returns the part with the given id, or nil.
@@ -99,6 +113,8 @@ func Load(srcs ...Layer) (*Catalog, error) {
 			c.Invalid += invalid
 			parts, dups := dropDuplicates(parts, seen)
 			c.Invalid += len(dups)
+			sum := sha256.Sum256(data)
+			c.FileSums = append(c.FileSums, FileSum{Path: src.display(f), SHA256: hex.EncodeToString(sum[:]), Parts: len(parts)})
 			fp = append(fp, dups...)
 			sortProblems(fp)
 			probs = append(probs, fp...)

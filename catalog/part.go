@@ -1,5 +1,10 @@
 package catalog
 
+import (
+	"strings"
+	"unicode"
+)
+
 // Opt is an optional number: a figure the catalog may or may not give.
 // The zero value is "not given".
 type Opt struct {
@@ -148,12 +153,37 @@ func (p *Part) Line(key string) int {
 	return p.Pos.Line
 }
 
-// HasPackage reports whether the part comes in package pkg.
+// HasPackage reports whether the part comes in package pkg, compared by
+// PackageKey: case and separators do not count ("SOIC-8" is "soic8").
 func (p *Part) HasPackage(pkg string) bool {
+	k := PackageKey(pkg)
 	for _, q := range p.Packages {
-		if q == pkg {
+		if PackageKey(q) == k {
 			return true
 		}
 	}
 	return false
+}
+
+// PackageKey is the form package names are compared in: lower case,
+// letters and digits only ("SOIC-8", "soic_8" and "soic8" are one package).
+// A name already in that form is returned as is, without allocating.
+func PackageKey(s string) string {
+	plain := true
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; !(c >= 'a' && c <= 'z' || c >= '0' && c <= '9') {
+			plain = false
+			break
+		}
+	}
+	if plain {
+		return s
+	}
+	var b strings.Builder
+	for _, r := range strings.ToLower(s) {
+		if unicode.IsLetter(r) || unicode.IsDigit(r) {
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
 }

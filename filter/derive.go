@@ -59,6 +59,7 @@ func Derive(d *Design) (*Plan, error) {
 	if len(p.Stages) == 0 {
 		return nil, &Error{File: d.file(), Err: errors.New("no [[stage]]: a design needs at least one stage")}
 	}
+	p.Warnings = p.designWarnings(d)
 	if b := d.Choose.SupplyCurrent; b.Set {
 		p.Global = append(p.Global, Requirement{Key: KeySupplyCurrent, Bound: BoundMax, Value: b.V,
 			Dim: catalog.Ampere, Unit: "A",

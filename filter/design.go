@@ -273,20 +273,20 @@ func parseParam(p Param, raw string) (Value, error) {
 	}
 	switch p.Kind {
 	case Choice:
-		for _, c := range p.Choices {
-			if c == raw {
-				return Value{Raw: raw, Set: true}, nil
-			}
+		if c, ok := choiceOf(p.Choices, raw); ok {
+			return Value{Raw: c, Set: true}, nil
 		}
-		return Value{}, fmt.Errorf("%q is not one of %s", raw, strings.Join(p.Choices, ", "))
+		return Value{}, choiceError(p.Choices, raw)
 	case List:
 		v := Value{Raw: raw, Set: true}
 		items := v.List()
 		if p.Choices != nil {
-			for _, it := range items {
-				if !contains(p.Choices, it) {
-					return Value{}, fmt.Errorf("%q is not one of %s", it, strings.Join(p.Choices, ", "))
+			for i, it := range items {
+				c, ok := choiceOf(p.Choices, it)
+				if !ok {
+					return Value{}, choiceError(p.Choices, it)
 				}
+				items[i] = c
 			}
 		}
 		v.Raw = strings.Join(items, ", ")
@@ -297,6 +297,27 @@ func parseParam(p Param, raw string) (Value, error) {
 		return Value{}, err
 	}
 	return Value{Raw: raw, V: x, Set: true}, nil
+}
+
+// choiceOf finds raw among choices the way names are matched everywhere
+// (catalog.PackageKey: case and separators do not count) and returns the
+// choice as spelled in the list.
+func choiceOf(choices []string, raw string) (string, bool) {
+	k := catalog.PackageKey(raw)
+	for _, c := range choices {
+		if catalog.PackageKey(c) == k {
+			return c, true
+		}
+	}
+	return "", false
+}
+
+// choiceError says a word is not one of the choices, with a did-you-mean.
+func choiceError(choices []string, raw string) error {
+	if s := nearest(catalog.PackageKey(raw), choices); s != "" {
+		return fmt.Errorf("%q is not one of %s (did you mean %q?)", raw, strings.Join(choices, ", "), s)
+	}
+	return fmt.Errorf("%q is not one of %s", raw, strings.Join(choices, ", "))
 }
 
 func contains(list []string, s string) bool {

@@ -238,6 +238,17 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 		fig := f.Iq
 		fig.V = r.SupplyCurrent
 		ev.numeric(c, q.Bound, fig)
+	case KeyTemperature, KeyPackage, KeyTech, KeyLifecycle, KeyCost:
+		ev.hardCheck(c, q, p)
+	default:
+		ev.unknown(c, noteUnknown)
+	}
+}
+
+// hardCheck evaluates one hard filter (temperature, package, tech,
+// lifecycle, cost) of part p into c.
+func (ev *evaluator) hardCheck(c *Check, q *Requirement, p *catalog.Part) {
+	switch q.Key {
 	case KeyTemperature:
 		if !p.Temp[0].Set || !p.Temp[1].Set {
 			ev.unknown(c, noteNoTemp)
@@ -269,8 +280,6 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 		}
 		c.Available = p.UnitCost.V
 		ev.hard(c, p.UnitCost.V <= q.Value)
-	default:
-		ev.unknown(c, noteUnknown)
 	}
 }
 

@@ -26,6 +26,7 @@ func FuzzDecodeDesign(f *testing.F) {
 	}
 	f.Add([]byte("title = \"a\\u001b[2J\"\n[[stage]]\nname = \"s\"\nkind = \"follower\"\n"))
 	f.Add([]byte("a = {a = {a = {a = 1}}}\n"))
+	f.Add([]byte("[supply]\npos = \"5 V\"\n[choose.limit]\nvos = { max = \"6 mV\" }\ngbw = { min = \"1 MHz\", max = \"9 MHz\" }\n\"v\\u001bos\" = { mx = \"1\" }\n[[stage]]\nname = \"s\"\nkind = \"follower\"\nsignal = { peak = \"1 V\", freq = \"1 kHz\" }\n"))
 	clean := func(t *testing.T, err error) {
 		t.Helper()
 		msg := err.Error()

@@ -197,19 +197,25 @@ func encodeLimits(d *Design) string {
 		if !ok {
 			continue
 		}
-		var sides []string
-		if l.Min.Set {
-			sides = append(sides, "min = "+quoteTOML(l.Min.Raw))
-		}
-		if l.Max.Set {
-			sides = append(sides, "max = "+quoteTOML(l.Max.Raw))
-		}
-		lines = append(lines, fk.Key+" = { "+strings.Join(sides, ", ")+" }")
+		lines = append(lines, fk.Key+" = "+limitTOML(l))
 	}
 	if len(lines) == 0 {
 		return ""
 	}
 	return "\n[choose.limit]\n" + strings.Join(lines, "\n") + "\n"
+}
+
+// limitTOML is the inline table a limit is written as:
+// { min = "1 MHz", max = "6 MHz" }.
+func limitTOML(l Limit) string {
+	var sides []string
+	if l.Min.Set {
+		sides = append(sides, "min = "+quoteTOML(l.Min.Raw))
+	}
+	if l.Max.Set {
+		sides = append(sides, "max = "+quoteTOML(l.Max.Raw))
+	}
+	return "{ " + strings.Join(sides, ", ") + " }"
 }
 
 // deriveLimits turns [choose.limit] into design-level requirements keyed

@@ -229,6 +229,10 @@ type Plan struct {
 	// hard filters, supply current); Stages hold each stage's own.
 	Global []Requirement
 	Stages []StagePlan
+	// Warnings are what is impossible or suspect in the design (an output
+	// beyond the rails, no temperature range); FilterWarnings adds those
+	// that need the catalog.
+	Warnings []Warning
 }
 
 // Requirements returns every requirement of the plan: design-level first,

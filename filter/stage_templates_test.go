@@ -54,7 +54,7 @@ func TestTemplateDeriveGolden(t *testing.T) {
 			}
 			for _, f := range formats {
 				var b bytes.Buffer
-				if err := report.WriteDerive(&b, f, p); err != nil {
+				if err := report.WriteDerive(&b, f, p, nil); err != nil {
 					t.Fatal(err)
 				}
 				ext := map[string]string{"json": ".json", "text": ".txt"}[f]

@@ -2,6 +2,7 @@ package filter
 
 import (
 	"strings"
+	"unicode"
 
 	"github.com/opsift/opsift/catalog"
 )
@@ -17,19 +18,14 @@ type Value struct {
 	Line int     // line in the design file, 0 when unknown or edited
 }
 
-// List splits a list value ("soic8, msop8") into its items.
+// List splits a list value into its items, at commas and spaces alike:
+// "soic8, msop8" and "soic8 msop8" are the same two items (no package,
+// technology or lifecycle name holds a space).
 func (v Value) List() []string {
-	if !v.Set || strings.TrimSpace(v.Raw) == "" {
+	if !v.Set {
 		return nil
 	}
-	parts := strings.Split(v.Raw, ",")
-	out := make([]string, 0, len(parts))
-	for _, p := range parts {
-		if p = strings.TrimSpace(p); p != "" {
-			out = append(out, p)
-		}
-	}
-	return out
+	return strings.FieldsFunc(v.Raw, func(r rune) bool { return r == ',' || unicode.IsSpace(r) })
 }
 
 // ParamKind says how a parameter is written and parsed.

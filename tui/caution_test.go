@@ -11,10 +11,11 @@ import (
 func statusLine(t *testing.T, m *Model) string {
 	t.Helper()
 	lines := strings.Split(m.View(), "\n")
-	if len(lines) < 2 {
+	foot := len(m.footLines()) // the key help under it wraps to one or two lines
+	if len(lines) < 1+foot {
 		t.Fatalf("screen of %d lines", len(lines))
 	}
-	return lines[len(lines)-2]
+	return lines[len(lines)-1-foot]
 }
 
 // TestCautionOnEveryScreen: the status area carries the advisory note in

@@ -8,6 +8,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // checksPane shows every check of the selected candidate, grouped by stage
@@ -31,6 +32,10 @@ func checkColumns() []column {
 		{title: "note", width: 8, prio: 1, flex: true},
 	}
 }
+
+// noteIndent is where a check's note starts on its detail lines: under
+// the check's key.
+const noteIndent = 12
 
 // outcome is a check's result in words, with a symbol, never colour alone.
 func outcome(c *filter.Check) string {
@@ -130,19 +135,29 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			if basis == "" {
 				basis = "—"
 			}
-			note := c.Note
+			note := safe.Text(c.Note)
 			if note == "" {
-				note = st.Why.Render(safe.Text(c.Req.Why))
+				note = safe.Text(c.Req.Why)
 			}
 			if a := c.Aside.Text(); a != "" {
-				note = a + " · " + note
+				note = safe.Text(a) + " · " + note
 			}
-			margin := marginText(c.Margin)
+			// A note longer than its column is read in full on detail lines
+			// under the row, wrapped, rather than cut.
+			var detail []string
+			if nw := widths[len(widths)-1]; present.Width(note) > nw {
+				detail = wrap(note, max(10, w-noteIndent))
+				note = ""
+			}
+			margin := present.Margin(c.Margin)
 			if c.Status == filter.StatusFail {
 				margin = st.Fail.Render(margin)
 			}
-			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, note}
+			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, st.Why.Render(note)}
 			out = append(out, fit(row(cols, widths, cells), w))
+			for _, l := range detail {
+				out = append(out, st.Why.Render(fit(strings.Repeat(" ", noteIndent)+l, w)))
+			}
 		}
 	}
 	return out
@@ -166,7 +181,7 @@ func (p *checksPane) groupLine(r *filter.Result, stage string, w int) string {
 		case filter.StatusFail:
 			f := string(c.Req.Key)
 			if c.HasMargin() {
-				f += " " + marginText(c.Margin)
+				f += " " + present.Margin(c.Margin)
 			}
 			fails = append(fails, f)
 		case filter.StatusUnknown:
@@ -241,10 +256,10 @@ func (p *checksPane) summary(r *filter.Result) string {
 	if r.Pass {
 		b.WriteString(st.Pass.Render("✓ passes"))
 		if !math.IsNaN(r.WorstMargin) {
-			fmt.Fprintf(&b, " · worst %s at %s", marginText(r.WorstMargin), checkName(r.Binding.Stage, r.Binding.Key))
+			fmt.Fprintf(&b, " · worst %s at %s", present.Margin(r.WorstMargin), present.CheckName(r.Binding.Stage, r.Binding.Key))
 		}
 	} else {
-		b.WriteString(st.Fail.Render(fmt.Sprintf("✗ fails %d check(s)", r.Failed)))
+		b.WriteString(st.Fail.Render("✗ fails: " + failingText(r)))
 	}
 	if r.Unknown > 0 {
 		fmt.Fprintf(&b, " · %d unknown", r.Unknown)
@@ -258,6 +273,27 @@ func (p *checksPane) summary(r *filter.Result) string {
 	}
 	fmt.Fprintf(&b, " · %s · %s", safe.Text(strings.Join(r.Part.Packages, " ")), safe.Text(string(r.Part.Lifecycle)))
 	return b.String()
+}
+
+// failingText names a failing part's failing checks, worst miss first
+// (present.FailingFirst), each by its reason and margin: "gain/gbw -23 %,
+// package not offered".
+func failingText(r *filter.Result) string {
+	var out []string
+	for _, c := range present.FailingFirst(r) {
+		if c.Status != filter.StatusFail {
+			break
+		}
+		t := present.Reason(c)
+		if c.HasMargin() {
+			t += " " + present.Margin(c.Margin)
+		}
+		out = append(out, t)
+	}
+	if len(out) == 0 {
+		return fmt.Sprintf("%d unknown", r.Unknown) // strict: unknown figures only
+	}
+	return strings.Join(out, ", ")
 }
 
 // blank is n empty lines of w cells.

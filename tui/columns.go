@@ -1,6 +1,10 @@
 package tui
 
-import "strings"
+import (
+	"strings"
+
+	"github.com/opsift/opsift/filter/present"
+)
 
 // column is one column of a table pane.
 type column struct {
@@ -13,48 +17,18 @@ type column struct {
 
 // fitColumns picks the columns that fit in w cells (one space between
 // columns), dropping the lowest priority first, and widens the flex
-// column to use the rest. It returns the widths, 0 for a dropped column.
+// column to use the rest (present.Fit, the one column fitter). It returns
+// the widths, 0 for a dropped column.
 func fitColumns(cols []column, w int) []int {
-	keep := make([]bool, len(cols))
-	for i := range keep {
-		keep[i] = true
-	}
-	need := func() int {
-		n, k := 0, 0
-		for i, c := range cols {
-			if keep[i] {
-				n += c.width
-				k++
-			}
-		}
-		return n + max(0, k-1)
-	}
-	for need() > w {
-		drop := -1
-		for i, c := range cols {
-			if keep[i] && (drop < 0 || c.prio < cols[drop].prio) {
-				drop = i
-			}
-		}
-		if drop < 0 {
-			break
-		}
-		keep[drop] = false
-	}
-	widths := make([]int, len(cols))
-	spare := w - need()
+	pc := make([]present.Column, len(cols))
 	for i, c := range cols {
-		if !keep[i] {
-			continue
-		}
-		widths[i] = c.width
-		if c.flex && spare > 0 {
-			widths[i] += spare
-			spare = 0
-		}
+		pc[i] = present.Column{Width: c.width, Drop: 1 + maxPrio - c.prio, Flex: c.flex}
 	}
-	return widths
+	return present.Fit(pc, w, 1)
 }
+
+// maxPrio is the highest column priority: a column of it is dropped last.
+const maxPrio = 100
 
 // row joins cells into a line, fitting each to its column's width and
 // leaving out dropped columns.

@@ -18,6 +18,11 @@
 //	      ─► dropped unless gen is the newest ─► previewPane ─► tui/plot
 //	R ─► replace.Find with the plan in force ─► replacer (its own mode)
 //
+//	edit ─► undo stack, edits against the saved design ─► header "modified"
+//	w ─► filter.UpdateDesignText(saved text, design) ─► report.WriteFile ─► new saved base
+//	design file changed (fsnotify, debounced) ─► no edits: taken │ edits: ask reload / keep mine
+//	q ─► no edits: quit │ edits: ask save / discard / cancel (keep.go)
+//
 // The root Model holds routing (the mode with the keyboard, the focused
 // pane, the detail shown), the state the panes share — the design in
 // force, the catalog (catalogState), the ranking (ranking: plan, results,
@@ -30,7 +35,7 @@
 // offsets kept in range, inputs sized), so View is a pure function of the
 // model. File writes (export, save) run as tea.Cmds whose result comes
 // back as a writtenMsg. Each mode (browse, edit, find, prompt, help,
-// replace) has its own update function; the right-hand detail area
+// replace, ask) has its own update function; the right-hand detail area
 // switches on a detail kind: the checks pane or the waveform preview.
 // Styles come from a Theme of ANSI colours 0–15 and a lipgloss renderer
 // chosen by the caller (no colour for NO_COLOR and tests).

@@ -20,7 +20,7 @@ import (
 // TestEndToEnd drives the whole program with teatest at the two sizes the
 // layout is made for: start on the demo, raise the gain stage's frequency
 // until the top candidate drops out, show the failing parts, mark two parts
-// and export them as Markdown. The screen after each step is compared
+// and export them as Markdown, then quit discarding the unsaved edit. The screen after each step is compared
 // with a golden file (go test ./tui -update rewrites them) and the export
 // is read back.
 func TestEndToEnd(t *testing.T) {
@@ -70,7 +70,10 @@ func TestEndToEnd(t *testing.T) {
 			tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 			out.waitFor(t, "exported 2 parts")
 
+			// The frequency edit is unsaved: q asks, d discards and quits.
 			tm.Type("q")
+			out.waitFor(t, "d discard and quit")
+			tm.Type("d")
 			tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
 			fm := tm.FinalModel(t).(*Model)
 
@@ -94,6 +97,10 @@ func TestEndToEnd(t *testing.T) {
 				fm.design.Title,     // the design
 				"2π·250 kHz·2.79 V", // a requirement with its formula, at the edited frequency
 				"advisory",          // the caution
+				"## Made from",      // what it was made from, as the CLI's md
+				"**with unsaved edits**",
+				"edited: " + gainFreq + " = 250 kHz", // the title names the edit
+				"| " + gainFreq + " | 250 kHz | yes |",
 			} {
 				if !strings.Contains(md, want) {
 					t.Errorf("exported Markdown lacks %q:\n%s", want, md)

@@ -25,7 +25,10 @@ type rankedMsg struct {
 	gen     uint64
 	plan    *filter.Plan
 	results []filter.Result
-	took    time.Duration
+	// warnings are the plan's own and those about its filters against the
+	// catalog (a package no part comes in, filters that leave no part).
+	warnings []filter.Warning
+	took     time.Duration
 }
 
 // explain fills in the checks of a result evaluated in summary mode: the
@@ -45,5 +48,6 @@ func (j rankJob) run() tea.Msg {
 	start := time.Now()
 	res := filter.Evaluate(j.plan, j.parts, j.opts)
 	filter.Rank(res, j.sort)
-	return rankedMsg{gen: j.gen, plan: j.plan, results: res, took: time.Since(start)}
+	warns := append(append([]filter.Warning(nil), j.plan.Warnings...), filter.FilterWarnings(j.plan, j.parts)...)
+	return rankedMsg{gen: j.gen, plan: j.plan, results: res, warnings: warns, took: time.Since(start)}
 }

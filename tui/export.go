@@ -3,6 +3,9 @@ package tui
 import (
 	"bytes"
 	"fmt"
+	"path/filepath"
+	"strings"
+	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -13,8 +16,10 @@ import (
 // writtenMsg carries the end of a file write started from the prompt:
 // done is the status message on success, err why it failed.
 type writtenMsg struct {
-	done string
-	err  error
+	path  string
+	done  string
+	err   error
+	saved *savedState // a design save: the new base (keep.go)
 }
 
 // writeFile writes data to path off the UI path, through the one atomic
@@ -22,9 +27,9 @@ type writtenMsg struct {
 func writeFile(path string, data []byte, done, what string) tea.Cmd {
 	return func() tea.Msg {
 		if err := report.WriteFile(path, data); err != nil {
-			return writtenMsg{err: fmt.Errorf("%s: %w", what, err)}
+			return writtenMsg{path: path, err: fmt.Errorf("%s: %w", what, err)}
 		}
-		return writtenMsg{done: done}
+		return writtenMsg{path: path, done: done}
 	}
 }
 
@@ -43,8 +48,8 @@ func (m *Model) exportShortlist(path string, f report.Format) (tea.Cmd, error) {
 	for i := range res {
 		explain(m.rank.resPlan, &res[i], m.rank.strict) // copies: the ranking is not written
 	}
-	doc := &report.Doc{Plan: m.rank.resPlan, Results: res, Sort: m.narrow.sortKey(), All: true,
-		Strict: m.rank.strict, Sources: m.cat.Sources}
+	doc := &report.Doc{Plan: m.exportPlan(), Results: res, Sort: m.narrow.sortKey(), All: true,
+		Strict: m.rank.strict, Sources: m.cat.Sources, Meta: m.exportMeta()}
 	var buf bytes.Buffer
 	if err := report.Write(&buf, f, doc); err != nil {
 		return nil, fmt.Errorf("export %s: %w", path, err)
@@ -53,26 +58,90 @@ func (m *Model) exportShortlist(path string, f report.Format) (tea.Cmd, error) {
 	return writeFile(path, buf.Bytes(), done, "export"), nil
 }
 
-// saveDesign encodes the design in force as design TOML and returns the
-// command that writes it to path.
-func (m *Model) saveDesign(path string) (tea.Cmd, error) {
-	var buf bytes.Buffer
-	if err := filter.EncodeDesign(&buf, m.design); err != nil {
-		return nil, fmt.Errorf("save design: %w", err)
+// exportMeta says what an export was made from, like every JSON output of
+// the command line: version, date, the design file and whether it has
+// unsaved edits (the inputs themselves come from the plan), the catalog
+// files with their hashes, and the warnings about the filters.
+func (m *Model) exportMeta() *report.Meta {
+	file := m.saved.path
+	if file == "" {
+		file = "embedded demo design " + m.design.Name
 	}
-	return writeFile(path, buf.Bytes(), "saved the design to "+path, "save design"), nil
+	meta := &report.Meta{Version: m.cfg.Version, Generated: time.Now(), File: file, Modified: m.modified(),
+		Sources: m.cat.FileSums, Strict: m.rank.strict}
+	if m.rank.resPlan != nil {
+		meta.Warnings = filter.FilterWarnings(m.rank.resPlan, m.cat.Parts)
+	}
+	return meta
 }
 
-// adoptWritten reports a finished write. On success the prompt closes; on
-// failure it stays open to try another path.
-func (m *Model) adoptWritten(msg writtenMsg) {
+// exportPlan is the plan an export is written from. With unsaved edits its
+// title says what was edited: the title is the user's own text and may
+// name a value the edit changed ("±12 V" after V+ became 24 V).
+func (m *Model) exportPlan() *filter.Plan {
+	if !m.modified() {
+		return m.rank.resPlan
+	}
+	p := *m.rank.resPlan
+	p.Title = editedTitle(p.Title, m.design, m.edits)
+	return &p
+}
+
+// editedTitle is title followed by the edited inputs with their text in
+// force: "Line driver — edited: supply.pos = 24 V, stage.gain.gain = 20".
+func editedTitle(title string, d *filter.Design, edits []string) string {
+	raw := map[string]string{}
+	for _, f := range d.Fields() {
+		switch {
+		case f.Set:
+			raw[f.Path] = f.Raw
+		case f.Default != "":
+			raw[f.Path] = "(default " + f.Default + ")"
+		default:
+			raw[f.Path] = "(not given)"
+		}
+	}
+	var parts []string
+	for i, path := range edits {
+		if i == maxTitleEdits {
+			parts = append(parts, fmt.Sprintf("%d more", len(edits)-i))
+			break
+		}
+		v, ok := raw[path]
+		if !ok {
+			v = "(removed)"
+		}
+		parts = append(parts, path+" = "+v)
+	}
+	if title == "" {
+		return "edited: " + strings.Join(parts, ", ")
+	}
+	return title + " — edited: " + strings.Join(parts, ", ")
+}
+
+// maxTitleEdits is how many edited inputs an export's title names; the
+// "Made from" block and the JSON design inputs list every one.
+const maxTitleEdits = 6
+
+// adoptWritten reports a finished write. On success the prompt closes
+// and its directory is remembered; on failure the prompt stays open with
+// the error in it, to try another path.
+func (m *Model) adoptWritten(msg writtenMsg) tea.Cmd {
 	m.prompt.writing = false
 	if msg.err != nil {
-		m.setError(msg.err)
-		return
+		m.prompt.err = msg.err.Error()
+		if m.mode != modePrompt {
+			m.setError(msg.err)
+		}
+		return nil
 	}
 	if m.mode == modePrompt {
 		m.mode = modeBrowse
 	}
+	m.lastDir = filepath.Dir(msg.path)
 	m.setMessage("%s", msg.done)
+	if msg.saved != nil {
+		return m.adoptSaved(msg.saved)
+	}
+	return nil
 }

@@ -24,6 +24,10 @@ type form struct {
 	offset int
 	follow bool
 
+	// edited holds the paths of the inputs that differ from the file,
+	// marked "*" beside their label; the root sets it when it settles.
+	edited map[string]bool
+
 	input   textinput.Model
 	editing bool
 	before  string // the field's text when editing began (esc restores it)
@@ -141,10 +145,23 @@ type formLine struct {
 
 // lines lays the pane out at width w: section headings, fields, inline
 // errors and the requirements with their formulas.
-func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
+func (f *form) lines(plan *filter.Plan, warns []filter.Warning, w int) []formLine {
 	st := &f.u.st
 	var out []formLine
 	add := func(s string, field int) { out = append(out, formLine{s, field}) }
+	// Warnings first: an impossible design or a filter that leaves no part
+	// is the first thing to read.
+	for _, wn := range warns {
+		for i, l := range wrap("⚠ "+safe.Text(wn.String()), w-2) {
+			if i > 0 {
+				l = "  " + l
+			}
+			add(st.Warning.Render(fit(l, w)), -1)
+		}
+	}
+	if len(warns) > 0 {
+		add(fit("", w), -1)
+	}
 	labelW, valueW := formWidths(w)
 	prev := ""
 	globalDone := false
@@ -176,6 +193,9 @@ func (f *form) lines(plan *filter.Plan, designName string, w int) []formLine {
 		mark := "  "
 		if i == f.cursor {
 			mark = "▸ "
+		}
+		if f.edited[fl.Path] {
+			mark = mark[:len(mark)-1] + "*"
 		}
 		var value string
 		switch {
@@ -262,9 +282,13 @@ func requirementText(r *filter.Requirement) string {
 	return k
 }
 
-// title is the pane's heading for design.
-func formTitle(design *filter.Design) string {
+// formTitle is the pane's heading for design; edited says how many inputs
+// differ from the file.
+func formTitle(design *filter.Design, edited int) string {
 	title := "DESIGN"
+	if edited > 0 {
+		title += " · modified"
+	}
 	if design.Title != "" {
 		title += " · " + safe.Text(design.Title)
 	}
@@ -274,10 +298,10 @@ func formTitle(design *filter.Design) string {
 // settle sizes the text input and scrolls so the cursor's field shows
 // (while follow is on), keeping the offset inside the lines of a pane of
 // w×h.
-func (f *form) settle(plan *filter.Plan, design *filter.Design, w, h int) {
+func (f *form) settle(plan *filter.Plan, warns []filter.Warning, w, h int) {
 	_, valueW := formWidths(w)
 	f.input.Width = max(1, valueW-1)
-	lines := f.lines(plan, design.Name, w)
+	lines := f.lines(plan, warns, w)
 	body := max(0, h-1)
 	if f.follow {
 		first, last := -1, -1
@@ -307,10 +331,10 @@ func (f *form) settle(plan *filter.Plan, design *filter.Design, w, h int) {
 
 // draw draws the pane into h lines of w cells, the first being the title;
 // the offset is settled in Update.
-func (f *form) draw(plan *filter.Plan, design *filter.Design, focused bool, w, h int) []string {
-	lines := f.lines(plan, design.Name, w)
+func (f *form) draw(plan *filter.Plan, warns []filter.Warning, design *filter.Design, edited int, focused bool, w, h int) []string {
+	lines := f.lines(plan, warns, w)
 	out := make([]string, 0, h)
-	out = append(out, paneHeading(&f.u.st, formTitle(design), focused, w))
+	out = append(out, paneHeading(&f.u.st, formTitle(design, edited), focused, w))
 	for i := f.offset; i < len(lines) && len(out) < h; i++ {
 		out = append(out, lines[i].text)
 	}

@@ -10,6 +10,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -39,26 +40,13 @@ func fitRight(s string, w int) string {
 	return strings.Repeat(" ", w-n) + s
 }
 
-// wrap breaks s into lines of at most w cells, at spaces where it can.
+// wrap breaks s into lines of at most w cells, at spaces where it can
+// (present.Wrap: a number stays with its unit).
 func wrap(s string, w int) []string {
 	if w <= 0 {
 		return nil
 	}
-	return strings.Split(ansi.Wrap(s, w, ""), "\n")
-}
-
-// marginText shows a margin (a fraction; ≥ 0 passes) as a signed percent;
-// huge margins as a ratio so the column stays narrow. NaN is "—".
-func marginText(m float64) string {
-	switch {
-	case math.IsNaN(m):
-		return "—"
-	case m >= 9.995:
-		return fmt.Sprintf("×%.0f", 1+m)
-	case m > -0.0005 && m < 0:
-		return "-0%" // a near miss must not read as +0 %
-	}
-	return fmt.Sprintf("%+.0f%%", 100*m)
+	return present.Wrap(s, w, "")
 }
 
 // eighths are the block characters of a partial bar cell, 1/8 … 8/8.
@@ -115,14 +103,6 @@ func fmaxBasis(r *filter.Result) filter.Basis {
 		}
 	}
 	return b
-}
-
-// checkName is "stage.key", or the key alone for design-level checks.
-func checkName(stage string, key filter.Key) string {
-	if stage == "" {
-		return string(key)
-	}
-	return stage + "." + string(key)
 }
 
 // quantity formats an SI value of dimension d for display; NaN is "?".

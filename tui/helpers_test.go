@@ -31,15 +31,23 @@ func asciiRenderer() *lipgloss.Renderer {
 // demoDesign decodes the embedded default design.
 func demoDesign(t testing.TB) *filter.Design {
 	t.Helper()
-	b, err := fs.ReadFile(data.Designs, data.DefaultDesign)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := filter.DecodeDesign(data.DefaultDesign, b)
-	if err != nil {
-		t.Fatal(err)
-	}
+	d, _ := embeddedDesign(t, data.DefaultDesign)
 	return d
+}
+
+// embeddedDesign decodes the embedded demo design name and returns it with
+// its text.
+func embeddedDesign(t testing.TB, name string) (*filter.Design, []byte) {
+	t.Helper()
+	b, err := fs.ReadFile(data.Designs, name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := filter.DecodeDesign(name, b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d, b
 }
 
 // demoCatalog loads the embedded demo catalog.

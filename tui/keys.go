@@ -2,7 +2,7 @@ package tui
 
 import "github.com/charmbracelet/bubbles/key"
 
-// KeyMap is every key the selector answers to. It feeds bubbles/help: the
+// KeyMap is every key the selector answers to. It feeds the key help: the
 // short line at the bottom and the full overlay behind "?".
 type KeyMap struct {
 	Up, Down       key.Binding
@@ -23,6 +23,7 @@ type KeyMap struct {
 	Shortlist      key.Binding // show only the shortlist
 	Export         key.Binding
 	Save           key.Binding // save the design
+	Undo           key.Binding // take back the last edit of the design
 	Reload         key.Binding
 	Open           key.Binding // open the part in $EDITOR
 	Replace        key.Binding // replacement mode for the selected part
@@ -30,6 +31,11 @@ type KeyMap struct {
 	Compare        key.Binding // preview the two shortlisted parts together
 	StagePrev      key.Binding // preview: previous stage with a waveform
 	StageNext      key.Binding // preview: next stage with a waveform
+	Explore        key.Binding // explorer mode: every part, any figure as a column
+	ColumnLeft     key.Binding // explorer: column cursor left
+	ColumnRight    key.Binding // explorer: column cursor right
+	ExploreColumns key.Binding // explorer: choose the columns
+	Typical        key.Binding // explorer: typical figures instead of the worst case
 	Help           key.Binding
 	Quit           key.Binding
 }
@@ -39,7 +45,7 @@ func DefaultKeyMap() KeyMap {
 	b := func(keys []string, help, desc string) key.Binding {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
-	return KeyMap{
+	return withExplorerKeys(KeyMap{
 		Up:        b([]string{"up", "k"}, "↑/k", "up"),
 		Down:      b([]string{"down", "j"}, "↓/j", "down"),
 		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
@@ -61,6 +67,7 @@ func DefaultKeyMap() KeyMap {
 		Shortlist: b([]string{"l"}, "l", "shortlist"),
 		Export:    b([]string{"x"}, "x", "export"),
 		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Undo:      b([]string{"u"}, "u", "undo edit"),
 		Reload:    b([]string{"r"}, "r", "reload catalog"),
 		Open:      b([]string{"o"}, "o", "edit part file"),
 		Replace:   b([]string{"R"}, "R", "replace"),
@@ -70,7 +77,21 @@ func DefaultKeyMap() KeyMap {
 		StageNext: b([]string{"]"}, "]", "next stage"),
 		Help:      b([]string{"?"}, "?", "keys"),
 		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+	})
+}
+
+// withExplorerKeys adds explorer mode's keys to k: E opens it; inside it
+// ←/→ move the column cursor, c picks the columns, T switches typical.
+func withExplorerKeys(k KeyMap) KeyMap {
+	b := func(keys []string, help, desc string) key.Binding {
+		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
+	k.Explore = b([]string{"E"}, "E", "explore all parts")
+	k.ColumnLeft = b([]string{"left"}, "←", "column left")
+	k.ColumnRight = b([]string{"right"}, "→", "column right")
+	k.ExploreColumns = b([]string{"c"}, "c", "columns")
+	k.Typical = b([]string{"T"}, "T", "typical/worst")
+	return k
 }
 
 // ShortHelp is the bottom line while browsing; "?" and "q" come early so
@@ -84,9 +105,14 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
-		{k.Mark, k.Shortlist, k.Export, k.Save, k.Reload, k.Open, k.Help, k.Quit},
-		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare},
+		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.Help, k.Quit},
+		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore},
 	}
+}
+
+// explorerKeys are the bottom line in explorer mode.
+func (k *KeyMap) explorerKeys() []key.Binding {
+	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Cancel}
 }
 
 // editKeys are the bottom line while a field or prompt has the keyboard.

@@ -8,6 +8,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // list is the candidate pane: the rows the narrowing lets through, in
@@ -17,11 +18,14 @@ type list struct {
 	view   []int // indices into ranking.results
 	cursor int   // index into view
 	offset int   // first row on screen
-	// selID is the part the user chose (by moving or clicking). It
-	// survives re-rankings and filters that hide it: while it is not shown
+	// selID is the part selected: the first row of the first ranking,
+	// then the part the user chose (by moving or clicking). It survives
+	// re-rankings, re-sorts and filters that hide it: while it is not shown
 	// the cursor stays at the same position, and when it shows again the
 	// cursor goes back to it.
 	selID string
+	// gone is selID while it is not shown (its drop-out was reported).
+	gone string
 }
 
 // selected returns the result under the cursor, or nil.
@@ -33,15 +37,21 @@ func (l *list) selected(results []filter.Result) *filter.Result {
 }
 
 // setRows shows rows (indices into results) and puts the cursor back on
-// the chosen part; rows is how many fit on screen.
-func (l *list) setRows(view []int, results []filter.Result, rows int) {
+// the selected part; rows is how many fit on screen. It returns the id of
+// the selected part when it has just dropped out of the rows, else "".
+func (l *list) setRows(view []int, results []filter.Result, rows int) (dropped string) {
 	l.view = view
-	l.reselect(results, rows)
+	return l.reselect(results, rows)
 }
 
-// reselect puts the cursor back on the chosen part (by id) after the
-// rows changed; while that part is not shown the cursor keeps its position.
-func (l *list) reselect(results []filter.Result, rows int) {
+// reselect puts the cursor back on the selected part (by id) after the
+// rows changed; while that part is not shown the cursor keeps its
+// position. The first rows shown pin their first part. It returns the
+// selected part's id when it has just dropped out.
+func (l *list) reselect(results []filter.Result, rows int) (dropped string) {
+	if l.selID == "" && len(l.view) > 0 {
+		l.selID = results[l.view[0]].Part.ID
+	}
 	found := false
 	if l.selID != "" {
 		for i, ri := range l.view {
@@ -51,10 +61,17 @@ func (l *list) reselect(results []filter.Result, rows int) {
 			}
 		}
 	}
+	switch {
+	case found:
+		l.gone = ""
+	case l.selID != "" && l.gone != l.selID && len(results) > 0:
+		l.gone, dropped = l.selID, l.selID
+	}
 	if !found {
 		l.cursor = max(0, min(l.cursor, len(l.view)-1))
 	}
 	l.scrollTo(rows)
+	return dropped
 }
 
 // move moves the cursor by n rows and remembers the part it lands on.
@@ -63,7 +80,7 @@ func (l *list) move(n int, results []filter.Result, rows int) {
 		return
 	}
 	l.cursor = max(0, min(len(l.view)-1, l.cursor+n))
-	l.selID = results[l.view[l.cursor]].Part.ID
+	l.selID, l.gone = results[l.view[l.cursor]].Part.ID, ""
 	l.scrollTo(rows)
 }
 
@@ -88,7 +105,7 @@ func listColumns(idW int) []column {
 		{title: "name", width: 12, prio: 1, flex: true},
 		{title: "tech", width: 7, prio: 3},
 		{title: "ch", width: 2, prio: 2, right: true},
-		{title: "margin", width: 6, prio: 92, right: true},
+		{title: "margin", width: 7, prio: 92, right: true},
 		{title: "", width: barCells, prio: 4},
 		{title: "binding", width: 20, prio: 80},
 		{title: "fmax", width: 9, prio: 5, right: true},
@@ -141,7 +158,11 @@ func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focuse
 	case len(l.view) == 0 && rs.running:
 		out = append(out, st.Muted.Render(fit("ranking…", w)))
 	case len(l.view) == 0:
-		out = append(out, st.Muted.Render(fit(emptyHint(n), w)))
+		hint := emptyHint(n)
+		if len(rs.warnings) > 0 {
+			hint += " · ⚠ see the warnings atop the design pane"
+		}
+		out = append(out, st.Muted.Render(fit(hint, w)))
 	}
 	from, to := l.visible(listRowsIn(h))
 	for i := from; i < to; i++ {
@@ -264,39 +285,31 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 }
 
 // marginCells are a result's margin (with its basis marker) and binding
-// cells. For a failing part they name the worst failing check, by how far
-// it misses, and how many more fail.
+// cells, written by filter/present like every front end. For a failing
+// part they name the worst failing check, by how far it misses, or the
+// hard filter it fails by its reason ("package not offered"), and how many
+// more fail; a failing part never shows a positive margin.
 func marginCells(r *filter.Result) (margin, binding string) {
 	if r.Pass {
-		c := bindingCheck(r)
+		if math.IsNaN(r.WorstMargin) {
+			return present.None, ""
+		}
 		mk := ""
-		if c != nil {
+		if c := bindingCheck(r); c != nil {
 			mk = basisMark(c.Basis)
 		}
-		if math.IsNaN(r.WorstMargin) {
-			return "—", ""
-		}
-		return marginText(r.WorstMargin) + mk, checkName(r.Binding.Stage, r.Binding.Key)
+		return present.Margin(r.WorstMargin) + mk, present.CheckName(r.Binding.Stage, r.Binding.Key)
 	}
-	fails := r.Failing()
-	var worst *filter.Check
-	for _, c := range fails {
-		switch {
-		case worst == nil:
-			worst = c
-		case c.HasMargin() && (!worst.HasMargin() || c.Margin < worst.Margin):
-			worst = c
-		}
-	}
+	worst := present.Worst(r)
 	if worst == nil { // strict: failing on unknown figures only
-		return "—", fmt.Sprintf("? %d unknown", r.Unknown)
+		return present.None, fmt.Sprintf("? %d unknown", r.Unknown)
 	}
-	binding = "✗ " + checkName(worst.Req.Stage, worst.Req.Key)
-	if len(fails) > 1 {
-		binding += fmt.Sprintf(" +%d", len(fails)-1)
+	binding = "✗ " + present.Reason(worst)
+	if n := len(r.Failing()); n > 1 {
+		binding += fmt.Sprintf(" +%d", n-1)
 	}
 	if !worst.HasMargin() {
 		return "✗", binding
 	}
-	return marginText(worst.Margin) + basisMark(worst.Basis), binding
+	return present.Margin(worst.Margin) + basisMark(worst.Basis), binding
 }

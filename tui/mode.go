@@ -13,6 +13,8 @@ const (
 	modePrompt              // a path/format prompt (export, save) or a yes/no
 	modeHelp                // the full key-help overlay
 	modeReplace             // replacement finder for the selected part (replace_mode.go)
+	modeExplore             // every part with chosen figure columns (explorer.go)
+	modeAsk                 // a one-key question: unsaved edits at q, the design changed on disk (keep.go)
 )
 
 // pane names a focusable area of the main screen, in tab order.

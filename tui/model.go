@@ -1,13 +1,13 @@
 package tui
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
@@ -21,8 +21,14 @@ type Config struct {
 	// Design is the design to edit; the selector edits a clone of it.
 	Design *filter.Design
 	// DesignFile is the file Design was read from, "" for the embedded demo.
-	// It is the default path when saving.
+	// It is the default path when saving, and watched for changes.
 	DesignFile string
+	// DesignText is the text Design was decoded from: a save edits it in
+	// place, keeping the user's comments and layout. Nil: the design's
+	// encoding (filter.EncodeDesign) is the base.
+	DesignText []byte
+	// Version is the program version exports record.
+	Version string
 	// Catalog is the loaded catalog; CatalogErr the problems loading it
 	// reported (parts with problems are left out), shown on the status line.
 	Catalog    *catalog.Catalog
@@ -42,6 +48,12 @@ type Config struct {
 	Renderer *lipgloss.Renderer
 	// Getenv reads EDITOR and VISUAL.
 	Getenv func(string) string
+	// Settings are the remembered choices (the explorer's columns), read
+	// from SettingsFile, where changes are written back; "" keeps them for
+	// the session. SettingsErr is why the file could not be read.
+	Settings     Settings
+	SettingsFile string
+	SettingsErr  error
 }
 
 // Model is the selector's root bubbletea model. It holds only routing
@@ -75,7 +87,9 @@ type Model struct {
 	prompt prompt
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
-	help   help.Model
+	expl   explorer    // explorer mode (explorer.go)
+
+	helpPage int // the help overlay's page
 
 	message string // last message for the status line
 	msgErr  bool   // message is an error
@@ -86,6 +100,16 @@ type Model struct {
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
 	quitting           bool
+
+	// Keeping the user's work (keep.go).
+	saved         savedState // the design as on disk: base of saves and of edits
+	edits         []string   // inputs edited since saved, in form order
+	undo          []undoStep // newest last
+	ask           ask        // the open question (modeAsk)
+	quitAfterSave bool       // the save was asked for at q
+	lastDir       string     // directory of the last file written
+	designWatch   *watcher   // follows the design file
+	designSeq     int        // debounce of design file changes
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -95,10 +119,12 @@ type ranking struct {
 	plan    *filter.Plan    // derived from the design in force; nil when it cannot be
 	resPlan *filter.Plan    // the plan results were ranked with
 	results []filter.Result // in rank order; checks filled in for drawn rows by settle
-	nPass   int             // passing results
-	gen     uint64          // generation of the newest rankJob
-	running bool            // a rankJob is running
-	strict  bool            // unknown checks fail
+	// warnings about the design and its filters, from the ranking's plan.
+	warnings []filter.Warning
+	nPass    int    // passing results
+	gen      uint64 // generation of the newest rankJob
+	running  bool   // a rankJob is running
+	strict   bool   // unknown checks fail
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
@@ -125,10 +151,17 @@ func New(cfg Config) *Model {
 	}
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
 	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
-	m.help = newHelp(u)
 	m.form = newForm(u)
 	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
+	m.expl = newExplorer(u, cfg.Settings.ExplorerColumns)
 	m.design = cfg.Design.Clone()
+	m.saved = savedState{path: cfg.DesignFile, text: cfg.DesignText, design: cfg.Design.Clone()}
+	if m.saved.text == nil {
+		var b bytes.Buffer
+		if err := filter.EncodeDesign(&b, cfg.Design); err == nil {
+			m.saved.text = b.Bytes()
+		}
+	}
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
@@ -136,6 +169,8 @@ func New(cfg Config) *Model {
 		m.setError(fmt.Errorf("catalog: %w (parts with problems are set aside; see opsift check)", firstProblem(cfg.CatalogErr)))
 	} else if m.planErr != nil {
 		m.setError(m.planErr)
+	} else if cfg.SettingsErr != nil {
+		m.setError(cfg.SettingsErr)
 	}
 	if cfg.Watch && len(cfg.OnDisk) > 0 {
 		m.watcher = startWatcher(cfg.OnDisk)
@@ -150,11 +185,17 @@ func (m *Model) Init() tea.Cmd {
 	if m.watcher != nil {
 		cmds = append(cmds, waitForChange(m.watcher))
 	}
+	if m.cfg.Watch {
+		cmds = append(cmds, m.watchDesign())
+	}
 	return tea.Batch(cmds...)
 }
 
-// Close releases the file watcher. Call it after the program ends.
+// Close releases the file watchers. Call it after the program ends.
 func (m *Model) Close() error {
+	if m.designWatch != nil {
+		_ = m.designWatch.Close()
+	}
 	if m.watcher != nil {
 		return m.watcher.Close()
 	}
@@ -175,7 +216,6 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.ui.width, m.ui.height = msg.Width, msg.Height
-		m.help.Width = msg.Width - 1 // the help line starts with a space
 		m.list.scrollTo(m.listRows())
 		return nil
 	case tea.KeyMsg:
@@ -189,8 +229,10 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		m.prev.adopt(msg)
 		return nil
 	case writtenMsg:
-		m.adoptWritten(msg)
-		return nil
+		return m.adoptWritten(msg)
+	}
+	if cmd, ok := m.updateDesignJobs(msg); ok {
+		return cmd
 	}
 	return m.updateJobs(msg)
 }
@@ -208,6 +250,10 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateHelp(k)
 	case modeReplace:
 		return m.updateReplace(k)
+	case modeExplore:
+		return m.updateExplore(k)
+	case modeAsk:
+		return m.updateAsk(k)
 	}
 	return m.updateBrowse(k)
 }
@@ -216,7 +262,7 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 func (m *Model) rerank() tea.Cmd {
 	m.rank.gen++
 	if m.rank.plan == nil || m.cat.Catalog == nil {
-		m.rank.results, m.rank.resPlan, m.rank.running = nil, nil, false
+		m.rank.results, m.rank.resPlan, m.rank.running, m.rank.warnings = nil, nil, false, nil
 		m.applyNarrowing()
 		return nil
 	}
@@ -232,7 +278,7 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		return // stale: an edit came after this job started
 	}
 	m.rank.running = false
-	m.rank.results, m.rank.resPlan = r.results, r.plan
+	m.rank.results, m.rank.resPlan, m.rank.warnings = r.results, r.plan, r.warnings
 	m.rank.nPass = 0
 	for i := range m.rank.results {
 		if m.rank.results[i].Pass {
@@ -240,6 +286,9 @@ func (m *Model) adoptRanking(r rankedMsg) {
 		}
 	}
 	m.applyNarrowing()
+	if m.mode == modeExplore {
+		m.expl.refresh(&m.rank, m.cat.Parts)
+	}
 }
 
 // setCatalog installs a (re)loaded catalog and the values the quick
@@ -299,20 +348,4 @@ func firstProblem(err error) error {
 		return p
 	}
 	return err
-}
-
-// newHelp builds the key-help line with the selector's styles.
-func newHelp(u *ui) help.Model {
-	h := help.New()
-	h.Width = u.width - 1 // the help line starts with a space
-	h.Styles = help.Styles{
-		Ellipsis:       u.st.HelpSep,
-		ShortKey:       u.st.HelpKey,
-		ShortDesc:      u.st.HelpDesc,
-		ShortSeparator: u.st.HelpSep,
-		FullKey:        u.st.HelpKey,
-		FullDesc:       u.st.HelpDesc,
-		FullSeparator:  u.st.HelpSep,
-	}
-	return h
 }

@@ -89,8 +89,8 @@ func TestEditFrequencyReranks(t *testing.T) {
 	}
 	explain(m.rank.resPlan, old, false)
 	_, binding := marginCells(old)
-	if !strings.Contains(binding, "gain.slew") && !strings.Contains(binding, "gain.gbw") {
-		t.Errorf("%s fails on %q, want gain.slew or gain.gbw", oldTop, binding)
+	if !strings.Contains(binding, "gain/slew") && !strings.Contains(binding, "gain/gbw") {
+		t.Errorf("%s fails on %q, want gain/slew or gain/gbw", oldTop, binding)
 	}
 }
 
@@ -550,7 +550,7 @@ func TestMouseWheel(t *testing.T) {
 // designText is the whole design pane, unscrolled, as plain text.
 func designText(m *Model) string {
 	var b strings.Builder
-	for _, l := range m.form.lines(m.rank.plan, m.design.Name, 200) {
+	for _, l := range m.form.lines(m.rank.plan, nil, 200) {
 		b.WriteString(strings.TrimRight(l.text, " ") + "\n")
 	}
 	return b.String()

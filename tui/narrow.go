@@ -108,5 +108,26 @@ func (n *narrowing) rows(results []filter.Result, marks *shortlist, search map[*
 // selection on the same part (by id) when it is still shown.
 func (m *Model) applyNarrowing() {
 	rows := m.narrow.rows(m.rank.results, &m.marks, m.cat.search, m.list.view)
-	m.list.setRows(rows, m.rank.results, m.listRows())
+	if id := m.list.setRows(rows, m.rank.results, m.listRows()); id != "" {
+		m.setMessage("%s", m.droppedNote(id))
+	}
+}
+
+// droppedNote says why the selected part is no longer listed and how to
+// see it again; the cursor goes back to it when it is.
+func (m *Model) droppedNote(id string) string {
+	for i := range m.rank.results {
+		r := &m.rank.results[i]
+		if r.Part.ID != id {
+			continue
+		}
+		if m.narrow.shortlist {
+			return id + " is not on the shortlist (l shows every part)"
+		}
+		if !r.Pass && !m.narrow.failing {
+			return id + " no longer passes and left the list (f shows it with what it misses)"
+		}
+		return id + " is hidden by the filters (c clears them)"
+	}
+	return id + " is no longer in the catalog"
 }

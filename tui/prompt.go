@@ -11,6 +11,7 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -35,7 +36,11 @@ type prompt struct {
 	input   textinput.Model
 	format  report.Format
 	confirm bool // waiting for y/n: the file exists
-	writing bool // a write is running; keys wait for its writtenMsg
+	// onDisk: the confirm is about the design file having changed on disk
+	// since it was read, not merely existing.
+	onDisk  bool
+	writing bool   // a write is running; keys wait for its writtenMsg
+	err     string // why the last try failed, shown in the prompt until the next key
 }
 
 // openPrompt starts a prompt of kind with the path suggested.
@@ -80,6 +85,11 @@ func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
 	if p.writing {
 		return nil
 	}
+	if k.String() == "ctrl+c" {
+		m.mode, m.quitAfterSave = modeBrowse, false
+		return m.requestQuit()
+	}
+	p.err = ""
 	if p.confirm {
 		switch k.String() {
 		case "y", "Y":
@@ -94,6 +104,10 @@ func (m *Model) updatePrompt(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Cancel):
 		m.mode = modeBrowse
 		m.setMessage("nothing written")
+		if m.quitAfterSave {
+			m.quitAfterSave = false
+			m.setMessage("nothing written; not quitting")
+		}
 		return nil
 	case key.Matches(k, keys.Accept):
 		return m.finishPrompt(false)
@@ -131,11 +145,16 @@ func (m *Model) finishPrompt(overwrite bool) tea.Cmd {
 	}
 	if st, err := os.Stat(path); err == nil && !overwrite {
 		if st.IsDir() {
-			m.setMessage("%s is a directory: give a file name", path)
+			p.err = path + " is a directory: give a file name"
 			return nil
 		}
-		p.confirm = true
-		return nil
+		// The design file itself is saved without asking, unless it
+		// changed on disk since it was read.
+		p.onDisk = p.kind == promptSave && m.changedOnDisk(path)
+		if p.kind != promptSave || p.onDisk || !samePath(path, m.saved.path) {
+			p.confirm = true
+			return nil
+		}
 	}
 	var cmd tea.Cmd
 	var err error
@@ -146,24 +165,25 @@ func (m *Model) finishPrompt(overwrite bool) tea.Cmd {
 		cmd, err = m.saveDesign(path)
 	}
 	if err != nil {
-		m.setError(err)
+		p.err = err.Error()
 		return nil // the prompt stays open to try another path
 	}
 	p.writing = true
 	return cmd
 }
 
-// draw draws an open prompt on the two bottom lines; marked is the number
-// of marked parts an export writes.
-func (p *prompt) draw(u *ui, marked, w int) (line1, line2 string) {
+// draw draws an open prompt on the bottom lines: two, or three when the
+// error of the last try needs them (it wraps rather than being cut);
+// marked is the number of marked parts an export writes.
+func (p *prompt) draw(u *ui, marked, w int) []string {
 	st := &u.st
 	path := strings.TrimSpace(p.input.Value())
 	if p.confirm {
-		q := path + " exists: overwrite it?"
-		if p.kind == promptSave {
-			q = path + " exists: overwrite it? (comments in it are not kept)"
+		q := path + " exists: replace it?"
+		if p.onDisk {
+			q = path + " changed on disk since it was read: write your version over it?"
 		}
-		return fit(st.Prompt.Render(q)+" y/n", w), fit(st.HelpKey.Render("y")+" overwrite  "+st.HelpKey.Render("n")+" back", w)
+		return []string{fit(st.Prompt.Render(safe.Text(q))+" y/n", w), fit(st.HelpKey.Render("y")+" write  "+st.HelpKey.Render("n")+" back", w)}
 	}
 	label := p.label(marked)
 	hint := st.HelpKey.Render("enter") + " save  " + st.HelpKey.Render("esc") + " cancel"
@@ -171,7 +191,23 @@ func (p *prompt) draw(u *ui, marked, w int) (line1, line2 string) {
 		hint = st.HelpKey.Render("enter") + " write  " + st.HelpKey.Render("tab") + " format (md csv json toml)  " +
 			st.HelpKey.Render("esc") + " cancel"
 	}
-	return fit(st.Prompt.Render(label)+p.input.View(), w), fit(hint, w)
+	out := []string{fit(st.Prompt.Render(label)+p.input.View(), w)}
+	if p.err == "" {
+		return append(out, fit(hint, w))
+	}
+	// The path is on the line above: the error names it by base name.
+	msg := p.err
+	if path != "" && filepath.Base(path) != path {
+		msg = strings.ReplaceAll(msg, path, filepath.Base(path))
+	}
+	errLines := wrap("! "+safe.Text(msg)+" · edit the path, esc cancels", w)
+	if len(errLines) > maxPromptErrLines {
+		errLines = errLines[:maxPromptErrLines]
+	}
+	for _, l := range errLines {
+		out = append(out, st.Error.Render(fit(l, w)))
+	}
+	return out
 }
 
 // label is the text before the path: what is written; marked is the

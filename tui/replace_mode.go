@@ -9,6 +9,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
 )
 
@@ -189,7 +190,7 @@ func replaceColumns(idW int, designed bool) []column {
 		{title: "strict", width: 6, prio: 96},
 	}
 	if designed {
-		cols = append(cols, column{title: "design", width: 20, prio: 98})
+		cols = append(cols, column{title: "design", width: 27, prio: 98})
 	}
 	return append(cols,
 		column{title: "worse than the original", width: 20, prio: 95, flex: true},
@@ -243,9 +244,11 @@ func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 	return append(out, blank(w, h-len(out))...)
 }
 
-// designCell is a candidate's fit to the design in words: "✓ +31% gain.gbw"
-// (the worst margin and the check it is on), "✗ slew +2" (the first
-// failing check and how many more fail), "—" without a design.
+// designCell is a candidate's fit to the design in words, as the CLI
+// writes it: "✓ +31 % gain/gbw" (the worst margin and the check it is on),
+// "✗ -32 % gain/slew +2" (the worst failing check, by how far it misses,
+// and how many more fail), "✗ package not offered" (a hard filter, by its
+// reason), "—" without a design.
 func designCell(f *replace.Fit) string {
 	if f == nil {
 		return "—"
@@ -254,12 +257,15 @@ func designCell(f *replace.Fit) string {
 		if !f.WorstMargin.Set {
 			return "✓ pass"
 		}
-		return "✓ " + marginText(f.WorstMargin.V) + " " + checkName(f.Binding.Stage, filter.Key(f.Binding.Key))
+		return "✓ " + present.Margin(f.WorstMargin.V) + " " + present.CheckName(f.Binding.Stage, filter.Key(f.Binding.Key))
 	}
 	if len(f.Failed) == 0 {
 		return "✗ FAIL"
 	}
-	s := "✗ " + strings.ReplaceAll(f.Failed[0], "/", ".")
+	s := "✗ " + f.Failed[0]
+	if f.WorstMargin.Set && f.WorstMargin.V < 0 {
+		s = "✗ " + present.Margin(f.WorstMargin.V) + " " + f.Failed[0]
+	}
 	if len(f.Failed) > 1 {
 		s += fmt.Sprintf(" +%d", len(f.Failed)-1)
 	}
@@ -477,24 +483,15 @@ func (m *Model) openReplace() tea.Cmd {
 // updateReplace handles a key in replacement mode.
 func (m *Model) updateReplace(k tea.KeyMsg) tea.Cmd {
 	var act replaceAction
-	m.repl, act = m.repl.update(k, replaceListRows(m.ui.height-3))
+	m.repl, act = m.repl.update(k, replaceListRows(m.bodyH()))
 	switch act {
 	case replaceQuit:
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case replaceBack:
 		m.mode = modeBrowse
 		m.setMessage("back from replacement mode")
 	case replaceMark:
-		id := m.repl.selected().Part.ID
-		if m.marks.toggle(id) {
-			m.setMessage("marked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
-		} else {
-			m.setMessage("unmarked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
-		}
-		if m.narrow.shortlist {
-			m.applyNarrowing()
-		}
+		m.markPart(m.repl.selected().Part.ID, "")
 	case replaceSelect:
 		id := m.repl.selected().Part.ID
 		m.mode = modeBrowse

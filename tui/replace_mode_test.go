@@ -184,9 +184,10 @@ func TestDesignCell(t *testing.T) {
 		want string
 	}{
 		{"none", nil, "—"},
-		{"pass", &replace.Fit{Pass: true, WorstMargin: catalog.Some(0.31), Binding: replace.Binding{Stage: "gain", Key: "gbw"}}, "✓ +31% gain.gbw"},
+		{"pass", &replace.Fit{Pass: true, WorstMargin: catalog.Some(0.31), Binding: replace.Binding{Stage: "gain", Key: "gbw"}}, "✓ +31 % gain/gbw"},
 		{"pass no margin", &replace.Fit{Pass: true}, "✓ pass"},
-		{"fail one", &replace.Fit{Failed: []string{"gain/slew"}}, "✗ gain.slew"},
+		{"fail one", &replace.Fit{Failed: []string{"gain/slew"}, WorstMargin: catalog.Some(-0.319)}, "✗ -32 % gain/slew"},
+		{"fail filter", &replace.Fit{Failed: []string{"package not offered"}}, "✗ package not offered"},
 		{"fail three", &replace.Fit{Failed: []string{"supply", "gain/slew", "gain/gbw"}}, "✗ supply +2"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

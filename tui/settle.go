@@ -7,6 +7,11 @@ package tui
 // the text inputs. View only reads what settle leaves, so drawing never
 // changes the model.
 func (m *Model) settle() {
+	m.ui.footH = len(m.footLines())
+	m.form.edited = make(map[string]bool, len(m.edits))
+	for _, p := range m.edits {
+		m.form.edited[p] = true
+	}
 	if m.ui.tooSmall() {
 		return
 	}
@@ -14,11 +19,13 @@ func (m *Model) settle() {
 	m.list.explainVisible(&m.rank, listRowsIn(l.list.h))
 	m.checks.follow(m.list.selected(m.rank.results), l.detail.w, l.detail.h)
 	if !l.stacked || m.focus == paneDesign {
-		m.form.settle(m.rank.plan, m.design, l.design.w, l.design.h)
+		m.form.settle(m.rank.plan, m.rank.warnings, l.design.w, l.design.h)
 	}
 	switch m.mode {
 	case modeReplace:
-		m.repl.settle(m.ui.width, m.ui.height-3)
+		m.repl.settle(m.ui.width, m.bodyH())
+	case modeExplore:
+		m.expl.settle(m.cat.idW, m.ui.width, m.bodyH())
 	case modePrompt:
 		m.prompt.settle(m.marks.len(), m.ui.width)
 	}

@@ -49,6 +49,8 @@ type Styles struct {
 	Unknown     lipgloss.Style
 	Marker      lipgloss.Style // ~ and g basis markers
 	Mark        lipgloss.Style // shortlist mark
+	Modified    lipgloss.Style // the header's "modified": unsaved edits
+	Warning     lipgloss.Style // a warning about the design or its filters
 	Muted       lipgloss.Style
 	Sep         lipgloss.Style // the line between panes
 	Status      lipgloss.Style
@@ -83,6 +85,8 @@ func NewStyles(r *lipgloss.Renderer, t Theme) Styles {
 		Unknown:     s().Foreground(t.Warn),
 		Marker:      s().Foreground(t.Warn),
 		Mark:        s().Bold(true).Foreground(t.Accent),
+		Modified:    s().Bold(true).Foreground(t.Warn),
+		Warning:     s().Foreground(t.Warn),
 		Muted:       s().Foreground(t.Muted),
 		Sep:         s().Foreground(t.Muted),
 		Status:      s(),

@@ -36,4 +36,14 @@ const (
 	listShare = 40
 	// minListRows is the least number of candidate rows shown.
 	minListRows = 4
+	// undoDepth is how many edits u can take back: far more than a
+	// session of edits to one design, few enough to be nothing in memory.
+	undoDepth = 200
+	// maxPromptErrLines is how many lines a save or export error may take
+	// under the prompt: an OS error with a long path wraps to three at 80
+	// columns.
+	maxPromptErrLines = 3
+	// maxFootLines is how many lines the key help at the bottom may wrap
+	// to: two hold every browsing key at 80 columns.
+	maxFootLines = 2
 )

@@ -5,8 +5,11 @@ package tui
 // on a resize; panes get it by pointer and never write to it.
 type ui struct {
 	width, height int
-	st            Styles
-	keys          KeyMap
+	// footH is how many lines the key help at the bottom takes (1 or 2:
+	// it wraps rather than cut a key); the root sets it before settling.
+	footH int
+	st    Styles
+	keys  KeyMap
 }
 
 // box is a rectangle of the screen in cells.
@@ -28,16 +31,17 @@ type layout struct {
 }
 
 // layout computes the panes' boxes: one title line, the body, a status
-// line and a key-help line. The candidate list spans the top of the body so
+// line and the key help (footH lines). The candidate list spans the top of the body so
 // every column fits; below it the design pane takes the left and the
 // detail pane (the selected part's checks) the right.
 func (u *ui) layout() layout {
 	w, h := u.width, u.height
 	l := layout{stacked: w < wideWidth}
 	l.title = box{0, 0, w, 1}
-	l.status = box{0, h - 2, w, 1}
-	l.help = box{0, h - 1, w, 1}
-	bodyH := h - 3
+	foot := max(1, u.footH)
+	l.status = box{0, h - 1 - foot, w, 1}
+	l.help = box{0, h - foot, w, foot}
+	bodyH := h - 2 - foot
 	listH := max(minListRows+2, bodyH*listShare/100)
 	l.list = box{0, 1, w, listH}
 	lowH := bodyH - listH

@@ -11,10 +11,9 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	keys := &m.ui.keys
 	switch {
 	case key.Matches(k, keys.Quit):
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case key.Matches(k, keys.Help):
-		m.mode = modeHelp
+		m.mode, m.helpPage = modeHelp, 0
 	case key.Matches(k, keys.Focus):
 		m.focus = (m.focus + 1) % paneCount
 	case key.Matches(k, keys.FocusBack):
@@ -74,19 +73,19 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 			m.setMessage("mark parts with space first; x exports the marked ones")
 			return nil
 		}
-		return m.openPrompt(promptExport, "shortlist.md")
+		return m.openPrompt(promptExport, m.inLastDir("shortlist.md"))
 	case key.Matches(k, keys.Save):
-		path := m.cfg.DesignFile
-		if path == "" {
-			path = "design.toml"
-		}
-		return m.openPrompt(promptSave, path)
+		return m.openSave()
+	case key.Matches(k, keys.Undo):
+		return m.undoLast()
 	case key.Matches(k, keys.Reload):
 		return m.reload("reloaded")
 	case key.Matches(k, keys.Open):
 		return m.openEditor()
 	case key.Matches(k, keys.Replace):
 		return m.openReplace()
+	case key.Matches(k, keys.Explore):
+		return m.openExplorer()
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)
@@ -121,10 +120,16 @@ func (m *Model) toggleMark() {
 		m.setMessage("no candidate selected")
 		return
 	}
-	if m.marks.toggle(r.Part.ID) {
-		m.setMessage("marked %s (%s on the shortlist; x exports)", r.Part.ID, plural(m.marks.len(), "part"))
+	m.markPart(r.Part.ID, "; x exports")
+}
+
+// markPart marks or unmarks part id in the shortlist, from any mode, and
+// says so on the status line (hint follows the count when marking).
+func (m *Model) markPart(id, hint string) {
+	if m.marks.toggle(id) {
+		m.setMessage("marked %s (%s on the shortlist%s)", id, plural(m.marks.len(), "part"), hint)
 	} else {
-		m.setMessage("unmarked %s (%s on the shortlist)", r.Part.ID, plural(m.marks.len(), "part"))
+		m.setMessage("unmarked %s (%s on the shortlist)", id, plural(m.marks.len(), "part"))
 	}
 	if m.narrow.shortlist {
 		m.applyNarrowing()
@@ -146,12 +151,24 @@ func (m *Model) pageRows() int {
 	return m.listRows()
 }
 
-// updateHelp closes the help overlay on any key but ctrl+c, which quits.
+// updateHelp pages the help overlay with pgdn/pgup (space and the arrows
+// too) and closes it on any other key; ctrl+c quits.
 func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
-	if k.String() == "ctrl+c" {
-		m.quitting = true
-		return tea.Quit
+	n := len(m.helpPages(m.ui.width, m.bodyH()))
+	switch k.String() {
+	case "ctrl+c":
+		return m.requestQuit()
+	case "pgdown", " ", "down", "j":
+		if m.helpPage < n-1 {
+			m.helpPage++
+			return nil
+		}
+	case "pgup", "up", "k":
+		if m.helpPage > 0 {
+			m.helpPage--
+		}
+		return nil
 	}
-	m.mode = modeBrowse
+	m.mode, m.helpPage = modeBrowse, 0
 	return nil
 }

@@ -25,8 +25,7 @@ func (m *Model) updateEdit(k tea.KeyMsg) tea.Cmd {
 	keys := &m.ui.keys
 	switch {
 	case k.String() == "ctrl+c":
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case key.Matches(k, keys.Cancel):
 		cmd := m.applyField(m.form.path(), m.form.before)
 		m.endEdit()
@@ -55,6 +54,9 @@ func (m *Model) updateEdit(k tea.KeyMsg) tea.Cmd {
 // endEdit leaves the field. Text that is not in force (it did not parse or
 // derive) is dropped: the field shows the value in force again.
 func (m *Model) endEdit() {
+	if fl, ok := m.form.current(); ok && fl.Raw != m.form.before {
+		m.noteEdit(fl.Path, m.form.before)
+	}
 	if kept := m.form.end(); kept != "" {
 		m.setMessage("%s", kept)
 	}
@@ -79,6 +81,7 @@ func (m *Model) applyField(path, raw string) tea.Cmd {
 	m.form.editErr = ""
 	m.design, m.rank.plan, m.planErr = c, plan, nil
 	m.form.refresh(c)
+	m.refreshEdits()
 	return m.rerank()
 }
 
@@ -96,8 +99,7 @@ func (m *Model) startFind() tea.Cmd {
 func (m *Model) updateFind(k tea.KeyMsg) tea.Cmd {
 	switch k.String() {
 	case "ctrl+c":
-		m.quitting = true
-		return tea.Quit
+		return m.requestQuit()
 	case "esc":
 		m.narrow.find = ""
 		m.mode = modeBrowse

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/charmbracelet/bubbles/key"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
@@ -28,7 +29,7 @@ func (m *Model) View() string {
 
 	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
-		return m.form.draw(m.rank.plan, m.design, m.focus == paneDesign, l.design.w, l.design.h)
+		return m.form.draw(m.rank.plan, m.rank.warnings, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
 	}
 	switch {
 	case l.stacked && m.focus == paneDesign:
@@ -47,20 +48,39 @@ func (m *Model) View() string {
 		body = m.helpOverlay(u.width, len(body))
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
+	case modeExplore:
+		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
+	}
+	var bottom []string
+	switch m.mode {
+	case modePrompt:
+		bottom = m.prompt.draw(u, m.marks.len(), u.width)
+	case modeAsk:
+		a, b := m.drawAsk(u.width)
+		bottom = []string{a, b}
+	}
+	if bottom != nil {
+		room := 1 + max(1, u.footH) // the status line and the key help
+		if extra := len(bottom) - room; extra > 0 {
+			body = body[:max(0, len(body)-extra)] // a wrapped prompt error takes body lines
+		}
+		for len(bottom) < room {
+			bottom = append(blank(u.width, 1), bottom...)
+		}
 	}
 	lines = append(lines, body...)
 
 	switch m.mode {
-	case modePrompt:
-		a, b := m.prompt.draw(u, m.marks.len(), u.width)
-		lines = append(lines, a, b)
+	case modePrompt, modeAsk:
+		lines = append(lines, bottom...)
 	case modeFind:
 		in := m.prompt.input
 		in.Width = max(10, u.width-8)
-		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width),
-			fit(m.help.ShortHelpView(u.keys.editKeys()), u.width))
+		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width))
+		lines = append(lines, m.footLines()...)
 	default:
-		lines = append(lines, m.statusView(u.width), fit(m.helpLine(), u.width))
+		lines = append(lines, m.statusView(u.width))
+		lines = append(lines, m.footLines()...)
 	}
 	// Data strings are escaped where they are drawn; safe.Styled is the
 	// net under that: nothing but the program's own styling reaches the
@@ -68,15 +88,21 @@ func (m *Model) View() string {
 	return safe.Styled(strings.Join(lines, "\n"))
 }
 
-// titleView is the top line: the program, the design file and the sources.
+// titleView is the top line: the program, whether the design has unsaved
+// edits (first, so a narrow screen keeps it), the design file and the
+// sources.
 func (m *Model) titleView(w int) string {
 	st := &m.ui.st
-	design := safe.Text(m.cfg.DesignFile)
+	design := safe.Text(m.saved.path)
 	if design == "" {
 		design = safe.Text(m.design.Name) + " (demo design)"
 	}
 	right := " ? keys "
-	left := st.Title.Render(" opsift") + st.Muted.Render(" · design "+design+" · catalog "+sourceName(m.cat.Sources))
+	left := st.Title.Render(" opsift")
+	if m.modified() {
+		left += " " + st.Modified.Render(fmt.Sprintf("● modified (%s, w saves)", plural(len(m.edits), "input")))
+	}
+	left += st.Muted.Render(" · design " + design + " · catalog " + sourceName(m.cat.Sources))
 	return fit(left, w-len(right)) + st.Muted.Render(right)
 }
 
@@ -91,6 +117,9 @@ func (m *Model) statusView(w int) string {
 	}
 	if m.rank.running {
 		b.WriteString(" · ranking…")
+	}
+	if n := len(m.rank.warnings); n > 0 {
+		b.WriteString(" · " + st.Warning.Render("⚠ "+plural(n, "warning")))
 	}
 	left := st.Status.Render(b.String())
 	if banner := setAsideBanner(m.cat.Catalog); banner != "" {
@@ -121,17 +150,82 @@ const (
 	cautionStatusShort = "advisory: verify datasheets"
 )
 
-// helpLine is the short key help of the current mode.
-func (m *Model) helpLine() string {
-	if m.mode == modeReplace {
-		return " " + m.help.ShortHelpView(m.ui.keys.replaceKeys())
+// footLines are the key help of the current mode on the bottom: every key
+// whole, wrapped onto a second line when one does not hold them (none is
+// cut; "?" shows them all).
+func (m *Model) footLines() []string {
+	k := &m.ui.keys
+	var bs []key.Binding
+	tail := ""
+	switch m.mode {
+	case modeReplace:
+		bs = append(k.replaceKeys(), k.Quit)
+	case modeExplore:
+		bs = k.explorerKeys()
+	case modeEdit:
+		bs = k.editKeys()
+		tail = "↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us"
+	case modeFind:
+		bs = k.editKeys()
+	default:
+		bs = k.ShortHelp()
 	}
-	if m.mode == modeEdit {
-		return " " + m.help.ShortHelpView(m.ui.keys.editKeys()) +
-			m.ui.st.Muted.Render("  · ↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us")
-	}
-	return " " + m.help.ShortHelpView(m.ui.keys.ShortHelp())
+	return keyLines(&m.ui.st, bs, tail, m.ui.width, maxFootLines)
 }
+
+// keyLines lays bindings out as "key desc" items, then tail, into at most
+// n lines of w cells, each item whole: what does not fit in n lines is
+// left to the ? overlay rather than cut. Items are parted by " • ", or by
+// two spaces when that keeps them on one line.
+func keyLines(st *Styles, bs []key.Binding, tail string, w, n int) []string {
+	var items []string
+	for _, b := range bs {
+		h := b.Help()
+		items = append(items, st.HelpKey.Render(h.Key)+" "+st.HelpDesc.Render(h.Desc))
+	}
+	if tail != "" {
+		items = append(items, st.Muted.Render(tail))
+	}
+	out := packItems(items, st.HelpSep.Render(" • "), w, n)
+	if len(out) > 1 {
+		if tight := packItems(items, "  ", w, n); len(tight) == 1 {
+			out = tight
+		}
+	}
+	for i := range out {
+		out[i] = fit(out[i], w)
+	}
+	return out
+}
+
+// packItems fills lines of w cells (each starting with a space) with
+// items parted by sep, at most n lines; the items left over are dropped.
+func packItems(items []string, sep string, w, n int) []string {
+	sepW := ansi.StringWidth(sep)
+	var out []string
+	line := ""
+	for _, it := range items {
+		switch {
+		case line == "":
+			line = " " + it
+		case ansi.StringWidth(line)+sepW+ansi.StringWidth(it) <= w:
+			line += sep + it
+		default:
+			out = append(out, line)
+			line = " " + it
+		}
+		if len(out) == n {
+			return out
+		}
+	}
+	if line != "" {
+		out = append(out, line)
+	}
+	return out
+}
+
+// bodyH is the height of the screen between the title and the status line.
+func (m *Model) bodyH() int { return m.ui.height - 2 - max(1, m.ui.footH) }
 
 // paneHeading draws a pane's heading across w cells: a light rule for a
 // pane, a heavy one for the focused pane, so focus shows without colour.
@@ -146,20 +240,15 @@ func paneHeading(st *Styles, text string, focused bool, w int) string {
 }
 
 // helpOverlay is the full key help with the meaning of the markers,
-// centred in the body.
+// centred in the body. Its key columns sit side by side as far as the
+// width allows and go under each other beyond; when the whole does not fit
+// the height it is shown a page at a time (pgdn/pgup), so every key can be
+// read at 80×24 and none is cut.
 func (m *Model) helpOverlay(w, h int) []string {
 	st := &m.ui.st
-	legend := strings.Join([]string{
-		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
-		"~ typical figure, derated or inflated by the design's policy",
-		"g typical figure read off a datasheet graph",
-		"margin: spare at worst case, ≥ 0 passes; fmax: highest sine frequency at",
-		"the stage's amplitude at which slew and gbw still pass",
-	}, "\n")
-	legend += "\n" + strings.Join(wrap("Caution: "+report.Caution, 76), "\n")
-	full := m.help.FullHelpView(m.ui.keys.FullHelp())
-	content := st.Section.Render("Keys") + st.Muted.Render("  (any key closes this)") + "\n" + full + "\n" +
-		st.Section.Render("Markers") + "\n" + legend
+	pages := m.helpPages(w, h)
+	page := max(0, min(m.helpPage, len(pages)-1))
+	content := strings.Join(pages[page], "\n")
 	inner := min(w-4, lipgloss.Width(content))
 	boxed := st.Overlay.Width(inner + 2).Render(content)
 	placed := lipgloss.PlaceHorizontal(w, lipgloss.Center, boxed)
@@ -173,6 +262,101 @@ func (m *Model) helpOverlay(w, h int) []string {
 		lines = lines[:h]
 	}
 	return append(lines, blank(w, h-len(lines))...)
+}
+
+// helpPages lays the overlay's content out for a body of w×h and splits it
+// into pages that fit inside the frame (two border lines), each but a
+// single one ending with where it is and how to go on.
+func (m *Model) helpPages(w, h int) [][]string {
+	st := &m.ui.st
+	inner := max(20, w-6) // frame and padding
+	body := []string{st.Section.Render("Keys") + st.Muted.Render("  (any other key closes this)")}
+	body = append(body, keyGrid(st, m.ui.keys.FullHelp(), inner)...)
+	body = append(body, st.Section.Render("Markers"))
+	for _, l := range []string{
+		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
+		"~ typical figure, derated or inflated by the design's policy",
+		"g typical figure read off a datasheet graph",
+		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
+		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
+		"● modified: the design has edits not saved (w saves in place, u undoes)",
+	} {
+		body = append(body, wrap(l, inner)...)
+	}
+	body = append(body, wrap("Caution: "+report.Caution, inner)...)
+	room := max(3, h-2)
+	if len(body) <= room {
+		return [][]string{body}
+	}
+	per := room - 1 // the page line
+	n := (len(body) + per - 1) / per
+	var pages [][]string
+	for i := 0; i < n; i++ {
+		pg := append([]string(nil), body[i*per:min(len(body), (i+1)*per)]...)
+		note := fmt.Sprintf("page %d/%d · pgdn next", i+1, n)
+		if i == n-1 {
+			note = fmt.Sprintf("page %d/%d · pgup back", i+1, n)
+		} else if i > 0 {
+			note = fmt.Sprintf("page %d/%d · pgdn next · pgup back", i+1, n)
+		}
+		pages = append(pages, append(pg, st.Muted.Render(note)))
+	}
+	return pages
+}
+
+// keyGrid draws the key columns of the full help side by side while they
+// fit in w cells, starting a new row of columns beyond.
+func keyGrid(st *Styles, cols [][]key.Binding, w int) []string {
+	const gap = 3
+	var blocks [][]string
+	for _, col := range cols {
+		kw := 0
+		for _, b := range col {
+			kw = max(kw, ansi.StringWidth(b.Help().Key))
+		}
+		var lines []string
+		for _, b := range col {
+			h := b.Help()
+			lines = append(lines, st.HelpKey.Render(h.Key)+strings.Repeat(" ", kw-ansi.StringWidth(h.Key)+1)+st.HelpDesc.Render(h.Desc))
+		}
+		blocks = append(blocks, lines)
+	}
+	width := func(b []string) int {
+		n := 0
+		for _, l := range b {
+			n = max(n, ansi.StringWidth(l))
+		}
+		return n
+	}
+	var out []string
+	for i := 0; i < len(blocks); {
+		row := []int{i}
+		used := width(blocks[i])
+		for j := i + 1; j < len(blocks) && used+gap+width(blocks[j]) <= w; j++ {
+			row = append(row, j)
+			used += gap + width(blocks[j])
+		}
+		height := 0
+		for _, j := range row {
+			height = max(height, len(blocks[j]))
+		}
+		for r := 0; r < height; r++ {
+			var b strings.Builder
+			for k, j := range row {
+				cell := ""
+				if r < len(blocks[j]) {
+					cell = blocks[j][r]
+				}
+				if k < len(row)-1 {
+					cell = fit(cell, width(blocks[j])+gap)
+				}
+				b.WriteString(cell)
+			}
+			out = append(out, strings.TrimRight(b.String(), " "))
+		}
+		i += len(row)
+	}
+	return out
 }
 
 // tooSmallView fills the screen with a note asking for a bigger terminal.

@@ -46,6 +46,7 @@ type node struct {
 	first, last    int32 // first and last child key (0: none)
 	next           int32 // next key of the same parent (0: none)
 	nkeys          int32
+	vstart, vend   int32            // the value's byte range; vend 0: not written as a value
 	elems          []int32          // elements of an array of tables or array value
 	byKey          map[string]int32 // keys by name, once there are many
 }
@@ -87,6 +88,30 @@ func (ix *Index) find(path string) (int32, bool) {
 		n, path = next, rest
 	}
 	return n, true
+}
+
+// Pos returns the position of path, and whether it was written.
+func (ix *Index) Pos(path string) (Pos, bool) {
+	n, ok := ix.find(path)
+	if !ok || n == 0 {
+		return Pos{}, false
+	}
+	return ix.nodes[n].pos(), true
+}
+
+// Span is a byte range [Start, End) of the document text.
+type Span struct{ Start, End int }
+
+// Value returns the byte range of the value written for path (a key, an
+// inline table, an array or an element of one), and whether it was
+// written as a value; a [table] header has none. An editor replaces that
+// range to change a value and leaves the rest of the text as it was.
+func (ix *Index) Value(path string) (Span, bool) {
+	n, ok := ix.find(path)
+	if !ok || n == 0 || ix.nodes[n].vend == 0 {
+		return Span{}, false
+	}
+	return Span{int(ix.nodes[n].vstart), int(ix.nodes[n].vend)}, true
 }
 
 // Line returns the line of path, else of its nearest written parent, else 0.
@@ -392,8 +417,18 @@ func (s *scanner) key() []string {
 	}
 }
 
-// value reads one value of the key at path.
+// value reads one value of the key at path and records where it is.
 func (s *scanner) value(path int32) {
+	start := s.i
+	s.valueBody(path)
+	if nd := &s.ix.nodes[path]; nd.vend == 0 && s.i > start {
+		nd.vstart, nd.vend = int32(start), int32(s.i)
+	}
+}
+
+// valueBody reads the value itself: a string, an array, an inline table
+// or a bare word (number, boolean, date).
+func (s *scanner) valueBody(path int32) {
 	switch c := s.peek(); c {
 	case '"':
 		if strings.HasPrefix(s.text[s.i:], `"""`) {
@@ -437,11 +472,7 @@ func (s *scanner) array(path int32) {
 		}
 		start := s.i
 		el := s.ix.element(path, s.here())
-		if s.peek() == '{' {
-			s.inline(el)
-		} else {
-			s.value(el)
-		}
+		s.value(el)
 		s.space()
 		switch s.peek() {
 		case ',':

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"strings"
 	"testing"
+	"time"
 )
 
 // cmdResult is what one run of opsift printed and the exit status.
@@ -11,6 +12,9 @@ type cmdResult struct {
 	stdout, stderr string
 	code           int
 }
+
+// testNow is the clock of command tests, so dated outputs stay golden.
+var testNow = time.Date(2026, 3, 4, 5, 6, 7, 0, time.UTC)
 
 // runOpsift runs opsift with args, stdout not a terminal; see runCLI.
 func runOpsift(t *testing.T, vars map[string]string, args ...string) cmdResult {
@@ -41,6 +45,7 @@ func runCLI(t *testing.T, tty bool, vars map[string]string, args ...string) cmdR
 			return ""
 		},
 		isTTY: tty,
+		now:   func() time.Time { return testNow },
 	}
 	code := exitCode(run(args, e), &errb)
 	return cmdResult{out.String(), errb.String(), code}

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"strings"
-	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
@@ -13,7 +12,8 @@ import (
 )
 
 const compareUsage = `Usage: opsift compare PART-ID PART-ID... [--design FILE] [--catalog PATH]...
-                     [--format table|md|json|csv] [--strict] [--strict-catalog] [-o FILE [--force]]
+                     [--format table|md|json|csv] [--strict] [--strict-catalog] [--bom]
+                     [-o FILE [--force]]
 
 Lay 2 to 6 parts side by side for a design: one row per worst-case
 figure (the value the design's policy gives, with its basis: unmarked
@@ -51,6 +51,7 @@ func runCompare(e *env, args []string) error {
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
 	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	f.output.register(fset)
+	f.output.registerBOM(fset)
 	ids, err := replaceParseArgs(fset, args)
 	if helped, err := flagResult(e, fset, err); helped || err != nil {
 		return err
@@ -62,7 +63,7 @@ func runCompare(e *env, args []string) error {
 	if !replaceOneOf(f.format, compareFormats) {
 		return usageError("compare: --format %q: want one of %s", f.format, strings.Join(compareFormats, ", "))
 	}
-	_, plan, err := deriveDesign(f.design)
+	d, plan, err := deriveDesign(f.design)
 	if err != nil {
 		return inputError(err)
 	}
@@ -78,13 +79,17 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return usageError("compare: %w", err)
 	}
-	doc := &report.CompareDoc{Table: t, Sources: cat.Sources,
-		Meta: report.CompareMeta{Version: version, Generated: time.Now().UTC().Format(time.RFC3339), File: f.design}}
+	doc := &report.CompareDoc{Table: t, Sources: cat.Sources, Meta: meta(e, f.design, d, cat, f.strict)}
+	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	var buf bytes.Buffer
 	if err := report.WriteCompare(&buf, report.Format(f.format), doc); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f.format == "csv" {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }
 
 // compareParts looks every id up in the catalog; an unknown id is a usage

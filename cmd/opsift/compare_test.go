@@ -37,7 +37,8 @@ func TestCompareFormats(t *testing.T) {
 		} `json:"design"`
 		Catalog *struct {
 			Sources []struct {
-				Path string `json:"path"`
+				Path   string `json:"path"`
+				SHA256 string `json:"sha256"`
 			} `json:"sources"`
 		} `json:"catalog"`
 		Caution string `json:"caution"`
@@ -55,7 +56,7 @@ func TestCompareFormats(t *testing.T) {
 		t.Fatal(err)
 	}
 	if doc.Version != version || doc.Design == nil || doc.Design.File != rankDesign || doc.Catalog == nil ||
-		len(doc.Catalog.Sources) != 1 || doc.Caution != report.Caution {
+		len(doc.Catalog.Sources) != 1 || len(doc.Catalog.Sources[0].SHA256) != 64 || doc.Caution != report.Caution {
 		t.Errorf("meta: %+v", doc)
 	}
 	if _, err := time.Parse(time.RFC3339, doc.Generated); err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"io/fs"
 
@@ -11,7 +12,7 @@ import (
 	"github.com/opsift/opsift/filter/report"
 )
 
-const deriveUsage = `Usage: opsift derive [--design FILE] [--format text|json]
+const deriveUsage = `Usage: opsift derive [--design FILE] [--format text|json] [-o FILE [--force]]
 
 Show what the design needs from the op-amp: every requirement with its
 bound and the formula with the numbers put in. Without --design, the
@@ -21,10 +22,14 @@ Options:
 `
 
 func runDerive(e *env, args []string) error {
-	var design, format string
+	var (
+		design, format string
+		output         outputFlags
+	)
 	fset := newFlagSet(e, "derive", deriveUsage)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&format, "format", "text", "output format: text or json")
+	output.register(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -34,16 +39,34 @@ func runDerive(e *env, args []string) error {
 	if format != "text" && format != "json" {
 		return usageError("derive: --format %q: want text or json", format)
 	}
-	_, plan, err := deriveDesign(design)
+	d, plan, err := deriveDesign(design)
 	if err != nil {
 		return inputError(err)
 	}
-	return report.WriteDerive(e.stdout, format, plan)
+	var buf bytes.Buffer
+	if err := report.WriteDerive(&buf, format, plan, meta(e, design, d, nil, false)); err != nil {
+		return err
+	}
+	return output.emit(e, buf.Bytes())
 }
 
 // deriveDesign reads, decodes and derives the design at path, or the
 // embedded demo design when path is "".
 func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
+	d, _, err := readDesign(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := filter.Derive(d)
+	if err != nil {
+		return nil, nil, err
+	}
+	return d, p, nil
+}
+
+// readDesign reads and decodes the design at path ("" for the embedded
+// demo) and returns it with the text it was decoded from.
+func readDesign(path string) (*filter.Design, []byte, error) {
 	var (
 		b    []byte
 		err  error
@@ -62,9 +85,5 @@ func deriveDesign(path string) (*filter.Design, *filter.Plan, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	p, err := filter.Derive(d)
-	if err != nil {
-		return nil, nil, err
-	}
-	return d, p, nil
+	return d, b, nil
 }

@@ -5,6 +5,9 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"time"
+
+	"github.com/opsift/opsift/filter/report"
 )
 
 // env is what a command may touch of the outside world. Tests build one
@@ -17,6 +20,8 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// now is the clock outputs are dated with; tests fix it.
+	now func() time.Time
 }
 
 // newEnv returns the process's real environment.
@@ -27,6 +32,7 @@ func newEnv() *env {
 		stderr: os.Stderr,
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
+		now:    time.Now,
 	}
 }
 
@@ -43,4 +49,22 @@ func (e *env) columns(def int) int {
 		return n
 	}
 	return def
+}
+
+// tableWidth is the width a table is laid out for: unlimited
+// (report.Unclipped) when it goes to a file with -o, else $COLUMNS when
+// set, else the default on a terminal and unlimited into a pipe or a
+// redirected file, so no name is shortened where nobody reads it at a
+// terminal's width.
+func (e *env) tableWidth(toFile bool) int {
+	if toFile {
+		return report.Unclipped
+	}
+	if n := e.columns(0); n > 0 {
+		return n
+	}
+	if e.isTTY {
+		return report.DefaultWidth
+	}
+	return report.Unclipped
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"flag"
 	"fmt"
@@ -23,11 +24,32 @@ func newFlagSet(e *env, name, usage string) *flag.FlagSet {
 	return fset
 }
 
+// parseQuiet parses args with the usage text held back: the flag package
+// prints the usage itself on -h and on a bad flag, and flagResult decides
+// where it goes (stdout for --help, stderr after an error), so it is
+// printed once.
+func parseQuiet(fset *flag.FlagSet, args []string) error {
+	out := fset.Output()
+	usage := fset.Usage
+	var held bytes.Buffer
+	fset.Usage = func() {
+		fset.SetOutput(&held)
+		usage()
+		fset.SetOutput(out)
+	}
+	err := fset.Parse(args)
+	fset.Usage = usage
+	if err != nil && !errors.Is(err, flag.ErrHelp) {
+		out.Write(held.Bytes())
+	}
+	return err
+}
+
 // parseFlags parses args with fset. helped is true when the user asked for
 // --help: the usage then goes to stdout and the command should return nil.
 // A bad flag is exit status 2; the flag package has already said what.
 func parseFlags(e *env, fset *flag.FlagSet, args []string) (helped bool, err error) {
-	return flagResult(e, fset, fset.Parse(args))
+	return flagResult(e, fset, parseQuiet(fset, args))
 }
 
 // flagResult turns the error of a flag parse into parseFlags' answer, for

@@ -11,7 +11,7 @@ import (
 )
 
 const listUsage = `Usage: opsift list [--catalog PATH]... [--design FILE] [--columns KEY,KEY...]
-                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--strict-catalog]
+                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--strict-catalog] [--bom]
                   [-o FILE [--force]]
 
 List every part of the catalog with the figures you choose, side by side,
@@ -22,10 +22,11 @@ With --design the figures are at the design's worst case (its temperature
 range and policy, the rules rank uses) and each part carries its verdict;
 without it they are at 25 °C with the default policy, and no verdict.
 --typical shows the catalog's typical figures instead. Each figure carries
-its basis: guaranteed (unmarked in table and md), typical (*) or read from a
-graph (†). Formats: table, csv (SI numbers, a basis column per figure, the
-caution in the last column), json (SI units), md. Parts with problems are
-set aside (listed on stderr) unless --strict-catalog refuses the catalog.
+its basis: guaranteed (unmarked in table and md), typical (~) or read from a
+graph (g). Formats: table, csv (SI numbers, a basis column per figure, the
+caution in the last column; --bom starts it with a UTF-8 byte-order mark
+for spreadsheets), json (SI units), md. Parts with problems
+are set aside (listed on stderr) unless --strict-catalog refuses the catalog.
 
 Columns (default ` + "gbw,slew,vos,ib,en,iq,supply.min,supply.max,unit_cost" + `):
 %s
@@ -62,6 +63,7 @@ func runList(e *env, args []string) error {
 	fset.BoolVar(&typical, "typical", false, "show the catalog's typical figures instead of the worst case")
 	fset.BoolVar(&strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	output.register(fset)
+	output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -83,9 +85,12 @@ func runList(e *env, args []string) error {
 	if err != nil {
 		return usageError("list: --sort: %w", err)
 	}
-	var plan *filter.Plan
+	var (
+		plan *filter.Plan
+		d    *filter.Design
+	)
 	if design != "" {
-		if _, plan, err = deriveDesign(design); err != nil {
+		if d, plan, err = deriveDesign(design); err != nil {
 			return inputError(err)
 		}
 	}
@@ -99,13 +104,18 @@ func runList(e *env, args []string) error {
 	}
 	rows := listing.Build(plan, results, cat.Parts, cols, typical)
 	listing.Sort(rows, key, typical)
-	doc := &report.ListDoc{Plan: plan, Rows: rows, Columns: cols, Sort: key, Typical: typical, Sources: cat.Sources}
-	if output.out == "" && e.isTTY {
-		doc.Width = e.columns(report.DefaultWidth)
+	doc := &report.ListDoc{Plan: plan, Rows: rows, Columns: cols, Sort: key, Typical: typical, Sources: cat.Sources,
+		Meta: meta(e, design, d, cat, false)}
+	if w := e.tableWidth(output.out != ""); w != report.Unclipped {
+		doc.Width = w
 	}
 	var buf bytes.Buffer
 	if err := report.WriteList(&buf, f, doc); err != nil {
 		return err
 	}
-	return output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f == report.CSV {
+		data = output.csv(data)
+	}
+	return output.emit(e, data)
 }

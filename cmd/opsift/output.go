@@ -6,10 +6,26 @@ import (
 	"github.com/opsift/opsift/filter/report"
 )
 
-// outputFlags are -o FILE and --force, shared by rank and replace.
+// outputFlags are -o FILE and --force, shared by the commands that write
+// a document, and --bom for those that write CSV.
 type outputFlags struct {
 	out   string
 	force bool
+	bom   bool
+}
+
+// registerBOM adds --bom to fset, for a command with a csv format.
+func (o *outputFlags) registerBOM(fset *flag.FlagSet) {
+	fset.BoolVar(&o.bom, "bom", false, "start csv output with a UTF-8 byte-order mark, so spreadsheets read µ, ° and √ right")
+}
+
+// csv returns CSV data as it is written: after the byte-order mark with
+// --bom.
+func (o *outputFlags) csv(data []byte) []byte {
+	if !o.bom {
+		return data
+	}
+	return append([]byte(report.BOM), data...)
 }
 
 // register adds -o and --force to fset.

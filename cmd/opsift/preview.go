@@ -12,13 +12,14 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/preview"
+	"github.com/opsift/opsift/filter/report"
 	"github.com/opsift/opsift/filter/sim"
 	"github.com/opsift/opsift/tui/plot"
 )
 
 const previewUsage = `Usage: opsift preview PART-ID [--design FILE] [--stage NAME] [--catalog PATH]...
                       [--typical] [--format text|json] [--width N] [--height N] [--points N]
-                      [--strict-catalog]
+                      [--strict-catalog] [-o FILE [--force]]
 
 Simulate PART-ID in one stage of the design and show the settled waveform
 beside the ideal op-amp's: output and ideal peak-to-peak, peak error, THD,
@@ -44,6 +45,7 @@ type previewFlags struct {
 	width, height int
 	points        int
 	strictCatalog bool // refuse the catalog on any problem
+	output        outputFlags
 }
 
 // Plot size defaults: 80 columns when COLUMNS is not set, 16 lines.
@@ -69,6 +71,7 @@ func runPreview(e *env, args []string) error {
 	fset.IntVar(&f.height, "height", previewDefaultHeight, "plot height in lines")
 	fset.IntVar(&f.points, "points", 0, "largest number of samples in the t, in, out, ideal arrays (default 2000)")
 	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
+	f.output.register(fset)
 	pos, err := replaceParseArgs(fset, args)
 	if helped, err := flagResult(e, fset, err); helped || err != nil {
 		return err
@@ -118,15 +121,14 @@ func runPreview(e *env, args []string) error {
 	}
 	var buf bytes.Buffer
 	if f.format == "json" {
-		err = writePreviewJSON(&buf, design, res)
+		err = writePreviewJSON(&buf, res, report.NewJSONMeta(meta(e, f.design, design, cat, false), plan))
 	} else {
 		err = writePreviewText(&buf, design, res, f.width, f.height)
 	}
 	if err != nil {
 		return err
 	}
-	_, err = e.stdout.Write(buf.Bytes())
-	return err
+	return f.output.emit(e, buf.Bytes())
 }
 
 // previewCheckStage reports a stage the design lacks, or one without a
@@ -168,10 +170,10 @@ type previewMetricsJSON struct {
 
 // previewJSON is opsift preview's JSON output (SI units).
 type previewJSON struct {
+	report.JSONMeta
 	Part    string             `json:"part"`
 	Stage   string             `json:"stage"`
 	Kind    string             `json:"kind"`
-	Design  string             `json:"design"`
 	Basis   string             `json:"basis"`
 	Caution string             `json:"caution"`
 	Metrics previewMetricsJSON `json:"metrics"`
@@ -183,10 +185,10 @@ type previewJSON struct {
 	Notes   []string           `json:"notes"`
 }
 
-func writePreviewJSON(w io.Writer, d *filter.Design, r *preview.Result) error {
+func writePreviewJSON(w io.Writer, r *preview.Result, meta report.JSONMeta) error {
 	m, wf := r.Metrics, r.Waveform
-	out := previewJSON{
-		Part: r.Part.ID, Stage: r.Stage, Kind: r.Kind, Design: d.Name, Basis: string(r.Basis), Caution: caution,
+	out := previewJSON{JSONMeta: meta,
+		Part: r.Part.ID, Stage: r.Stage, Kind: r.Kind, Basis: string(r.Basis), Caution: caution,
 		Metrics: previewMetricsJSON{OutputPP: m.OutputPP, IdealPP: m.IdealPP, PeakError: m.PeakError, THD: m.THD,
 			SlewingFraction: m.SlewingFraction, Frequency: m.Frequency, IdealFrequency: m.IdealFrequency,
 			Duty: m.Duty, TransitionTime: m.TransitionTime},

@@ -8,7 +8,7 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--strict-catalog]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--strict-catalog] [--bom]
                   [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
@@ -19,7 +19,9 @@ last column of every row), json (SI units), md (a shortlist for design
 review), toml (the ranked parts as a catalog file). json and md give each
 passing candidate's headroom: for every design input, moved alone, the
 value at which the part fails and the requirement that breaks there.
-Sort keys: margin
+--bom starts csv with a UTF-8 byte-order mark for spreadsheets (without it
+some read µ, ° and √ wrongly). Tables are fitted to the terminal
+($COLUMNS); written to a file or a pipe they are not shortened. Sort keys: margin
 (default), cost, supply_current, fmax, id. -o writes atomically: a
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
@@ -62,6 +64,7 @@ func runRank(e *env, args []string) error {
 	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	fset.BoolVar(&f.noHead, "no-headroom", false, "leave each candidate's headroom out of json and md (faster on a long list)")
 	f.output.register(fset)
+	f.output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -79,7 +82,7 @@ func runRank(e *env, args []string) error {
 	if f.top < 0 {
 		return usageError("rank: --top %d: want 0 (all) or a positive count", f.top)
 	}
-	_, plan, err := deriveDesign(f.design)
+	d, plan, err := deriveDesign(f.design)
 	if err != nil {
 		return inputError(err)
 	}
@@ -90,11 +93,16 @@ func runRank(e *env, args []string) error {
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead,
-		Sources: cat.Sources, SetAside: cat.SetAside, Width: e.columns(report.DefaultWidth)}
+		Sources: cat.Sources, SetAside: cat.SetAside, Width: e.tableWidth(f.output.out != ""), Meta: meta(e, f.design, d, cat, f.strict)}
+	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer
 	if err := report.Write(&buf, format, doc); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if format == report.CSV {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }

@@ -172,3 +172,25 @@ func TestRankOutputFileAndTOMLRoundTrip(t *testing.T) {
 		t.Errorf("export does not decode: %v", err)
 	}
 }
+
+// Every command's --help goes to stdout once and leaves stderr empty; a bad
+// flag puts the error and the usage on stderr once.
+func TestHelpPrintedOnce(t *testing.T) {
+	for _, c := range commands() {
+		t.Run(c.name, func(t *testing.T) {
+			r := runOpsift(t, nil, c.name, "--help")
+			want := "Usage: opsift " + c.name
+			if r.code != 0 || strings.Count(r.stdout, want) != 1 || r.stderr != "" {
+				t.Errorf("--help: exit %d, %d usage(s) on stdout, stderr %q", r.code, strings.Count(r.stdout, want), r.stderr)
+			}
+			r = runOpsift(t, nil, c.name, "--no-such-flag")
+			if r.code != 2 || r.stdout != "" || strings.Count(r.stderr, want) != 1 || !strings.Contains(r.stderr, "no-such-flag") {
+				t.Errorf("bad flag: exit %d, stdout %q, stderr %q", r.code, r.stdout, r.stderr)
+			}
+		})
+	}
+	r := runOpsift(t, nil, "--help")
+	if r.code != 0 || r.stderr != "" || strings.Count(r.stdout, "Usage:") != 1 {
+		t.Errorf("opsift --help: exit %d, stderr %q", r.code, r.stderr)
+	}
+}

@@ -11,13 +11,14 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // replaceFormats are the output formats of opsift replace.
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [--strict-catalog]
+                      [--all] [--obsolete] [--over-temp] [--strict] [--strict-catalog] [--bom]
                       [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
@@ -59,6 +60,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
 	fs.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	f.output.register(fs)
+	f.output.registerBOM(fs)
 	pos, err := replaceParseArgs(fs, args)
 	if helped, err := flagResult(e, fs, err); helped || err != nil {
 		return err
@@ -84,8 +86,8 @@ func runReplace(e *env, args []string) error {
 	}
 	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
 	var design *filter.Design
+	var plan *filter.Plan
 	if f.design != "" {
-		var plan *filter.Plan
 		design, plan, err = deriveDesign(f.design)
 		if err != nil {
 			return inputError(err)
@@ -94,6 +96,10 @@ func runReplace(e *env, args []string) error {
 	}
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
+	v.plan, v.meta = plan, meta(e, f.design, design, cat, f.strict)
+	if plan != nil {
+		v.meta.Warnings = filter.FilterWarnings(plan, parts)
+	}
 	if design != nil {
 		v.designTitle, v.designFile = design.Title, f.design
 	}
@@ -103,7 +109,11 @@ func runReplace(e *env, args []string) error {
 	if err := v.write(&buf, f.format); err != nil {
 		return err
 	}
-	return f.output.emit(e, buf.Bytes())
+	data := buf.Bytes()
+	if f.format == "csv" {
+		data = f.output.csv(data)
+	}
+	return f.output.emit(e, data)
 }
 
 // replaceParseArgs parses flags that may come before and after the
@@ -112,7 +122,7 @@ func runReplace(e *env, args []string) error {
 func replaceParseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var pos []string
 	for {
-		if err := fs.Parse(args); err != nil {
+		if err := parseQuiet(fs, args); err != nil {
 			return nil, err
 		}
 		rest := fs.Args()
@@ -145,6 +155,8 @@ type replaceView struct {
 	failHidden  int // candidates failing the design, not listed
 	designTitle string
 	designFile  string
+	plan        *filter.Plan // the design evaluated; nil without --design
+	meta        *report.Meta
 	color       bool
 }
 

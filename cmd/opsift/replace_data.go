@@ -15,12 +15,12 @@ import (
 // Hz, V/s, F, V/√Hz, A/√Hz, V/K), temperatures °C, open-loop gain dB; a
 // figure a part does not give is null.
 type replaceJSON struct {
-	Original        replacePartJSON       `json:"original"`
-	Design          *replaceDesignRefJSON `json:"design,omitempty"`
-	Candidates      []replaceCandJSON     `json:"candidates"`
-	ObsoleteLeftOut int                   `json:"obsolete_left_out"`
-	FailingLeftOut  int                   `json:"failing_left_out,omitempty"`
-	Caution         string                `json:"caution"`
+	report.JSONMeta
+	Original        replacePartJSON   `json:"original"`
+	Candidates      []replaceCandJSON `json:"candidates"`
+	ObsoleteLeftOut int               `json:"obsolete_left_out"`
+	FailingLeftOut  int               `json:"failing_left_out,omitempty"`
+	Caution         string            `json:"caution"`
 }
 
 type replacePartJSON struct {
@@ -30,17 +30,14 @@ type replacePartJSON struct {
 	Pinout    string   `json:"pinout"`
 	Packages  []string `json:"packages"`
 	Channels  int      `json:"channels"`
-}
-
-type replaceDesignRefJSON struct {
-	Title string `json:"title"`
-	File  string `json:"file"`
+	Datasheet string   `json:"datasheet,omitempty"`
 }
 
 type replaceCandJSON struct {
 	ID             string              `json:"id"`
 	Name           string              `json:"name"`
 	Lifecycle      string              `json:"lifecycle"`
+	Datasheet      string              `json:"datasheet,omitempty"`
 	DropIn         bool                `json:"drop_in"`
 	Footprint      string              `json:"footprint"`
 	SharedPackages []string            `json:"shared_packages"`
@@ -89,15 +86,13 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 	o := v.res.Original
 	doc := replaceJSON{
 		Original: replacePartJSON{ID: o.ID, Name: o.Name, Lifecycle: string(o.Lifecycle), Pinout: o.Pinout,
-			Packages: replaceNonNil(o.Packages), Channels: o.Channels},
+			Packages: replaceNonNil(o.Packages), Channels: o.Channels, Datasheet: o.Datasheet},
 		Candidates:      []replaceCandJSON{},
 		ObsoleteLeftOut: v.res.ObsoleteLeftOut,
 		FailingLeftOut:  v.failHidden,
 		Caution:         caution,
 	}
-	if v.res.Designed {
-		doc.Design = &replaceDesignRefJSON{Title: v.designTitle, File: v.designFile}
-	}
+	doc.JSONMeta = report.NewJSONMeta(v.meta, v.plan)
 	for _, c := range v.list {
 		doc.Candidates = append(doc.Candidates, replaceCandidateJSON(c))
 	}
@@ -110,7 +105,7 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 func replaceCandidateJSON(c replace.Candidate) replaceCandJSON {
 	p := c.Part
 	j := replaceCandJSON{
-		ID: p.ID, Name: p.Name, Lifecycle: string(p.Lifecycle),
+		ID: p.ID, Name: p.Name, Lifecycle: string(p.Lifecycle), Datasheet: p.Datasheet,
 		DropIn: c.DropIn, Footprint: c.Footprint, SharedPackages: replaceNonNil(c.Shared), Strict: c.Strict,
 		Regressions: replaceChangesJSON(c.Regressions), Improvements: replaceChangesJSON(c.Improvements),
 		Missing: replaceNonNil(c.Missing),

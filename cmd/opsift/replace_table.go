@@ -4,9 +4,10 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"unicode/utf8"
 
 	"github.com/opsift/opsift/catalog/safe"
+	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
 )
 
@@ -60,7 +61,7 @@ func (v *replaceView) writeTable(w io.Writer) error {
 			for i, cell := range row {
 				pad := cell
 				if i < len(row)-1 {
-					pad += strings.Repeat(" ", widths[i]-utf8.RuneCountInString(cell)+2)
+					pad += strings.Repeat(" ", widths[i]-present.Width(cell)+2)
 				}
 				if r > 0 && i == len(row)-1 && len(v.list[r-1].Regressions) > 0 {
 					pad = v.paint(replaceRed, pad)
@@ -99,7 +100,7 @@ func (v *replaceView) writeTable(w io.Writer) error {
 			}
 			fmt.Fprintf(&b, "   %s  %s\n", v.paint(replaceGreen, "better"), r.Reason())
 		}
-		for i, line := range replaceWrap("also "+strings.Join(also, ", "), replaceWrapWidth) {
+		for i, line := range present.Wrap("also "+strings.Join(also, ", "), replaceWrapWidth, "") {
 			word := v.paint(replaceGreen, "better")
 			if i > 0 {
 				word = "      "
@@ -141,27 +142,6 @@ func (v *replaceView) leftOutNotes() []string {
 // line is wrapped to after its 11-character indent: 100 columns in all.
 const replaceWrapWidth = 89
 
-// replaceWrap breaks text at spaces into lines of at most width runes
-// (a longer word gets a line of its own). Empty text gives no lines.
-func replaceWrap(text string, width int) []string {
-	var lines []string
-	var cur strings.Builder
-	for _, w := range strings.Fields(text) {
-		if cur.Len() > 0 && utf8.RuneCountInString(cur.String())+1+utf8.RuneCountInString(w) > width {
-			lines = append(lines, cur.String())
-			cur.Reset()
-		}
-		if cur.Len() > 0 {
-			cur.WriteByte(' ')
-		}
-		cur.WriteString(w)
-	}
-	if cur.Len() > 0 {
-		lines = append(lines, cur.String())
-	}
-	return lines
-}
-
 func replaceVerbS(n int) string {
 	if n == 1 {
 		return "s"
@@ -180,7 +160,7 @@ func replaceColumnWidths(rows [][]string) []int {
 	w := make([]int, len(rows[0]))
 	for _, row := range rows {
 		for i, c := range row {
-			w[i] = max(w[i], utf8.RuneCountInString(c))
+			w[i] = max(w[i], present.Width(c))
 		}
 	}
 	return w
@@ -211,9 +191,12 @@ func replaceDesignCell(c replace.Candidate) string {
 		word = "FAIL"
 	}
 	if !d.WorstMargin.Set {
+		if len(d.Failed) > 0 {
+			return word + " " + d.Failed[0]
+		}
 		return word
 	}
-	return fmt.Sprintf("%s %s %s", word, replaceMarginText(d.WorstMargin.V), replaceBindingText(d.Binding))
+	return fmt.Sprintf("%s %s %s", word, present.Margin(d.WorstMargin.V), replaceBindingText(d.Binding))
 }
 
 // replaceDesignLine is the detail line of a design fit.
@@ -225,7 +208,11 @@ func replaceDesignLine(d *replace.Fit) string {
 		b.WriteString("FAIL")
 	}
 	if d.WorstMargin.Set {
-		fmt.Fprintf(&b, ", worst margin %s at %s", replaceMarginText(d.WorstMargin.V), replaceBindingText(d.Binding))
+		what := "worst margin"
+		if !d.Pass {
+			what = "worst miss"
+		}
+		fmt.Fprintf(&b, ", %s %s at %s", what, present.Margin(d.WorstMargin.V), replaceBindingText(d.Binding))
 	}
 	if len(d.Failed) > 0 {
 		fmt.Fprintf(&b, "; fails %s", strings.Join(d.Failed, ", "))
@@ -233,15 +220,8 @@ func replaceDesignLine(d *replace.Fit) string {
 	return b.String()
 }
 
-func replaceMarginText(m float64) string {
-	return fmt.Sprintf("%+.1f %%", m*100)
-}
-
 func replaceBindingText(b replace.Binding) string {
-	if b.Stage == "" {
-		return b.Key
-	}
-	return b.Stage + "/" + b.Key
+	return present.CheckName(b.Stage, filter.Key(b.Key))
 }
 
 func replaceRegressionSummary(c replace.Candidate) string {

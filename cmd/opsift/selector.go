@@ -10,6 +10,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/tui"
 )
 
@@ -17,9 +18,11 @@ const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--stri
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
-Mark parts for a shortlist and export it (md, csv, json, toml); save the
-edited design; R finds replacements for a part, v shows its waveform.
-Press ? inside for every key.
+Mark parts for a shortlist and export it (md, csv, json, toml); w saves
+the edited design in place, keeping its comments; q asks before unsaved
+edits are lost, and a change to the design file on disk is offered, never
+overwritten unasked. R finds replacements for a part, v shows its
+waveform. Press ? inside for every key.
 
 Parts with problems are set aside (the status line counts them; opsift
 check lists them) and the rest is ranked; --strict-catalog refuses the
@@ -50,7 +53,10 @@ func runSelector(e *env, args []string) error {
 	if fset.NArg() > 0 {
 		return usageError("unexpected argument %q (see opsift --help)", fset.Arg(0))
 	}
-	d, _, err := deriveDesign(design)
+	d, text, err := readDesign(design)
+	if err == nil {
+		_, err = filter.Derive(d)
+	}
 	if err != nil {
 		return inputError(err)
 	}
@@ -81,9 +87,13 @@ func runSelector(e *env, args []string) error {
 	if e.getenv("NO_COLOR") != "" {
 		r.SetColorProfile(termenv.Ascii)
 	}
+	settingsFile := tui.SettingsPath(e.getenv)
+	settings, settingsErr := tui.LoadSettings(settingsFile)
 	m := tui.New(tui.Config{
 		Design:     d,
 		DesignFile: design,
+		DesignText: text,
+		Version:    version,
 		Catalog:    cat,
 		CatalogErr: cat.Problems().AsError(),
 		Load: func() (*catalog.Catalog, error) {
@@ -95,6 +105,10 @@ func runSelector(e *env, args []string) error {
 		Strict:   strict,
 		Renderer: r,
 		Getenv:   e.getenv,
+
+		Settings:     settings,
+		SettingsFile: settingsFile,
+		SettingsErr:  settingsErr,
 	})
 	defer m.Close()
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithMouseCellMotion(),

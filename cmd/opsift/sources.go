@@ -9,7 +9,9 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/data"
+	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // pathList is a repeatable --catalog flag: each use adds one file or
@@ -166,4 +168,18 @@ func lookupPart(c *catalog.Catalog, id string) (*catalog.Part, error) {
 		}
 	}
 	return nil, err
+}
+
+// meta says what an output is made from: this program's version, the
+// time, the design file (the embedded demo design named as such) and the
+// catalog files read with their hashes; cat may be nil (derive).
+func meta(e *env, designPath string, d *filter.Design, cat *catalog.Catalog, strict bool) *report.Meta {
+	m := &report.Meta{Version: version, Generated: e.now(), File: designPath, Strict: strict}
+	if designPath == "" && d != nil {
+		m.File = "embedded demo design " + d.Name
+	}
+	if cat != nil {
+		m.Sources = cat.FileSums
+	}
+	return m
 }

@@ -5,22 +5,28 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // FitOf turns a filter evaluation into a Fit: pass, worst margin, binding
-// check and the failing checks. Result keeps r for a front end that shows
-// every check.
+// check and the failing checks. A failing part's WorstMargin and Binding
+// are those of its worst failing check (present.Worst), so a failing part
+// never reads with a positive margin; Failed names a failing hard filter
+// by its reason ("package not offered"), worst miss first. Result keeps r
+// for a front end that shows every check.
 func FitOf(r *filter.Result) Fit {
 	f := Fit{Pass: r.Pass, Result: r, Binding: Binding{Stage: r.Binding.Stage, Key: string(r.Binding.Key)}}
-	if !math.IsNaN(r.WorstMargin) {
-		f.WorstMargin = catalog.Some(r.WorstMargin)
+	if m := present.ShownMargin(r); !math.IsNaN(m) {
+		f.WorstMargin = catalog.Some(m)
 	}
-	for _, c := range r.Failing() {
-		name := string(c.Key())
-		if c.Stage() != "" {
-			name = c.Stage() + "/" + name
+	if w := present.Worst(r); w != nil {
+		f.Binding = Binding{Stage: w.Req.Stage, Key: string(w.Req.Key)}
+	}
+	for _, c := range present.FailingFirst(r) {
+		if c.Status != filter.StatusFail {
+			break
 		}
-		f.Failed = append(f.Failed, name)
+		f.Failed = append(f.Failed, present.Reason(c))
 	}
 	return f
 }

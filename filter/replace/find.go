@@ -42,11 +42,13 @@ type Binding struct {
 type Fit struct {
 	Pass bool
 	// WorstMargin is the smallest numeric margin over all stages (a
-	// fraction; ≥ 0 passes); unset when no check had a number.
+	// fraction; ≥ 0 passes); for a failing part that of its worst failing
+	// check; unset when there is no such number.
 	WorstMargin catalog.Opt
 	Binding     Binding
-	// Failed lists the checks that fail, as "stage/key" ("key" for a
-	// design-level check), in check order.
+	// Failed lists the checks that fail, worst miss first, as "stage/key"
+	// ("key" for a design-level check) or, for a hard filter, its reason
+	// ("package not offered").
 	Failed []string
 	// Result is the full evaluation when it came from filter (every check
 	// with its margin and basis); nil otherwise.

@@ -13,6 +13,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/compare"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // CompareDoc is what opsift compare (and the selector's compare export)
@@ -20,17 +21,9 @@ import (
 type CompareDoc struct {
 	Table   *compare.Table
 	Sources []string // catalog source names
-	// Meta is the block every JSON output opens with.
-	Meta CompareMeta
-}
-
-// CompareMeta says what a comparison was made from (DESIGN.md "Contract
-// additions": version, generated, design, catalog).
-type CompareMeta struct {
-	Version   string
-	Generated string // RFC 3339
-	File      string // the design file, "" for the embedded demo design
-	Modified  bool   // the design was edited since it was read
+	// Meta says what the comparison was made from: the block every JSON
+	// output opens with (meta.go).
+	Meta *Meta
 }
 
 // BestMark follows the best value of a row in every compare format but
@@ -54,7 +47,7 @@ func compareCell(r *compare.Row, c compare.Cell) string {
 	case r.Kind == compare.Check && math.IsNaN(c.V):
 		s = c.Status.String()
 	case r.Kind == compare.Check:
-		s = Margin(c.V)
+		s = present.Margin(c.V)
 		if c.Status == filter.StatusFail {
 			s += " fail"
 		}
@@ -104,10 +97,10 @@ func compareSummary(t *compare.Table) [][]markCell {
 			p = fmt.Sprintf("no (%d failing)", r.Failed)
 		}
 		pass = append(pass, markCell{text: p})
-		worst = append(worst, markCell{text: Margin(r.WorstMargin), best: r.Pass && r.WorstMargin == best})
+		worst = append(worst, markCell{text: present.RowMargin(r), best: r.Pass && r.WorstMargin == best})
 		b := "—"
 		if !math.IsNaN(r.WorstMargin) {
-			b = CheckName(r.Binding.Stage, r.Binding.Key)
+			b = present.CheckName(r.Binding.Stage, r.Binding.Key)
 		}
 		bind = append(bind, markCell{text: b})
 	}
@@ -173,12 +166,12 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 	widths := make([]int, len(lines[0]))
 	for _, l := range lines[1:] {
 		for i, c := range l {
-			widths[i] = max(widths[i], runeLen(c))
+			widths[i] = max(widths[i], present.Width(c))
 		}
 	}
 	widths[0] = max(widths[0], 12)
 	for i := 1; i < len(widths); i++ {
-		widths[i] = max(widths[i], runeLen(lines[0][i]))
+		widths[i] = max(widths[i], present.Width(lines[0][i]))
 	}
 	b := bufio.NewWriter(w)
 	fmt.Fprintf(b, "%s\n\n", lines[0][0])
@@ -188,7 +181,7 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 			if i > 0 {
 				b.WriteString("  ")
 			}
-			pad := widths[i] - runeLen(c)
+			pad := widths[i] - present.Width(c)
 			if i == 0 {
 				b.WriteString(c + strings.Repeat(" ", pad))
 			} else {
@@ -244,28 +237,11 @@ func writeCompareSection(b *bytes.Buffer, t *compare.Table, h string) {
 }
 
 type jsonCompare struct {
-	Version   string            `json:"version"`
-	Generated string            `json:"generated"`
-	Design    jsonCompareMeta   `json:"design"`
-	Catalog   jsonCatalogMeta   `json:"catalog"`
-	Title     string            `json:"title"`
-	Caution   string            `json:"caution"`
-	Parts     []jsonComparePart `json:"parts"`
-	Rows      []jsonCompareRow  `json:"rows"`
-}
-
-type jsonCompareMeta struct {
-	File     string `json:"file"`
-	Modified bool   `json:"modified"`
-	Title    string `json:"title"`
-}
-
-type jsonCatalogMeta struct {
-	Sources []jsonCatalogSource `json:"sources"`
-}
-
-type jsonCatalogSource struct {
-	Path string `json:"path"`
+	JSONMeta
+	Title   string            `json:"title"`
+	Caution string            `json:"caution"`
+	Parts   []jsonComparePart `json:"parts"`
+	Rows    []jsonCompareRow  `json:"rows"`
 }
 
 type jsonComparePart struct {
@@ -274,6 +250,7 @@ type jsonComparePart struct {
 	Pass        bool         `json:"pass"`
 	WorstMargin *num         `json:"worst_margin"`
 	Binding     *jsonBinding `json:"binding"`
+	FailReason  string       `json:"fail_reason,omitempty"`
 }
 
 type jsonCompareRow struct {
@@ -297,18 +274,15 @@ type jsonCompareValue struct {
 
 func writeCompareJSON(w io.Writer, doc *CompareDoc) error {
 	t := doc.Table
-	m := doc.Meta
-	out := jsonCompare{Version: m.Version, Generated: m.Generated,
-		Design:  jsonCompareMeta{File: m.File, Modified: m.Modified, Title: t.Plan.Title},
-		Catalog: jsonCatalogMeta{Sources: []jsonCatalogSource{}},
-		Title:   t.Plan.Title, Caution: Caution}
-	for _, s := range doc.Sources {
-		out.Catalog.Sources = append(out.Catalog.Sources, jsonCatalogSource{Path: s})
-	}
+	out := jsonCompare{JSONMeta: NewJSONMeta(doc.Meta, t.Plan), Title: t.Plan.Title, Caution: Caution}
 	for i := range t.Results {
 		r := &t.Results[i]
-		p := jsonComparePart{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(r.WorstMargin)}
-		if !math.IsNaN(r.WorstMargin) {
+		p := jsonComparePart{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r))}
+		switch w := present.Worst(r); {
+		case w != nil:
+			p.Binding = &jsonBinding{Stage: stagePtr(w.Req.Stage), Key: string(w.Req.Key)}
+			p.FailReason = present.Reason(w)
+		case r.Pass && !math.IsNaN(r.WorstMargin):
 			p.Binding = &jsonBinding{Stage: stagePtr(r.Binding.Stage), Key: string(r.Binding.Key)}
 		}
 		out.Parts = append(out.Parts, p)

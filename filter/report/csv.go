@@ -4,11 +4,13 @@ import (
 	"encoding/csv"
 	"io"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // CautionColumn is the header of the last column of every CSV opsift
@@ -19,6 +21,12 @@ import (
 // filtered, sorted or pasted elsewhere.
 const CautionColumn = "caution"
 
+// BOM is the UTF-8 byte-order mark `--bom` puts before CSV: without it
+// common spreadsheet programs read a CSV file in a legacy 8-bit code page
+// and show µ, ° and √ as two odd characters each (common practice, no
+// source); with it they read UTF-8.
+const BOM = "\uFEFF"
+
 // WriteCSV writes one RFC 4180 row per listed candidate: rank, the key
 // figures (SI units, plain numbers; empty when unknown), then for every
 // numeric requirement the part's worst-case figure and the margin, and last
@@ -27,11 +35,11 @@ const CautionColumn = "caution"
 func WriteCSV(w io.Writer, doc *Doc) error {
 	cw := csv.NewWriter(w)
 	reqs := doc.Plan.Requirements()
-	head := []string{"rank", "id", "name", "pass", "worst_margin", "binding", "packages", "cost",
+	head := []string{"rank", "id", "name", "pass", "worst_margin", "margin_shown", "binding", "fail_reason", "packages", "cost",
 		"supply_current_a", "fmax_hz", "failed", "unknown", "failing"}
 	for i := range reqs {
 		q := &reqs[i]
-		name := CheckName(q.Stage, q.Key)
+		name := present.CheckName(q.Stage, q.Key)
 		switch q.Bound {
 		case filter.BoundMin, filter.BoundMax:
 			head = append(head, name+" available_"+unitSlug(q.Unit), name+" margin")
@@ -52,15 +60,20 @@ func WriteCSV(w io.Writer, doc *Doc) error {
 			rank = strconv.Itoa(i + 1)
 		}
 		binding := ""
-		if !math.IsNaN(r.WorstMargin) {
-			binding = CheckName(r.Binding.Stage, r.Binding.Key)
+		if r.Pass && !math.IsNaN(r.WorstMargin) {
+			binding = present.CheckName(r.Binding.Stage, r.Binding.Key)
 		}
 		var failing []string
 		for _, c := range failingOrUnknown(r, doc.Strict) {
-			failing = append(failing, CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
+			failing = append(failing, present.CheckName(c.Req.Stage, c.Req.Key)+":"+csvNum(c.Margin))
 		}
-		row := []string{rank, csvText(r.Part.ID), csvText(r.Part.Name), strconv.FormatBool(r.Pass), csvNum(r.WorstMargin),
-			csvText(binding), strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
+		reason := ""
+		if w := present.Worst(r); w != nil {
+			reason = present.Reason(w)
+		}
+		row := []string{rank, csvText(r.Part.ID), csvText(r.Part.Name), strconv.FormatBool(r.Pass), csvNum(present.ShownMargin(r)),
+			csvMargin(present.RowMargin(r)), csvText(binding), csvText(reason),
+			strconv.Itoa(r.Packages), csvNum(r.Cost), csvNum(r.SupplyCurrent), csvNum(r.MinFMax()),
 			strconv.Itoa(r.Failed), strconv.Itoa(r.Unknown), csvText(strings.Join(failing, ";"))}
 		for j := range r.Checks {
 			c := &r.Checks[j]
@@ -90,6 +103,23 @@ func csvText(s string) string {
 		s = "'" + s
 	}
 	return safe.Text(s)
+}
+
+// shownMargin is the grammar of a percentage present.Margin writes
+// ("+3.2 %", "-44 %"); the ratio ("×17") and None start with no formula
+// character.
+var shownMargin = regexp.MustCompile(`^[+-][0-9]+(\.[0-9])? %$`)
+
+// csvMargin writes the margin_shown cell. A signed percentage of
+// present.Margin starts with + or -, which csvText would take for a
+// formula; it is the program's own figure and a spreadsheet reads it as
+// that percentage, so it is written as it is. Anything else goes through
+// csvText.
+func csvMargin(s string) string {
+	if shownMargin.MatchString(s) {
+		return s
+	}
+	return csvText(s)
 }
 
 // csvNum writes a number with 12 significant digits, "" for NaN.

@@ -8,29 +8,39 @@ import (
 
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // WriteDerive writes the plan's requirements: "text" shows every
 // requirement with its formula under a design summary; "json" the same as
 // a document with SI numbers.
-func WriteDerive(w io.Writer, format string, p *filter.Plan) error {
+func WriteDerive(w io.Writer, format string, p *filter.Plan, m *Meta) error {
 	switch format {
 	case "", "text":
 		return writeDeriveText(w, p)
 	case "json":
-		return writeDeriveJSON(w, p)
+		return writeDeriveJSON(w, p, m)
 	}
 	return fmt.Errorf("unknown format %q, want text or json", format)
 }
 
-// writeDeriveText writes the text derivation; every line passes through
-// the sanitiser, since the design's strings (title, package lists) are in it.
+// writeDeriveText writes the summary, the design's warnings and every
+// requirement grouped by stage; every line passes through the sanitiser,
+// since the design's strings (title, package lists) are in it.
 func writeDeriveText(w io.Writer, p *filter.Plan) error {
 	var buf bytes.Buffer
 	b := bufio.NewWriter(&buf)
 	fmt.Fprintln(b, oneLine(p.Title))
 	for _, l := range summaryLines(p) {
 		fmt.Fprintln(b, "  "+l)
+	}
+	if len(p.Warnings) > 0 {
+		b.WriteByte('\n')
+		for _, w := range p.Warnings {
+			for _, l := range present.Wrap("⚠ "+w.String(), DefaultWidth, "  ") {
+				fmt.Fprintln(b, l)
+			}
+		}
 	}
 	reqs := p.Requirements()
 	stage := "\x00"
@@ -70,8 +80,8 @@ type jsonStage struct {
 }
 
 type jsonDerive struct {
+	JSONMeta
 	Title   string `json:"title"`
-	Design  string `json:"design,omitempty"`
 	Caution string `json:"caution"`
 	Supply  struct {
 		Pos       num `json:"pos"`
@@ -97,12 +107,9 @@ func positive(v float64) *num {
 	return val(v)
 }
 
-func writeDeriveJSON(w io.Writer, p *filter.Plan) error {
-	out := jsonDerive{Title: p.Title, Caution: Caution, Temp: [2]num{num(p.TempLow), num(p.TempHigh)},
+func writeDeriveJSON(w io.Writer, p *filter.Plan, m *Meta) error {
+	out := jsonDerive{JSONMeta: NewJSONMeta(m, p), Title: p.Title, Caution: Caution, Temp: [2]num{num(p.TempLow), num(p.TempHigh)},
 		DerateTyp: num(p.DerateTyp), InflateTyp: num(p.InflateTyp), Requirements: jsonRequirements(p)}
-	if p.Design != nil {
-		out.Design = p.Design.Name
-	}
 	r := p.Rails
 	out.Supply.Pos, out.Supply.Neg, out.Supply.Tolerance = num(r.Pos), num(r.Neg), num(r.Tol)
 	out.Supply.PosWorst, out.Supply.NegWorst = num(r.PosWorst), num(r.NegWorst)

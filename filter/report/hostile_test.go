@@ -28,9 +28,11 @@ func TestEveryFormatIsClean(t *testing.T) {
 		part.Name, part.Notes, part.Datasheet, part.Pinout = hostile, hostile, hostile, hostile
 		part.Packages = append([]string{hostile}, part.Packages...)
 	})
+	meta := &report.Meta{Version: hostile, File: hostile, Sources: []catalog.FileSum{{Path: hostile, SHA256: hostile, Parts: 1}},
+		Warnings: []filter.Warning{{Stage: hostile, Field: hostile, Text: hostile}}}
 	for _, f := range report.Formats() {
 		for _, color := range []bool{false, true} {
-			doc := &report.Doc{Plan: p, Results: rs, All: true, Sources: []string{hostile}, Color: color}
+			doc := &report.Doc{Plan: p, Results: rs, All: true, Sources: []string{hostile}, Color: color, Meta: meta}
 			var b bytes.Buffer
 			if err := report.Write(&b, f, doc); err != nil {
 				t.Fatalf("%s: %v", f, err)
@@ -42,7 +44,7 @@ func TestEveryFormatIsClean(t *testing.T) {
 	}
 	for _, format := range []string{"text", "json"} {
 		var b bytes.Buffer
-		if err := report.WriteDerive(&b, format, p); err != nil {
+		if err := report.WriteDerive(&b, format, p, meta); err != nil {
 			t.Fatal(err)
 		}
 		if err := safe.CheckOutput(b.String()); err != nil {
@@ -67,6 +69,11 @@ func TestCSVNeutralisesFormulas(t *testing.T) {
 		}
 		if strings.HasPrefix(row[4], "-") {
 			negative = true // worst_margin of a failing part: a number, as written
+		}
+		// margin_shown is the program's own percentage ("+3.5 %", "-97 %",
+		// "—"): written as it is, not taken for a formula.
+		if shown := row[5]; strings.HasPrefix(shown, "'") || shown == "" {
+			t.Errorf("margin_shown cell %q: want the margin text as written", shown)
 		}
 	}
 	if !negative {

@@ -10,6 +10,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // The JSON documents follow DESIGN.md "JSON output of rank". Numbers are
@@ -18,12 +19,11 @@ import (
 // float noise (3.2009999999999996) does not reach the file.
 
 type jsonRank struct {
+	JSONMeta
 	Title        string            `json:"title"`
-	Design       string            `json:"design,omitempty"`
 	Caution      string            `json:"caution"`
 	Sort         string            `json:"sort"`
 	Strict       bool              `json:"strict"`
-	Sources      []string          `json:"sources,omitempty"`
 	Parts        int               `json:"parts"`
 	Passing      int               `json:"passing"`
 	Requirements []jsonRequirement `json:"requirements"`
@@ -78,9 +78,11 @@ type jsonBinding struct {
 type jsonCandidate struct {
 	ID            string          `json:"id"`
 	Name          string          `json:"name"`
+	Datasheet     string          `json:"datasheet,omitempty"` // the catalog's reference, as written
 	Pass          bool            `json:"pass"`
 	WorstMargin   *num            `json:"worst_margin"`
 	Binding       *jsonBinding    `json:"binding"`
+	FailReason    string          `json:"fail_reason,omitempty"`
 	Packages      int             `json:"packages"`
 	Cost          *num            `json:"cost"`
 	SupplyCurrent *num            `json:"supply_current"`
@@ -214,19 +216,20 @@ func jsonChecks(r *filter.Result) []jsonCheck {
 // WriteJSON writes the rank document of DESIGN.md "JSON output of rank".
 func WriteJSON(w io.Writer, doc *Doc) error {
 	p := doc.Plan
-	out := jsonRank{Title: p.Title, Caution: Caution, Sort: sortName(doc.Sort), Strict: doc.Strict,
-		Sources: doc.Sources, Parts: len(doc.Results), Passing: doc.Passing(),
+	out := jsonRank{JSONMeta: NewJSONMeta(doc.Meta, p), Title: p.Title, Caution: Caution, Sort: sortName(doc.Sort),
+		Strict: doc.Strict, Parts: len(doc.Results), Passing: doc.Passing(),
 		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}, SetAside: jsonSetAsides(doc.SetAside)}
-	if p.Design != nil {
-		out.Design = p.Design.Name
-	}
 	doc.prepareHeadroom()
 	for _, r := range doc.Listed() {
-		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Pass: r.Pass, WorstMargin: opt(r.WorstMargin),
+		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Datasheet: r.Part.Datasheet, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r)),
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
 			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
 			Headroom: jsonHeadrooms(doc.Headroom(r))}
-		if !math.IsNaN(r.WorstMargin) {
+		switch w := present.Worst(r); {
+		case w != nil:
+			c.Binding = &jsonBinding{Stage: stagePtr(w.Req.Stage), Key: string(w.Req.Key)}
+			c.FailReason = present.Reason(w)
+		case r.Pass && !math.IsNaN(r.WorstMargin):
 			c.Binding = &jsonBinding{Stage: stagePtr(r.Binding.Stage), Key: string(r.Binding.Key)}
 		}
 		for i, s := range p.Stages {

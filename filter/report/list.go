@@ -13,6 +13,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/listing"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // ListDoc is what `opsift list` writes: every part of the catalog with
@@ -26,6 +27,9 @@ type ListDoc struct {
 	Typical bool     // typical figures instead of the worst case
 	Sources []string // the catalog sources, for the header
 	Width   int      // table: clip the name to fit this width; 0 = never clip
+	// Meta says what the listing was made from; the JSON carries it as
+	// every JSON output does (version, generated, design, catalog).
+	Meta *Meta
 }
 
 // ListFormats are the formats WriteList renders, in help order.
@@ -93,7 +97,7 @@ func ListCell(c listing.Column, v listing.Cell) string {
 	}
 	switch c.Key {
 	case "margin":
-		return Margin(v.V)
+		return present.Margin(v.V)
 	case "channels":
 		return fmt.Sprintf("%.0f", v.V)
 	case "unit_cost":
@@ -171,9 +175,9 @@ func writeListTable(w io.Writer, doc *ListDoc) error {
 	}
 	widths := make([]int, len(heads))
 	for j, h := range heads {
-		widths[j] = runeLen(h)
+		widths[j] = present.Width(h)
 		for _, row := range rows {
-			widths[j] = max(widths[j], runeLen(row[j]))
+			widths[j] = max(widths[j], present.Width(row[j]))
 		}
 	}
 	if doc.Width > 0 {
@@ -201,8 +205,8 @@ func writeCells(b *bufio.Writer, cells []string, widths []int, right []bool) {
 		if i > 0 {
 			line.WriteString("  ")
 		}
-		c = clip(c, widths[i])
-		pad := strings.Repeat(" ", widths[i]-runeLen(c))
+		c = present.Clip(c, widths[i])
+		pad := strings.Repeat(" ", widths[i]-present.Width(c))
 		if right[i] {
 			line.WriteString(pad + c)
 		} else {
@@ -265,8 +269,8 @@ func writeListCSV(w io.Writer, doc *ListDoc) error {
 // {"parts": [{"id", "name", "pass", "figures": {KEY: {"value", "unit",
 // "basis"}}}]}, with the header fields beside parts.
 type jsonList struct {
+	JSONMeta
 	Title       string          `json:"title,omitempty"`
-	Design      string          `json:"design,omitempty"`
 	Caution     string          `json:"caution"`
 	Figures     string          `json:"figures"`
 	Temperature *jsonRange      `json:"temperature,omitempty"`
@@ -297,16 +301,13 @@ type jsonListFigure struct {
 }
 
 func writeListJSON(w io.Writer, doc *ListDoc) error {
-	out := jsonList{Caution: Caution, Figures: "worst_case", Sort: doc.Sort.String(), Sources: doc.Sources,
+	out := jsonList{JSONMeta: NewJSONMeta(doc.Meta, doc.Plan), Caution: Caution, Figures: "worst_case", Sort: doc.Sort.String(), Sources: doc.Sources,
 		Count: len(doc.Rows), Parts: []jsonListEntry{}}
 	if doc.Typical {
 		out.Figures = "typical"
 	}
 	if p := doc.Plan; p != nil {
 		out.Title = p.Title
-		if p.Design != nil {
-			out.Design = p.Design.Name
-		}
 	}
 	if !doc.Typical {
 		lo, hi := filter.RoomTemp, filter.RoomTemp

@@ -5,7 +5,6 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"math"
 	"net/url"
 	"strings"
 
@@ -13,6 +12,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/headroom"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // WriteMarkdown writes a shortlist document for design review: the design
@@ -36,6 +36,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 	p := doc.Plan
 	fmt.Fprintf(b, "# Op-amp shortlist: %s\n\n", mdText(oneLine(p.Title)))
 	fmt.Fprintf(b, "> **Caution.** %s\n\n", Caution)
+	writeMarkdownMeta(b, doc.Meta, p)
 	b.WriteString("## Design\n\n")
 	for _, line := range summaryLines(p) {
 		fmt.Fprintf(b, "- %s\n", mdText(line))
@@ -60,15 +61,13 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 	b.WriteString("| # | Part | Pass | Worst margin | Binding | Packages | Cost | Supply current | fmax | Unknown |\n")
 	b.WriteString("|---:|---|---|---:|---|---:|---:|---:|---:|---:|\n")
 	for i, r := range listed {
-		rank, pass, binding := fmt.Sprint(i+1), "yes", "—"
+		rank, pass := fmt.Sprint(i+1), "yes"
 		if !r.Pass {
 			rank, pass = "–", "**no**"
 		}
-		if !math.IsNaN(r.WorstMargin) {
-			binding = CheckName(r.Binding.Stage, r.Binding.Key)
-		}
+		binding := mdText(present.RowBinding(r, doc.Strict))
 		fmt.Fprintf(b, "| %s | `%s` | %s | %s | %s | %d | %s | %s | %s | %d |\n", rank, r.Part.ID, pass,
-			Margin(r.WorstMargin), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
+			present.RowMargin(r), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
 			fmaxText(doc.Plan, r), r.Unknown)
 	}
 	b.WriteString("\n## Candidates\n")
@@ -92,10 +91,9 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			b.WriteByte('\n')
 		}
 		b.WriteString("| Stage | Check | Need | Has | Margin | Status | Basis | Note |\n|---|---|---|---|---:|---|---|---|\n")
-		for j := range r.Checks {
-			c := &r.Checks[j]
+		for _, c := range present.FailingFirst(r) {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
-				mdText(CheckNeed(c)), mdText(Has(c, r.Part)), Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
+				mdText(CheckNeed(c)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
 		writeMarkdownHeadroom(b, doc.Headroom(r))
 	}
@@ -117,7 +115,7 @@ func writeMarkdownHeadroom(b *bufio.Writer, ls []headroom.Limit) {
 		}
 		fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(l.Stage)), mdText(l.Input),
 			mdText(catalog.Format(l.Value, l.Dim)), mdText(word+catalog.Format(l.Limit, l.Dim)),
-			mdText(CheckName(l.Breaks.Stage, l.Breaks.Key)), l.Method)
+			mdText(present.CheckName(l.Breaks.Stage, l.Breaks.Key)), l.Method)
 	}
 }
 

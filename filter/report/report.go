@@ -5,7 +5,7 @@
 // command line and the TUI's shortlist export share it.
 //
 //	filter.Plan + ranked []filter.Result ─► Doc ─► Write(w, format, doc)
-//	filter.Plan ─────────────────────────────────► WriteDerive(w, format, plan)
+//	filter.Plan ─────────────────────────────────► WriteDerive(w, format, plan, meta)
 package report
 
 import (
@@ -18,6 +18,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/headroom"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // Caution is carried by every export: opsift's results are advisory.
@@ -69,8 +70,11 @@ type Doc struct {
 	// SetAside lists the catalog's parts and files left out for problems
 	// (catalog.Catalog.SetAside), listed by the json and md documents.
 	SetAside []catalog.SetAside
-	Width    int  // table: terminal width in columns (0 = 100)
-	Color    bool // table: ANSI colour
+	// Meta says what the document was made from (version, date, design
+	// file, catalog hashes); the JSON and Markdown writers carry it.
+	Meta  *Meta
+	Width int  // table: terminal width in columns (0 = 100; Unclipped: no limit)
+	Color bool // table: ANSI colour
 	// NoHeadroom leaves the candidates' headroom out of the json and md
 	// documents (a large shortlist searches every input of every part).
 	NoHeadroom bool
@@ -131,7 +135,7 @@ func WriteTOML(w io.Writer, doc *Doc) error {
 	}
 	var head strings.Builder
 	fmt.Fprintf(&head, "# opsift rank: %s\n# %d candidate(s), sorted by %s.\n", oneLine(doc.Plan.Title), len(parts), sortName(doc.Sort))
-	for _, l := range wrapLines(Caution, 76, "") {
+	for _, l := range present.Wrap(Caution, 76, "") {
 		head.WriteString("# " + l + "\n")
 	}
 	head.WriteString("\n")
@@ -149,29 +153,6 @@ func sortName(k filter.SortKey) string {
 }
 
 func oneLine(s string) string { return safe.Text(strings.Join(strings.Fields(s), " ")) }
-
-// Margin renders a margin as a signed percentage ("+31 %", "−4.2 %"), "—"
-// when there is none.
-func Margin(m float64) string {
-	if math.IsNaN(m) {
-		return "—"
-	}
-	if math.IsInf(m, 1) {
-		return "+∞"
-	}
-	p := m * 100
-	f := "%.1f"
-	if math.Abs(p) >= 10 {
-		f = "%.0f"
-	}
-	s := fmt.Sprintf(f, math.Abs(p))
-	// The sign follows the margin, not the rounding: a miss of 0.01 % still
-	// reads as negative, so the sign always agrees with pass/fail.
-	if p < 0 {
-		return "−" + s + " %"
-	}
-	return "+" + s + " %"
-}
 
 // Need renders what a requirement asks: "≥ 0.628 V/µs", "≤ 250 mV",
 // "1 V … 11 V", or the hard filter's wording.
@@ -266,14 +247,6 @@ func orUnknown(s string) string {
 		return "?"
 	}
 	return s
-}
-
-// CheckName is "stage/key", or just the key for design-level checks.
-func CheckName(stage string, key filter.Key) string {
-	if stage == "" {
-		return string(key)
-	}
-	return stage + "/" + string(key)
 }
 
 // cost renders a cost, "?" when unknown.

@@ -8,6 +8,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
@@ -78,7 +79,7 @@ func TestGolden(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			p, rs := fixture(t, tc.design, tc.strict)
 			doc := &report.Doc{Plan: p, Results: rs, Sort: filter.SortMargin, All: tc.all, Strict: tc.strict,
-				Width: tc.width, Color: tc.color, Top: tc.top, Sources: []string{"parts.toml"}}
+				Width: tc.width, Color: tc.color, Top: tc.top, Sources: []string{"parts.toml"}, Meta: testMeta(tc.design)}
 			var b bytes.Buffer
 			if err := report.Write(&b, tc.format, doc); err != nil {
 				t.Fatal(err)
@@ -92,7 +93,7 @@ func TestGolden(t *testing.T) {
 			t.Run(name, func(t *testing.T) {
 				p, _ := fixture(t, design, false)
 				var b bytes.Buffer
-				if err := report.WriteDerive(&b, f, p); err != nil {
+				if err := report.WriteDerive(&b, f, p, testMeta(design)); err != nil {
 					t.Fatal(err)
 				}
 				checkGolden(t, name, b.Bytes())
@@ -201,7 +202,7 @@ func TestCautionInEveryFormat(t *testing.T) {
 	for _, f := range []string{"text", "json"} {
 		t.Run("derive "+f, func(t *testing.T) {
 			var b bytes.Buffer
-			if err := report.WriteDerive(&b, f, p); err != nil {
+			if err := report.WriteDerive(&b, f, p, nil); err != nil {
 				t.Fatal(err)
 			}
 			if !strings.Contains(folded(b.String()), report.Caution) {
@@ -271,15 +272,10 @@ func TestTOMLRoundTrip(t *testing.T) {
 	}
 }
 
-func TestMargin(t *testing.T) {
-	for _, tc := range []struct {
-		m    float64
-		want string
-	}{{0.31, "+31 %"}, {-0.042, "−4.2 %"}, {0, "+0.0 %"}, {-0.0001, "−0.0 %"}, {2.5, "+250 %"}} {
-		if got := report.Margin(tc.m); got != tc.want {
-			t.Errorf("Margin(%g) = %q, want %q", tc.m, got, tc.want)
-		}
-	}
+// testMeta is a fixed Meta, so the JSON and Markdown goldens stay put.
+func testMeta(design string) *report.Meta {
+	return &report.Meta{Version: "test", Generated: time.Date(2026, 3, 4, 5, 6, 7, 0, time.UTC), File: design,
+		Sources: []catalog.FileSum{{Path: "parts.toml", SHA256: strings.Repeat("0", 64), Parts: 5}}}
 }
 
 // The FMAX column: a frequency where a stage has a sine signal, "?" where
@@ -361,7 +357,8 @@ func TestCostMissPerUnit(t *testing.T) {
 	if err := report.WriteTable(&b, &report.Doc{Plan: p, Results: r, All: true}); err != nil {
 		t.Fatal(err)
 	}
-	want := "cost needs ≤ " + catalog.Format(limit, catalog.Dimensionless) + " per unit, has " +
+	// The failing filter is named by its reason (filter/present).
+	want := "over cost limit: needs ≤ " + catalog.Format(limit, catalog.Dimensionless) + " per unit, has " +
 		catalog.Format(2*limit, catalog.Dimensionless) + " per unit"
 	if !strings.Contains(b.String(), want) {
 		t.Errorf("table lacks %q:\n%s", want, b.String())

@@ -4,15 +4,13 @@ import (
 	"bufio"
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 	"strings"
-	"unicode"
-	"unicode/utf8"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // ANSI colours of the table; used only when Doc.Color.
@@ -26,6 +24,11 @@ const (
 
 // DefaultWidth is the table width when the terminal's is not known.
 const DefaultWidth = 100
+
+// Unclipped is the Doc.Width of a table written to a file or a pipe: no
+// column is dropped and no name shortened; notes and the caution are
+// folded at DefaultWidth.
+const Unclipped = 1 << 20
 
 // column is one column of the ranked table.
 type column struct {
@@ -44,27 +47,15 @@ func tableColumns(strict bool, p *filter.Plan) []column {
 			return strconv.Itoa(rank)
 		}},
 		{head: "PART", cell: func(_ int, r *filter.Result) string { return r.Part.ID }},
-		{head: "MARGIN", right: true, cell: func(_ int, r *filter.Result) string { return Margin(r.WorstMargin) }},
-		{head: "BINDING", cell: func(_ int, r *filter.Result) string {
-			if !r.Pass {
-				n := r.Failed
-				if strict {
-					n += r.Unknown
-				}
-				return fmt.Sprintf("fails %d check(s)", n)
-			}
-			if math.IsNaN(r.WorstMargin) {
-				return "—"
-			}
-			return CheckName(r.Binding.Stage, r.Binding.Key)
-		}},
-		{head: "PKG", right: true, drop: 3, cell: func(_ int, r *filter.Result) string { return strconv.Itoa(r.Packages) }},
+		{head: "MARGIN", right: true, cell: func(_ int, r *filter.Result) string { return present.RowMargin(r) }},
+		{head: "BINDING", cell: func(_ int, r *filter.Result) string { return present.RowBinding(r, strict) }},
+		{head: "PKGS\nNEEDED", right: true, drop: 3, cell: func(_ int, r *filter.Result) string { return strconv.Itoa(r.Packages) }},
 		{head: "COST", right: true, drop: 4, cell: func(_ int, r *filter.Result) string { return cost(r.Cost) }},
-		{head: "SUPPLY I", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
+		{head: "SUPPLY\nCURRENT", right: true, drop: 5, cell: func(_ int, r *filter.Result) string {
 			return quantity(r.SupplyCurrent, catalog.Ampere)
 		}},
 		{head: "FMAX", right: true, drop: 6, cell: func(_ int, r *filter.Result) string { return fmaxText(p, r) }},
-		{head: "?", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
+		{head: "UNKNOWN\nCHECKS", right: true, drop: 2, cell: func(_ int, r *filter.Result) string {
 			if r.Unknown == 0 {
 				return ""
 			}
@@ -83,17 +74,33 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	if width <= 0 {
 		width = DefaultWidth
 	}
+	prose := width // the width notes and the caution are folded to
+	if width >= Unclipped {
+		prose = DefaultWidth
+	}
 	b := bufio.NewWriter(w)
 	p := doc.Plan
 	listed := doc.Listed()
-	fmt.Fprintln(b, clip(oneLine(p.Title), width))
-	fmt.Fprintln(b, clip(fmt.Sprintf("%d of %d parts pass · sorted by %s%s", doc.Passing(), len(doc.Results),
+	fmt.Fprintln(b, present.Clip(oneLine(p.Title), width))
+	fmt.Fprintln(b, present.Clip(fmt.Sprintf("%d of %d parts pass · sorted by %s%s", doc.Passing(), len(doc.Results),
 		sortName(doc.Sort), strictText(doc.Strict)), width))
+	if ws := Warnings(doc.Meta, p); len(ws) > 0 {
+		b.WriteByte('\n')
+		for _, w := range ws {
+			line := present.Wrap("⚠ "+safe.Text(w.String()), width, "  ")
+			for _, l := range line {
+				if doc.Color {
+					l = ansiRed + l + ansiReset
+				}
+				fmt.Fprintln(b, l)
+			}
+		}
+	}
 	if len(listed) == 0 {
 		b.WriteByte('\n')
-		wrap(b, "no candidate passes; --all lists the failing parts with what they miss", width)
+		wrap(b, "no candidate passes; --all lists the failing parts with what they miss", prose)
 		b.WriteByte('\n')
-		wrap(b, "Caution: "+Caution, width)
+		wrap(b, "Caution: "+Caution, prose)
 		return b.Flush()
 	}
 	cols := tableColumns(doc.Strict, p)
@@ -106,14 +113,27 @@ func WriteTable(w io.Writer, doc *Doc) error {
 	}
 	widths := make([]int, len(cols))
 	for j, c := range cols {
-		widths[j] = runeLen(c.head)
+		top, bottom := headLines(c.head)
+		widths[j] = max(present.Width(top), present.Width(bottom))
 		for _, row := range rows {
-			widths[j] = max(widths[j], runeLen(row[j]))
+			widths[j] = max(widths[j], present.Width(row[j]))
 		}
 	}
-	keep := fitColumns(cols, widths, width)
+	fit := make([]present.Column, len(cols))
+	for j, c := range cols {
+		fit[j] = present.Column{Width: widths[j], Drop: c.drop}
+	}
+	// The name is shortened (to 8 columns at least) before it is dropped;
+	// the binding, never dropped, is shortened (to 12) only at the last.
+	fit[len(fit)-1].Min = min(8, widths[len(fit)-1])
+	fit[3].Min = min(12, widths[3])
+	widths = present.Fit(fit, width, 2)
 	b.WriteByte('\n')
-	writeRow(b, cols, keep, widths, headRow(cols), doc.Color, ansiBold)
+	top, bottom := headRows(cols)
+	if strings.TrimSpace(strings.Join(top, "")) != "" {
+		writeRow(b, cols, widths, top, doc.Color, ansiBold)
+	}
+	writeRow(b, cols, widths, bottom, doc.Color, ansiBold)
 	for i, r := range listed {
 		colour := ""
 		if doc.Color {
@@ -122,10 +142,10 @@ func WriteTable(w io.Writer, doc *Doc) error {
 				colour = ansiRed
 			}
 		}
-		writeRow(b, cols, keep, widths, rows[i], doc.Color, colour)
+		writeRow(b, cols, widths, rows[i], doc.Color, colour)
 		if !r.Pass {
 			for _, c := range failingOrUnknown(r, doc.Strict) {
-				for _, line := range wrapLines("✗ "+safe.Text(missText(c, r.Part)), width-6, "  ") {
+				for _, line := range present.Wrap("✗ "+safe.Text(missText(c, r.Part)), prose-6, "  ") {
 					line = "      " + line
 					if doc.Color {
 						line = ansiDim + line + ansiReset
@@ -136,15 +156,15 @@ func WriteTable(w io.Writer, doc *Doc) error {
 		}
 	}
 	if unknownTotal(listed) > 0 {
-		note := "? = checks left unknown (the catalog lacks the figure); --strict fails them"
+		note := "UNKNOWN CHECKS: checks left unknown (the catalog lacks the figure); --strict fails them"
 		if doc.Strict {
-			note = "? = checks left unknown (the catalog lacks the figure), failed under --strict"
+			note = "UNKNOWN CHECKS: checks left unknown (the catalog lacks the figure), failed under --strict"
 		}
 		b.WriteByte('\n')
-		wrap(b, note, width)
+		wrap(b, note, prose)
 	}
 	b.WriteByte('\n')
-	wrap(b, "Caution: "+Caution, width)
+	wrap(b, "Caution: "+Caution, prose)
 	return b.Flush()
 }
 
@@ -166,7 +186,12 @@ func unknownTotal(rs []*filter.Result) int {
 // failingOrUnknown lists a failing candidate's failing checks, plus its
 // unknown ones under strict evaluation, where they fail it too.
 func failingOrUnknown(r *filter.Result, strict bool) []*filter.Check {
-	out := r.Failing()
+	var out []*filter.Check
+	for _, c := range present.FailingFirst(r) {
+		if c.Status == filter.StatusFail {
+			out = append(out, c)
+		}
+	}
 	if strict {
 		for i := range r.Checks {
 			if r.Checks[i].Status == filter.StatusUnknown {
@@ -178,17 +203,23 @@ func failingOrUnknown(r *filter.Result, strict bool) []*filter.Check {
 }
 
 // missText says what a check needs, what the part has and by how much it
-// misses: "gain/slew needs ≥ 0.628 V/µs, has 0.35 V/µs (−44 %, typical)".
+// misses: "gain/slew needs ≥ 0.628 V/µs, has 0.35 V/µs (-44 %, typical)";
+// a failing hard filter is named by its reason: "package not offered:
+// needs soic8 | msop8, has dip8".
 func missText(c *filter.Check, p *catalog.Part) string {
+	name := present.CheckName(c.Req.Stage, c.Req.Key)
+	if present.Hard(c) && c.Status == filter.StatusFail {
+		name = present.Reason(c) + ":"
+	}
 	need, has := CheckNeed(c), Has(c, p)
 	if c.Req.Key == filter.KeyCost && has != "?" {
 		// The COST column is packages × unit cost; the check is per unit.
 		need, has = need+" per unit", has+" per unit"
 	}
-	s := fmt.Sprintf("%s needs %s, has %s", CheckName(c.Req.Stage, c.Req.Key), need, has)
+	s := fmt.Sprintf("%s needs %s, has %s", name, need, has)
 	var extra []string
 	if c.HasMargin() {
-		extra = append(extra, Margin(c.Margin))
+		extra = append(extra, present.Margin(c.Margin))
 	}
 	if c.Status == filter.StatusUnknown {
 		extra = append(extra, "unknown")
@@ -202,75 +233,38 @@ func missText(c *filter.Check, p *catalog.Part) string {
 	return s
 }
 
-func headRow(cols []column) []string {
-	out := make([]string, len(cols))
+// headLines splits a header written on two lines ("PKGS\nNEEDED"); a
+// one-line header is the bottom line.
+func headLines(head string) (top, bottom string) {
+	if t, b, ok := strings.Cut(head, "\n"); ok {
+		return t, b
+	}
+	return "", head
+}
+
+// headRows are the header's two lines, the top one all blank when no
+// header needs two.
+func headRows(cols []column) (top, bottom []string) {
+	top, bottom = make([]string, len(cols)), make([]string, len(cols))
 	for i, c := range cols {
-		out[i] = c.head
+		top[i], bottom[i] = headLines(c.head)
 	}
-	return out
+	return top, bottom
 }
 
-// fitColumns decides which columns fit width: droppable columns go in
-// drop order (highest first) until the row fits; the NAME column is then
-// shortened to what is left (at least 8 columns) rather than dropped.
-func fitColumns(cols []column, widths []int, width int) []bool {
-	keep := make([]bool, len(cols))
-	for i := range keep {
-		keep[i] = true
-	}
-	total := func() int {
-		t := 0
-		for i, k := range keep {
-			if k {
-				t += widths[i] + 2
-			}
-		}
-		return t - 2
-	}
-	name := len(cols) - 1
-	if over := total() - width; over > 0 && widths[name]-over >= 8 {
-		widths[name] -= over
-		return keep
-	}
-	for total() > width {
-		best := -1
-		for i, c := range cols {
-			if keep[i] && c.drop > 0 && (best < 0 || c.drop > cols[best].drop) {
-				best = i
-			}
-		}
-		if best < 0 {
-			break
-		}
-		if best == name && keep[name] {
-			// Try shortening the name before dropping it.
-			keep[name] = false
-			rest := width - total() - 2
-			if rest >= 8 {
-				keep[name] = true
-				widths[name] = rest
-				return keep
-			}
-			continue
-		}
-		keep[best] = false
-	}
-	return keep
-}
-
-func writeRow(b *bufio.Writer, cols []column, keep []bool, widths []int, cells []string, color bool, colour string) {
+func writeRow(b *bufio.Writer, cols []column, widths []int, cells []string, color bool, colour string) {
 	var line strings.Builder
 	first := true
 	for i, c := range cols {
-		if !keep[i] {
+		if widths[i] == 0 {
 			continue
 		}
 		if !first {
 			line.WriteString("  ")
 		}
 		first = false
-		cell := clip(cells[i], widths[i])
-		pad := strings.Repeat(" ", widths[i]-runeLen(cell))
+		cell := present.Clip(cells[i], widths[i])
+		pad := strings.Repeat(" ", widths[i]-present.Width(cell))
 		if c.right {
 			line.WriteString(pad + cell)
 		} else {
@@ -285,64 +279,9 @@ func writeRow(b *bufio.Writer, cols []column, keep []bool, widths []int, cells [
 	b.WriteByte('\n')
 }
 
-func runeLen(s string) int { return utf8.RuneCountInString(s) }
-
-// clip shortens s to n runes, ending in "…" when cut.
-func clip(s string, n int) string {
-	if runeLen(s) <= n {
-		return s
-	}
-	if n <= 1 {
-		return string([]rune(s)[:max(n, 0)])
-	}
-	return string([]rune(s)[:n-1]) + "…"
-}
-
-// wrap writes text in lines of at most width runes, breaking at spaces.
+// wrap writes text in lines of at most width cells, breaking at spaces.
 func wrap(b *bufio.Writer, text string, width int) {
-	for _, l := range wrapLines(text, width, "") {
+	for _, l := range present.Wrap(text, width, "") {
 		fmt.Fprintln(b, l)
 	}
-}
-
-// wrapLines breaks text at spaces (never between a number and its unit)
-// into lines of at most width runes, continuation lines starting with
-// indent; a word longer than a line is clipped.
-func wrapLines(text string, width int, indent string) []string {
-	width = max(width, 10)
-	var out []string
-	line := ""
-	for _, word := range glueUnits(strings.Fields(text)) {
-		switch {
-		case line == "":
-			line = word
-		case runeLen(line)+1+runeLen(word) > width:
-			out = append(out, clip(line, width))
-			line = indent + word
-		default:
-			line += " " + word
-		}
-	}
-	if line != "" {
-		out = append(out, clip(line, width))
-	}
-	return out
-}
-
-// glueUnits joins a number and the unit after it ("0.628" "V/µs,") into
-// one word so a line never breaks between them.
-func glueUnits(words []string) []string {
-	out := words[:0:0]
-	for _, w := range words {
-		if n := len(out); n > 0 {
-			prev, _ := utf8.DecodeLastRuneInString(out[n-1])
-			first, _ := utf8.DecodeRuneInString(w)
-			if unicode.IsDigit(prev) && (unicode.IsLetter(first) || strings.ContainsRune("%°Ωµ", first)) {
-				out[n-1] += " " + w
-				continue
-			}
-		}
-		out = append(out, w)
-	}
-	return out
 }

@@ -37,6 +37,7 @@ func Design() map[string]any {
 		}
 		tables[table][key] = param(p)
 	}
+	tables["choose"]["limit"] = limits()
 	for name, props := range tables {
 		t := closed(props, tableDocs[name])
 		if name == "supply" {
@@ -57,6 +58,19 @@ func Design() map[string]any {
 		"additionalProperties": false,
 		"$defs":                obj{"stage": stage()},
 	}
+}
+
+// limits is the schema of [choose.limit]: for any catalog figure, a
+// { min, max } bound on its worst-case value.
+func limits() obj {
+	props := obj{}
+	for _, fk := range catalog.FigureKeys() {
+		props[fk.Key] = closed(obj{
+			"min": quantity(fk.Dim, "the worst-case figure must reach at least this"),
+			"max": quantity(fk.Dim, "the worst-case figure must stay at or under this"),
+		}, "bounds on "+fk.Key+" at worst case")
+	}
+	return closed(props, "bounds on any catalog figure, checked at worst case (requirement limit.<figure>)")
 }
 
 // stage is the schema of one [[stage]] table: name and kind, then the

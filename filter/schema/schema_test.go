@@ -264,6 +264,20 @@ func TestDesignKeysMatchDecoder(t *testing.T) {
 			want[table] = append(want[table], key)
 		}
 	}
+	// [choose.limit] is read by its own decoder (filter/limit.go): its
+	// keys are the catalog's figure keys, each with min and max.
+	want["choose"] = append(want["choose"], "limit")
+	var figs []string
+	for _, fk := range catalog.FigureKeys() {
+		figs = append(figs, fk.Key)
+		if got := Properties(Design(), "choose.limit."+fk.Key); !slices.Equal(got, []string{"max", "min"}) {
+			t.Errorf("choose.limit.%s: schema keys %v, want [max min]", fk.Key, got)
+		}
+	}
+	slices.Sort(figs)
+	if got := Properties(Design(), "choose.limit"); !slices.Equal(got, figs) {
+		t.Errorf("choose.limit: schema keys %v, figures %v", got, figs)
+	}
 	for table, keys := range want {
 		slices.Sort(keys)
 		if got := Properties(Design(), table); !slices.Equal(got, keys) {
