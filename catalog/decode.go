@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -33,8 +34,8 @@ func (e *SyntaxError) Unwrap() error { return e.Err }
 // found as a Problems error. Parts with a problem are left out. A part
 // that gives no lifecycle is active.
 func Decode(file string, data []byte) ([]*Part, error) {
-	parts, probs, _ := decodeFile(file, data)
-	parts, dups := dropDuplicates(parts, map[string]*Part{})
+	parts, probs, _ := decodeFile(file, data, runtime.GOMAXPROCS(0))
+	parts, dups := dropDuplicates(parts, map[string]*Part{}, data)
 	probs = append(probs, dups...)
 	sortProblems(probs)
 	return parts, probs.AsError()
@@ -71,16 +72,32 @@ func (ps Problems) Count() int {
 // decodeFile decodes and validates one file, returning its valid parts,
 // its problems (at most MaxProblems and a count of the rest) and the
 // number of parts left out; duplicate ids are left to the caller, which
-// knows the extent of the source.
-func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
+// knows the extent of the source. A large file is decoded in up to pieces
+// parts on as many cores. The parts kept hold no line map and no text of
+// the file (their strings are copies), so the file is garbage once read.
+func decodeFile(file string, data []byte, pieces int) ([]*Part, Problems, int) {
 	text := string(data)
 	if err := Prescan(text); err != nil {
 		var le *LimitError
 		errors.As(err, &le)
 		return nil, Problems{{Pos: Pos{file, le.Line}, Err: err}}, 0
 	}
-	lines := scanLines(text)
-	doc, err := decodeTOML(text, lines)
+	// A clean file needs only the lines of its [[part]] headers; the full
+	// position index is built when there is a problem to place.
+	if lines, ok := scanHeaders(text); ok {
+		parts, probs, invalid, exact := decodeText(file, text, lines, pieces)
+		if exact && len(probs) == 0 {
+			return parts, probs, invalid
+		}
+	}
+	parts, probs, invalid, _ := decodeText(file, text, scanLines(text), pieces)
+	return parts, probs, invalid
+}
+
+// decodeText is decodeFile after the pre-scan, with the positions lines.
+// exact reports whether lines held one entry for each part table.
+func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Problems, invalid int, exact bool) {
+	doc, err := decodePieces(text, lines, pieces)
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
@@ -90,9 +107,9 @@ func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 				// newline as the next one; the byte offset is exact.
 				line = 1 + strings.Count(text[:st], "\n")
 			}
-			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0
+			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0, true
 		}
-		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0
+		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0, true
 	}
 	var probs Problems
 	for _, k := range sortedKeys(doc) {
@@ -107,6 +124,7 @@ func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 	}
 	parts := make([]*Part, 0, len(tables))
 	more := 0
+	intern := map[string]string{}
 	keep := func(ps Problems) {
 		n := min(len(ps), max(MaxProblems-len(probs), 0))
 		probs = append(probs, ps[:n]...)
@@ -117,12 +135,13 @@ func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 		if len(lines.parts) == len(tables) {
 			pl = lines.parts[i]
 		}
-		d := partDecoder{file: file, index: i + 1, bad: map[string]bool{}}
+		d := partDecoder{file: file, index: i + 1, bad: map[string]bool{}, intern: intern}
 		p := d.decode(t, pl)
 		keep(d.probs)
 		vp := validate(p, i+1, d.bad)
 		keep(vp)
 		if len(d.probs) == 0 && len(vp) == 0 {
+			p.Lines = nil // positions past the header are re-derived when needed
 			parts = append(parts, p)
 		}
 	}
@@ -130,7 +149,7 @@ func decodeFile(file string, data []byte) ([]*Part, Problems, int) {
 	if more > 0 {
 		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex, Err: &UnlistedError{N: more}})
 	}
-	return parts, probs, len(tables) - len(parts)
+	return parts, probs, len(tables) - len(parts), len(lines.parts) == len(tables)
 }
 
 // partTables returns the tables of the "part" array.
@@ -158,13 +177,20 @@ func partTables(v any) ([]map[string]any, error) {
 }
 
 // dropDuplicates removes parts whose id is already in seen (and adds the
-// rest to seen), returning a problem for each one removed.
-func dropDuplicates(parts []*Part, seen map[string]*Part) ([]*Part, Problems) {
+// rest to seen), returning a problem for each one removed. data is the
+// file the parts were read from: the line of a duplicate id is found in it
+// again, as decoded parts keep only their header's line.
+func dropDuplicates(parts []*Part, seen map[string]*Part, data []byte) ([]*Part, Problems) {
 	var probs Problems
 	kept := parts[:0]
+	var lines *fileLines
 	for _, p := range parts {
 		if first, ok := seen[p.ID]; ok {
-			probs = append(probs, Problem{Pos: Pos{p.Pos.File, p.Line("id")}, Part: p.ID, Field: "id",
+			if lines == nil {
+				fl := scanLines(string(data))
+				lines = &fl
+			}
+			probs = append(probs, Problem{Pos: Pos{p.Pos.File, lines.keyLine(p.Pos.Line, "id")}, Part: p.ID, Field: "id",
 				Err: fmt.Errorf("duplicate id %q, first given at %s:%d", p.ID, safe.Text(first.Pos.File), first.Pos.Line)})
 			continue
 		}
@@ -182,6 +208,9 @@ type partDecoder struct {
 	p     *Part
 	probs Problems
 	bad   map[string]bool // keys with a decode problem; validation skips them
+	// intern holds one copy of the strings many parts of a file repeat
+	// (technology, lifecycle, pinout, packages).
+	intern map[string]string
 }
 
 // fail records a problem with key.
@@ -197,7 +226,7 @@ func (d *partDecoder) decode(t map[string]any, pl partLines) *Part {
 	if v, ok := t["id"]; ok {
 		p.ID, _ = d.str("id", v, `"xq4-bip"`)
 	}
-	for _, k := range sortedKeys(t) {
+	for _, k := range tableKeys(t) {
 		v := t[k]
 		switch k {
 		case "id":
@@ -205,12 +234,13 @@ func (d *partDecoder) decode(t map[string]any, pl partLines) *Part {
 			p.Name, _ = d.str(k, v, `"Bipolar quad, single-supply"`)
 		case "tech":
 			s, _ := d.str(k, v, `"cmos"`)
-			p.Tech = Tech(s)
+			p.Tech = Tech(d.shared(s))
 		case "lifecycle":
 			s, _ := d.str(k, v, `"active"`)
-			p.Lifecycle = Lifecycle(s)
+			p.Lifecycle = Lifecycle(d.shared(s))
 		case "pinout":
-			p.Pinout, _ = d.str(k, v, `"dual-a"`)
+			s, _ := d.str(k, v, `"dual-a"`)
+			p.Pinout = d.shared(s)
 		case "datasheet":
 			p.Datasheet, _ = d.str(k, v, `"https://example.invalid/part.pdf"`)
 		case "notes":
@@ -271,10 +301,8 @@ func (d *partDecoder) table(key string, v any, known []string, example string) m
 		d.fail(key, fmt.Errorf("%s, want a table such as %s", got(v), example))
 		return nil
 	}
-	for _, k := range sortedKeys(t) {
-		if !slices.Contains(known, k) {
-			d.fail(key, fmt.Errorf("unknown key %q%s", k, didYouMean(k, known)))
-		}
+	for _, k := range unknownKeys(t, known) {
+		d.fail(key, fmt.Errorf("unknown key %q%s", k, didYouMean(k, known)))
 	}
 	return t
 }
@@ -317,16 +345,29 @@ func (d *partDecoder) source(key string, t map[string]any) Source {
 		d.fail(key, fmt.Errorf("source = %s, want one of %s", got(v), enumList(sources)))
 		return ""
 	}
-	return Source(s)
+	return Source(d.shared(s))
 }
 
-// str reads a string field.
+// str reads a string field. The string is a copy: the decoder's may
+// share memory with the whole file's text.
 func (d *partDecoder) str(key string, v any, example string) (string, bool) {
 	s, ok := v.(string)
 	if !ok {
 		d.fail(key, fmt.Errorf("%s, want a string such as %s", got(v), example))
 	}
-	return s, ok
+	return strings.Clone(s), ok
+}
+
+// shared returns the file's one copy of s, a string many parts repeat.
+func (d *partDecoder) shared(s string) string {
+	if c, ok := d.intern[s]; ok {
+		return c
+	}
+	s = strings.Clone(s)
+	if d.intern != nil {
+		d.intern[s] = s
+	}
+	return s
 }
 
 // integer reads a whole number field.
@@ -370,7 +411,7 @@ func (d *partDecoder) strList(key string, v any) []string {
 			d.fail(key, fmt.Errorf("entry %s, want a list of strings such as %s", got(e), example))
 			return nil
 		}
-		out = append(out, s)
+		out = append(out, d.shared(s))
 	}
 	return out
 }
@@ -415,6 +456,51 @@ func scalarByKey(k string) (scalar, bool) {
 		}
 	}
 	return scalar{}, false
+}
+
+// sortedPartKeys is partKeys in sorted order.
+var sortedPartKeys = func() []string {
+	ks := slices.Clone(partKeys)
+	slices.Sort(ks)
+	return ks
+}()
+
+// tableKeys returns the keys of a part table in sorted order, as
+// sortedKeys does, but without sorting when every key is a known one
+// (the usual case): the known keys are then walked in their sorted order.
+func tableKeys(t map[string]any) []string {
+	ks := make([]string, 0, len(t))
+	for _, k := range sortedPartKeys {
+		if _, ok := t[k]; ok {
+			ks = append(ks, k)
+		}
+	}
+	if len(ks) == len(t) {
+		return ks
+	}
+	return sortedKeys(t)
+}
+
+// unknownKeys returns the keys of t outside known, sorted; nil (without
+// allocating) when there are none.
+func unknownKeys(t map[string]any, known []string) []string {
+	n := 0
+	for _, k := range known {
+		if _, ok := t[k]; ok {
+			n++
+		}
+	}
+	if n == len(t) {
+		return nil
+	}
+	var ks []string
+	for k := range t {
+		if !slices.Contains(known, k) {
+			ks = append(ks, k)
+		}
+	}
+	slices.Sort(ks)
+	return ks
 }
 
 // sortedKeys returns the keys of m in order, so problems come out the same

@@ -146,7 +146,7 @@ func TestDecodeContract(t *testing.T) {
 	for _, l := range lines {
 		got := parts[l.part].Pos.Line
 		if l.key != "" {
-			got = parts[l.part].Lines[l.key]
+			got = KeyLine(data, got, l.key)
 		}
 		if got != l.want {
 			t.Errorf("part %d key %q at line %d, want %d", l.part, l.key, got, l.want)

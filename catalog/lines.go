@@ -1,6 +1,12 @@
 package catalog
 
-import "github.com/opsift/opsift/catalog/tomlpos"
+import (
+	"cmp"
+	"slices"
+	"strings"
+
+	"github.com/opsift/opsift/catalog/tomlpos"
+)
 
 // fileLines is where things are in one catalog file, read from the one
 // TOML position index (catalog/tomlpos). It only ever feeds error messages
@@ -34,4 +40,70 @@ func scanLines(text string) fileLines {
 		fl.parts = append(fl.parts, pl)
 	})
 	return fl
+}
+
+// scanHeaders finds the [[part]] headers of a plain catalog file with a
+// quick line scan, without the lines of the keys. ok is false, and the
+// caller scans with scanLines, when the file has anything the quick scan
+// could misread: a multi-line string, or a line starting with "[" that is
+// not a [[part]] header (another table, an array continued on a new line).
+func scanHeaders(text string) (fl fileLines, ok bool) {
+	if strings.Contains(text, `"""`) || strings.Contains(text, "'''") {
+		return fileLines{}, false
+	}
+	for off, line := 0, 1; off < len(text); line++ {
+		end := strings.IndexByte(text[off:], '\n')
+		if end < 0 {
+			end = len(text) - off
+		}
+		l := strings.TrimLeft(text[off:off+end], " \t")
+		if strings.HasPrefix(l, "[") {
+			if !isPartHeader(l) {
+				return fileLines{}, false
+			}
+			fl.parts = append(fl.parts, partLines{line: line, off: off})
+		}
+		off += end + 1
+	}
+	return fl, true
+}
+
+// isPartHeader reports whether a line (leading blanks removed) is exactly
+// a [[part]] header, with optional blanks and a comment.
+func isPartHeader(l string) bool {
+	l, ok := strings.CutPrefix(l, "[[")
+	if !ok {
+		return false
+	}
+	l, ok = strings.CutPrefix(strings.TrimLeft(l, " \t"), "part")
+	if !ok {
+		return false
+	}
+	l, ok = strings.CutPrefix(strings.TrimLeft(l, " \t"), "]]")
+	if !ok {
+		return false
+	}
+	l = strings.TrimRight(strings.TrimLeft(l, " \t"), "\r")
+	return l == "" || l[0] == '#'
+}
+
+// keyLine returns the line of key in the part whose header is on line
+// header, or header when the key is not found.
+func (fl fileLines) keyLine(header int, key string) int {
+	i, ok := slices.BinarySearchFunc(fl.parts, header, func(pl partLines, l int) int { return cmp.Compare(pl.line, l) })
+	if ok {
+		if l, ok := fl.parts[i].keys[key]; ok && l > 0 {
+			return l
+		}
+	}
+	return header
+}
+
+// KeyLine returns the line key is written on in the part whose [[part]]
+// header is on line header of the catalog file data ("slew" for slew.typ
+// too), or header when the part does not write the key. Decoded parts keep
+// only their header's line (Part.Pos); this re-derives the rest when a
+// message or an editor needs it.
+func KeyLine(data []byte, header int, key string) int {
+	return scanLines(string(data)).keyLine(header, key)
 }

@@ -9,6 +9,7 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"runtime"
 	"strings"
 
 	"github.com/opsift/opsift/catalog/safe"
@@ -87,55 +88,180 @@ func (c *Catalog) ByID(id string) *Part {
 // has a problem, the error is a Problems holding all of them. Refusing
 // the catalog on any problem is the strict reading (check,
 // --strict-catalog); Partial says whether the valid parts may be used.
-func Load(srcs ...Layer) (*Catalog, error) {
+// Files are decoded on several cores at once; the result is the same as
+// reading them one by one. Load uses no cache; see Loader.
+func Load(srcs ...Layer) (*Catalog, error) { return Loader{}.Load(srcs...) }
+
+// Loader loads layered catalogs with the optional parsed-catalog cache and
+// progress reports. The zero Loader is Load.
+type Loader struct {
+	// Cache, when non-nil, keeps each clean catalog file on disk parsed
+	// (see Cache); a file with problems is always decoded afresh.
+	Cache *Cache
+	// Progress, when non-nil, is called once before the first file and
+	// after each file with the counts so far, from the goroutine that
+	// called Load; the last call has Files == TotalFiles.
+	Progress func(Progress)
+}
+
+// Progress is how far a Load has got.
+type Progress struct {
+	Files, TotalFiles int // files read so far, and in all
+	Parts             int // parts read so far
+}
+
+// Load is the package-level Load with the loader's cache and progress.
+func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 	c := &Catalog{byID: map[string]*Part{}}
 	var probs Problems
 	where := map[string]string{} // id → "file:line" of the part in use
-	for _, src := range srcs {
+	var jobs []fileJob
+	first := make([]int, len(srcs)+1) // jobs of source i: first[i] … first[i+1]
+	for i, src := range srcs {
+		first[i] = len(jobs)
 		c.Sources = append(c.Sources, safe.Text(src.Name))
 		files, err := src.files()
 		if err != nil {
-			probs = append(probs, Problem{Pos: Pos{File: src.display("")}, Err: err})
+			jobs = append(jobs, fileJob{src: i, err: Problem{Pos: Pos{File: src.display("")}, Err: err}})
 			continue
 		}
 		if len(files) == 0 {
 			c.Notes = append(c.Notes, fmt.Sprintf("%s holds no *.toml files", safe.Text(src.Name)))
 		}
-		seen := map[string]*Part{}
 		for _, f := range files {
-			data, err := src.read(f)
-			if err != nil {
-				probs = append(probs, Problem{Pos: Pos{File: src.display(f)}, Err: err})
-				continue
-			}
-			c.Files++
-			parts, fp, invalid := decodeFile(src.display(f), data)
-			c.Invalid += invalid
-			parts, dups := dropDuplicates(parts, seen)
-			c.Invalid += len(dups)
-			sum := sha256.Sum256(data)
-			c.FileSums = append(c.FileSums, FileSum{Path: src.display(f), SHA256: hex.EncodeToString(sum[:]), Parts: len(parts)})
-			fp = append(fp, dups...)
-			sortProblems(fp)
-			probs = append(probs, fp...)
-			for _, p := range parts {
-				at := fmt.Sprintf("%s:%d", p.Pos.File, p.Pos.Line)
-				if old, ok := c.byID[p.ID]; ok {
-					c.Overrides++
-					c.Notes = append(c.Notes, fmt.Sprintf("part %q from %s overrides %s", p.ID, safe.Text(at), safe.Text(where[p.ID])))
-					*old = *p // keep the part's place in Parts
-					where[p.ID] = at
-					continue
-				}
-				c.byID[p.ID] = p
-				where[p.ID] = at
-				c.Parts = append(c.Parts, p)
-			}
+			jobs = append(jobs, fileJob{src: i, name: f})
 		}
 	}
+	first[len(srcs)] = len(jobs)
+	total := 0
+	for _, j := range jobs {
+		if j.err.Err == nil {
+			total++
+		}
+	}
+	progress := Progress{TotalFiles: total}
+	if ld.Progress != nil {
+		ld.Progress(progress)
+	}
+	seen := map[string]*Part{}
+	ld.decodeAll(srcs, jobs, func(k int, r fileResult) {
+		j := jobs[k]
+		if k == first[j.src] {
+			seen = map[string]*Part{} // duplicate ids are per source
+		}
+		if j.err.Err != nil {
+			probs = append(probs, j.err)
+			return
+		}
+		progress.Files++
+		progress.Parts += len(r.parts)
+		if ld.Progress != nil {
+			ld.Progress(progress)
+		}
+		if r.readErr != nil {
+			probs = append(probs, Problem{Pos: Pos{File: srcs[j.src].display(j.name)}, Err: r.readErr})
+			return
+		}
+		c.Files++
+		c.Invalid += r.invalid
+		parts, dups := dropDuplicates(r.parts, seen, r.data)
+		c.Invalid += len(dups)
+		sum := sha256.Sum256(r.data)
+		c.FileSums = append(c.FileSums, FileSum{Path: srcs[j.src].display(j.name), SHA256: hex.EncodeToString(sum[:]), Parts: len(parts)})
+		fp := append(r.probs, dups...)
+		sortProblems(fp)
+		probs = append(probs, fp...)
+		for _, p := range parts {
+			at := fmt.Sprintf("%s:%d", p.Pos.File, p.Pos.Line)
+			if old, ok := c.byID[p.ID]; ok {
+				c.Overrides++
+				c.Notes = append(c.Notes, fmt.Sprintf("part %q from %s overrides %s", p.ID, safe.Text(at), safe.Text(where[p.ID])))
+				*old = *p // keep the part's place in Parts
+				where[p.ID] = at
+				continue
+			}
+			c.byID[p.ID] = p
+			where[p.ID] = at
+			c.Parts = append(c.Parts, p)
+		}
+	})
 	c.count()
 	c.SetAside = c.setAside(probs)
 	return c, probs.AsError()
+}
+
+// fileJob is one catalog file to read, or a source that could not be listed.
+type fileJob struct {
+	src  int     // index of the source
+	name string  // the file within the source ("" for the source's own path)
+	err  Problem // set when the source itself could not be read
+}
+
+// fileResult is one file read and decoded.
+type fileResult struct {
+	parts   []*Part
+	probs   Problems
+	invalid int
+	data    []byte // the file, for the positions of duplicate ids
+	readErr error
+}
+
+// decodeAll reads and decodes the jobs' files on up to GOMAXPROCS cores,
+// a few files ahead of the consumer, and hands each result to use in job
+// order, on the calling goroutine. At most window results wait at once, so
+// memory stays bounded however many files there are.
+func (ld Loader) decodeAll(srcs []Layer, jobs []fileJob, use func(int, fileResult)) {
+	procs := runtime.GOMAXPROCS(0)
+	pieces := procs // a lone big file is split over the cores instead
+	if len(jobs) > 1 {
+		pieces = 1
+	}
+	window := procs + 1
+	results := make([]chan fileResult, len(jobs))
+	start := func(k int) {
+		results[k] = make(chan fileResult, 1)
+		go func() { results[k] <- ld.decodeJob(srcs, jobs[k], pieces) }()
+	}
+	for k := 0; k < min(window, len(jobs)); k++ {
+		start(k)
+	}
+	for k := range jobs {
+		r := <-results[k]
+		results[k] = nil
+		if next := k + window; next < len(jobs) {
+			start(next)
+		}
+		use(k, r)
+	}
+}
+
+// decodeJob reads and decodes one file, through the cache when there is one.
+func (ld Loader) decodeJob(srcs []Layer, j fileJob, pieces int) fileResult {
+	if j.err.Err != nil {
+		return fileResult{}
+	}
+	src := srcs[j.src]
+	data, err := src.read(j.name)
+	if err != nil {
+		return fileResult{readErr: err}
+	}
+	file := src.display(j.name)
+	if ld.Cache != nil && src.FS == nil {
+		path := src.Path
+		if j.name != "" {
+			path = filepath.Join(src.Path, j.name)
+		}
+		if parts, ok := ld.Cache.get(path, file, data); ok {
+			return fileResult{parts: parts, data: data}
+		}
+		parts, probs, invalid := decodeFile(file, data, pieces)
+		if len(probs) == 0 {
+			ld.Cache.put(path, data, parts)
+		}
+		return fileResult{parts: parts, probs: probs, invalid: invalid, data: data}
+	}
+	parts, probs, invalid := decodeFile(file, data, pieces)
+	return fileResult{parts: parts, probs: probs, invalid: invalid, data: data}
 }
 
 // count fills the figure counts from the final parts.

@@ -1,7 +1,6 @@
 package catalog
 
 import (
-	"runtime"
 	"sync"
 
 	"github.com/BurntSushi/toml"
@@ -12,18 +11,15 @@ import (
 // (a 1000-part file takes about 0.1 s) and the split is not worth its cost.
 const parallelMinParts = 512
 
-// decodeTOML decodes a catalog file into a map. Large files are cut at
+// decodePieces decodes a catalog file into a map. Large files are cut at
 // [[part]] headers into one piece per core and the pieces decoded at once:
 // TOML parsing is most of Load's time. A piece from one [[part]] header to
 // the next is a TOML document of its own holding just that part's keys and
 // sub-tables, so the pieces decode to the same tables as the whole. When a
 // piece fails or holds anything but whole parts, the file is decoded in one
 // go instead, so errors and odd files behave exactly as without the split.
-func decodeTOML(text string, lines fileLines) (map[string]any, error) {
-	return decodePieces(text, lines, runtime.GOMAXPROCS(0))
-}
-
-// decodePieces is decodeTOML with at most procs pieces.
+//
+// decodePieces decodes with at most procs pieces.
 func decodePieces(text string, lines fileLines, procs int) (map[string]any, error) {
 	n := min(procs, len(lines.parts)/(parallelMinParts/4))
 	if len(lines.parts) < parallelMinParts || n < 2 {

@@ -81,3 +81,38 @@ func BenchmarkDecodeTOML10k(b *testing.B) {
 		}
 	})
 }
+
+// TestScanHeaders checks the quick header scan against the full position
+// index on the files the index is tested with, and that it gives up on
+// what it could misread.
+func TestScanHeaders(t *testing.T) {
+	var buf bytes.Buffer
+	if err := Encode(&buf, synthParts(40, 5)); err != nil {
+		t.Fatal(err)
+	}
+	plain := "# comment\n" + strings.Replace(buf.String(), "[[part]]\n", "  [[ part ]]  # indented\n", 3)
+	fast, ok := scanHeaders(plain)
+	if !ok {
+		t.Fatal("a plain file was not scanned")
+	}
+	full := scanLines(plain)
+	if len(fast.parts) != len(full.parts) {
+		t.Fatalf("%d headers, want %d", len(fast.parts), len(full.parts))
+	}
+	for i := range fast.parts {
+		if fast.parts[i].line != full.parts[i].line {
+			t.Fatalf("header %d at line %d, want %d", i, fast.parts[i].line, full.parts[i].line)
+		}
+	}
+	for _, text := range []string{
+		plain + "[[part]]\nnotes = \"\"\"\n[[part]]\n\"\"\"\n",
+		plain + "[[part]]\nnotes = '''\nx'''\n",
+		plain + "[part.cin]\nx = 1\n",
+		plain + "[[part]]\ntemp = [\n[\"a\"]]\n",
+		"[[parts]]\nid = \"a\"\n",
+	} {
+		if _, ok := scanHeaders(text); ok {
+			t.Errorf("quick scan accepted %q…", text[len(text)-20:])
+		}
+	}
+}

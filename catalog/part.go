@@ -137,9 +137,11 @@ type Part struct {
 	Datasheet string
 	Notes     string
 
-	// Pos is where the part's [[part]] table starts; Lines maps each key
-	// the part gives ("slew", "gbw", …) to its line, for error messages and
-	// for opening the part in an editor.
+	// Pos is where the part's [[part]] table starts. Lines maps each key
+	// the part gives ("slew", "gbw", …) to its line while the part is
+	// decoded and validated, for error messages; the parts Decode and Load
+	// return no longer hold it (KeyLine finds a key's line again), so a
+	// large catalog does not keep a map per part.
 	Pos   Pos
 	Lines map[string]int
 }

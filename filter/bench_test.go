@@ -1,6 +1,7 @@
 package filter_test
 
 import (
+	"context"
 	"fmt"
 	"io/fs"
 	"math"
@@ -10,6 +11,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/gencat"
 )
 
 // synthetic returns n parts with figures spread over the usual ranges,
@@ -78,6 +80,16 @@ func benchDesign(b *testing.B) *filter.Design {
 
 // benchEdit runs edit → re-derive → evaluate → rank, the work of one keystroke.
 func benchEdit(b *testing.B, parts []*catalog.Part, o filter.Options) {
+	benchKeys(b, o, func(p *filter.Plan) ([]filter.Result, error) {
+		rs := filter.Evaluate(p, parts, o)
+		filter.Rank(rs, filter.SortMargin)
+		return rs, nil
+	})
+}
+
+// benchKeys runs edit → re-derive → rank (by the given function) and, in
+// summary mode, explains the rows a screen shows.
+func benchKeys(b *testing.B, o filter.Options, rank func(*filter.Plan) ([]filter.Result, error)) {
 	d := benchDesign(b)
 	freqs := []string{"20 kHz", "21 kHz"}
 	b.ReportAllocs()
@@ -90,8 +102,10 @@ func benchEdit(b *testing.B, parts []*catalog.Part, o filter.Options) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		rs := filter.Evaluate(p, parts, o)
-		filter.Rank(rs, filter.SortMargin)
+		rs, err := rank(p)
+		if err != nil {
+			b.Fatal(err)
+		}
 		if o.Summary {
 			// The rows a screen shows get their checks.
 			for i := 0; i < min(len(rs), 30); i++ {
@@ -114,6 +128,27 @@ func BenchmarkEvaluate(b *testing.B) {
 		b.Run(fmt.Sprintf("synthetic-%d", n), func(b *testing.B) { benchEdit(b, parts, filter.Options{}) })
 		b.Run(fmt.Sprintf("synthetic-%d-summary", n), func(b *testing.B) {
 			benchEdit(b, parts, filter.Options{Summary: true})
+		})
+	}
+}
+
+// BenchmarkIncremental measures one stage edit on the incremental path
+// (derive, Incremental.Ranked, explain the rows a screen shows) on
+// generated catalogs; compare with BenchmarkEvaluate.
+func BenchmarkIncremental(b *testing.B) {
+	for _, n := range []int{10_000, 100_000} {
+		parts := gencat.Parts(n, 1)
+		b.Run(fmt.Sprintf("parts=%d", n), func(b *testing.B) {
+			o := filter.Options{Summary: true}
+			in := filter.NewIncremental(parts, o)
+			if p, err := filter.Derive(benchDesign(b)); err != nil {
+				b.Fatal(err)
+			} else if _, err := in.Ranked(context.Background(), p, filter.SortMargin); err != nil {
+				b.Fatal(err) // the first evaluation computes every group
+			}
+			benchKeys(b, o, func(p *filter.Plan) ([]filter.Result, error) {
+				return in.Ranked(context.Background(), p, filter.SortMargin)
+			})
 		})
 	}
 }

@@ -28,23 +28,15 @@ const (
 // Options.Summary they are not kept (Result.Checks is nil) and Explain
 // fills them in for the results a front end shows.
 func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
-	reqs := make([]*Requirement, 0, len(plan.Global)+8*len(plan.Stages))
-	owner := make([]int, 0, cap(reqs)) // stage index of each requirement, -1 global
-	for i := range plan.Global {
-		reqs = append(reqs, &plan.Global[i])
-		owner = append(owner, -1)
-	}
+	nreq := len(plan.Global)
 	for si := range plan.Stages {
-		for i := range plan.Stages[si].Requirements {
-			reqs = append(reqs, &plan.Stages[si].Requirements[i])
-			owner = append(owner, si)
-		}
+		nreq += len(plan.Stages[si].Requirements)
 	}
 	n := len(plan.Stages)
 	results := make([]Result, len(parts))
 	var checks []Check
 	if !o.Summary {
-		checks = make([]Check, len(parts)*len(reqs))
+		checks = make([]Check, len(parts)*nreq)
 	}
 	fmax := make([]float64, len(parts)*n)
 	ev := evaluator{plan: plan, strict: o.Strict, summary: o.Summary}
@@ -55,7 +47,7 @@ func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
 		f := new(PartFigures)
 		var scratch []Check
 		if o.Summary {
-			scratch = make([]Check, len(reqs))
+			scratch = make([]Check, nreq)
 		}
 		for i := lo; i < hi; i++ {
 			r := &results[i]
@@ -63,10 +55,10 @@ func Evaluate(plan *Plan, parts []*catalog.Part, o Options) []Result {
 			if o.Summary {
 				r.Checks = scratch
 			} else {
-				r.Checks = checks[i*len(reqs) : (i+1)*len(reqs) : (i+1)*len(reqs)]
+				r.Checks = checks[i*nreq : (i+1)*nreq : (i+1)*nreq]
 			}
 			r.FMax = fmax[i*n : (i+1)*n : (i+1)*n]
-			ev.part(r, f, reqs, owner)
+			ev.part(r, f)
 			if o.Summary {
 				r.Checks = nil
 			}
@@ -96,9 +88,27 @@ type evaluator struct {
 	summary bool // checks are not kept: skip Requirement.Aside
 }
 
-func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner []int) {
+func (ev *evaluator) part(r *Result, f *PartFigures) {
+	*f = Figures(r.Part, ev.plan)
+	ev.totals(r, f)
+	r.WorstMargin = math.NaN()
+	r.Pass = true
+	var g groupSum
+	n := len(ev.plan.Global)
+	ev.group(&g, r.Checks[:n], ev.plan.Global, nil, r, f)
+	r.add(&g)
+	for si := range ev.plan.Stages {
+		sp := &ev.plan.Stages[si]
+		ev.group(&g, r.Checks[n:n+len(sp.Requirements)], sp.Requirements, sp, r, f)
+		n += len(sp.Requirements)
+		r.add(&g)
+		r.FMax[si] = g.fmax
+	}
+}
+
+// totals fills the part's package count, cost and supply current.
+func (ev *evaluator) totals(r *Result, f *PartFigures) {
 	p := r.Part
-	*f = Figures(p, ev.plan)
 	ch := p.Channels
 	if ch < 1 {
 		ch = 1
@@ -113,33 +123,58 @@ func (ev *evaluator) part(r *Result, f *PartFigures, reqs []*Requirement, owner 
 	if f.Iq.Known {
 		r.SupplyCurrent = float64(r.Packages*ch) * f.Iq.V
 	}
-	r.WorstMargin = math.NaN()
-	r.Pass = true
-	for i, q := range reqs {
-		c := &r.Checks[i]
-		var sp *StagePlan
-		if owner[i] >= 0 {
-			sp = &ev.plan.Stages[owner[i]]
-		}
-		ev.check(c, q, sp, p, f, r)
+}
+
+// groupSum is the outcome of one group of a part's checks: the design-level
+// requirements, or one stage's. A result is its groups added up in plan
+// order (Result.add), so a group whose inputs did not change can be kept.
+type groupSum struct {
+	failed, unknown int
+	fail            bool    // a check failed, or an unknown counts as failing (strict)
+	margin          float64 // smallest margin of the group, NaN when none has one
+	binding         Binding // the check with that margin, the first one on a tie
+	fmax            float64 // a stage group's stageFMax
+}
+
+// group evaluates the requirements reqs of one group (sp nil for the
+// design-level ones) into checks and g. r must have its totals.
+func (ev *evaluator) group(g *groupSum, checks []Check, reqs []Requirement, sp *StagePlan, r *Result, f *PartFigures) {
+	*g = groupSum{margin: math.NaN(), fmax: math.NaN()}
+	for i := range reqs {
+		q, c := &reqs[i], &checks[i]
+		ev.check(c, q, sp, r.Part, f, r)
 		switch c.Status {
 		case StatusFail:
-			r.Failed++
-			r.Pass = false
+			g.failed++
+			g.fail = true
 		case StatusUnknown:
-			r.Unknown++
+			g.unknown++
 			if ev.strict {
 				c.Note = noteStrict
-				r.Pass = false
+				g.fail = true
 			}
 		}
-		if c.HasMargin() && (math.IsNaN(r.WorstMargin) || c.Margin < r.WorstMargin) {
-			r.WorstMargin = c.Margin
-			r.Binding = Binding{Stage: q.Stage, Key: q.Key}
+		if c.HasMargin() && (math.IsNaN(g.margin) || c.Margin < g.margin) {
+			g.margin = c.Margin
+			g.binding = Binding{Stage: q.Stage, Key: q.Key}
 		}
 	}
-	for si := range ev.plan.Stages {
-		r.FMax[si] = stageFMax(&ev.plan.Stages[si], f)
+	if sp != nil {
+		g.fmax = stageFMax(sp, f)
+	}
+}
+
+// add counts a group into the result: the worst margin stays the first
+// smallest in plan order, as over a single list of every check.
+func (r *Result) add(g *groupSum) {
+	r.Failed += g.failed
+	r.Unknown += g.unknown
+	if g.fail {
+		r.Pass = false
+	}
+	if !math.IsNaN(g.margin) && (math.IsNaN(r.WorstMargin) || g.margin < r.WorstMargin) {
+		r.WorstMargin = g.margin
+		r.Binding = g.binding
 	}
 }
 

@@ -1,11 +1,11 @@
 package tui
 
 import (
+	"context"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
-	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
 )
 
@@ -13,11 +13,11 @@ import (
 // off the UI path in a tea.Cmd; gen is the model's generation when the job
 // was made, so a result overtaken by a newer edit is dropped on arrival.
 type rankJob struct {
-	gen   uint64
-	plan  *filter.Plan
-	parts []*catalog.Part
-	opts  filter.Options
-	sort  filter.SortKey
+	gen  uint64
+	ctx  context.Context // cancelled when a newer job starts
+	plan *filter.Plan
+	eval *filter.Incremental
+	sort filter.SortKey
 }
 
 // rankedMsg carries a finished rankJob back to Update.
@@ -43,11 +43,14 @@ func explain(plan *filter.Plan, r *filter.Result, strict bool) {
 
 // run evaluates and ranks. The plan and parts are never written after the
 // job is made (an edit derives a new plan from a clone of the design), so
-// the job shares them with the model safely.
+// the job shares them with the model safely. A job cancelled by a newer
+// one stops inside the evaluation and reports nothing.
 func (j rankJob) run() tea.Msg {
 	start := time.Now()
-	res := filter.Evaluate(j.plan, j.parts, j.opts)
-	filter.Rank(res, j.sort)
-	warns := append(append([]filter.Warning(nil), j.plan.Warnings...), filter.FilterWarnings(j.plan, j.parts)...)
+	res, err := j.eval.Ranked(j.ctx, j.plan, j.sort)
+	if err != nil {
+		return nil
+	}
+	warns := append(append([]filter.Warning(nil), j.plan.Warnings...), filter.FilterWarnings(j.plan, j.eval.Parts())...)
 	return rankedMsg{gen: j.gen, plan: j.plan, results: res, warnings: warns, took: time.Since(start)}
 }

@@ -153,6 +153,8 @@ func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focuse
 	widths := fitColumns(cols, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	switch {
+	case rs.loading != "":
+		out = append(out, st.Muted.Render(fit(rs.loading, w)))
 	case rs.plan == nil:
 		out = append(out, st.Error.Render(fit("no ranking: the design cannot be derived (see the design pane)", w)))
 	case len(l.view) == 0 && rs.running:

@@ -2,6 +2,7 @@ package tui
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -36,6 +37,13 @@ type Config struct {
 	// Load reads the same catalog sources again (the reload key, a catalog
 	// file changed on disk, after editing a part). Nil disables reloading.
 	Load func() (*catalog.Catalog, error)
+	// LoadFirst has Init read the catalog with Load while the first frame
+	// is already up (Catalog, when given, stands in until then: an empty
+	// one naming the sources), showing LoadProgress (when set) as it goes; the
+	// ranking fills in when it arrives. A read that fails ends the
+	// selector with the error in Fatal.
+	LoadFirst    bool
+	LoadProgress func() catalog.Progress
 	// OnDisk lists the catalog files and directories that are on disk:
 	// they are watched for changes, and only their parts can be opened in
 	// an editor (the embedded demo catalog is read-only).
@@ -100,6 +108,8 @@ type Model struct {
 	// whose result was taken, so a slow older read never replaces it.
 	loadGen, loadShown int
 	quitting           bool
+	// fatal is the error of a first catalog read that failed (see Fatal).
+	fatal error
 
 	// Keeping the user's work (keep.go).
 	saved         savedState // the design as on disk: base of saves and of edits
@@ -125,6 +135,12 @@ type ranking struct {
 	gen      uint64 // generation of the newest rankJob
 	running  bool   // a rankJob is running
 	strict   bool   // unknown checks fail
+	// cancel stops the newest rankJob; a new edit calls it before starting
+	// the next, so a typing burst does not queue evaluations.
+	cancel context.CancelFunc
+	// loading is the progress line of the first catalog read, shown in
+	// place of the candidates; "" once the catalog is in.
+	loading string
 }
 
 // explain fills in the checks of result i (see explain in engine.go).
@@ -138,6 +154,9 @@ type catalogState struct {
 	pkgs   []string // packages present, sorted
 	search map[*catalog.Part]string
 	idW    int // id column width
+	// eval evaluates the catalog's parts plan after plan, keeping what an
+	// edit leaves unchanged (filter.Incremental).
+	eval *filter.Incremental
 }
 
 // New builds the selector from cfg. It derives the design at once; the
@@ -182,6 +201,9 @@ func New(cfg Config) *Model {
 // Init starts the first ranking and, when watching, the file watcher.
 func (m *Model) Init() tea.Cmd {
 	cmds := []tea.Cmd{m.rerank()}
+	if m.cfg.LoadFirst && m.cfg.Load != nil {
+		cmds[0] = m.firstLoad()
+	}
 	if m.watcher != nil {
 		cmds = append(cmds, waitForChange(m.watcher))
 	}
@@ -193,6 +215,9 @@ func (m *Model) Init() tea.Cmd {
 
 // Close releases the file watchers. Call it after the program ends.
 func (m *Model) Close() error {
+	if m.rank.cancel != nil {
+		m.rank.cancel()
+	}
 	if m.designWatch != nil {
 		_ = m.designWatch.Close()
 	}
@@ -267,8 +292,12 @@ func (m *Model) rerank() tea.Cmd {
 		return nil
 	}
 	m.rank.running = true
-	j := rankJob{gen: m.rank.gen, plan: m.rank.plan, parts: m.cat.Parts,
-		opts: filter.Options{Strict: m.cfg.Strict, Summary: true}, sort: m.narrow.sortKey()}
+	if m.rank.cancel != nil {
+		m.rank.cancel() // the job it belongs to is stale now
+	}
+	var ctx context.Context
+	ctx, m.rank.cancel = context.WithCancel(context.Background())
+	j := rankJob{gen: m.rank.gen, ctx: ctx, plan: m.rank.plan, eval: m.cat.eval, sort: m.narrow.sortKey()}
 	return j.run
 }
 
@@ -297,7 +326,8 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	if c == nil {
 		c = &catalog.Catalog{}
 	}
-	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts))}
+	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts)),
+		eval: filter.NewIncremental(c.Parts, filter.Options{Strict: m.cfg.Strict})}
 	cs.techs, cs.pkgs = catalogValues(c.Parts)
 	for _, p := range c.Parts {
 		cs.search[p] = searchText(p)

@@ -152,6 +152,8 @@ func (m *Model) updateJobs(msg tea.Msg) tea.Cmd {
 		return m.reload("catalog changed on disk; reloaded")
 	case reloadedMsg:
 		return m.adoptCatalog(msg)
+	case firstLoadMsg, loadTickMsg:
+		return m.updateLoad(msg)
 	case editorDoneMsg:
 		if msg.err != nil {
 			m.setError(fmt.Errorf("editor: %w", msg.err))

@@ -115,7 +115,9 @@ func (m *Model) statusView(w int) string {
 	if m.marks.len() > 0 {
 		fmt.Fprintf(&b, " · %d marked", m.marks.len())
 	}
-	if m.rank.running {
+	if m.rank.loading != "" {
+		b.WriteString(" · reading the catalog…")
+	} else if m.rank.running {
 		b.WriteString(" · ranking…")
 	}
 	if n := len(m.rank.warnings); n > 0 {

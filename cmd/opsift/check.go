@@ -10,7 +10,7 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 )
 
-const checkUsage = `Usage: opsift check [--catalog PATH]...
+const checkUsage = `Usage: opsift check [--catalog PATH]... [--no-cache]
 
 Read every catalog source, check every part (units, keys, limits, ids,
 plausible ranges, text a terminal would act on) and print a summary and
@@ -19,7 +19,8 @@ what is wrong, at most 50 per file. Files other than regular files, over
 4 MiB, or nested or dotted too deeply are refused before decoding.
 Without --catalog it checks the catalog the other commands would use: the
 user's catalog directory, else the embedded demo. Exit status 1 when there
-is any problem, 0 when clean.
+is any problem, 0 when clean. Files without problems are kept parsed in
+$XDG_CACHE_HOME/opsift (else ~/.cache/opsift); --no-cache reads them afresh.
 
 Options:
 `
@@ -27,14 +28,14 @@ Options:
 func runCheck(e *env, args []string) error {
 	var catalogs pathList
 	fset := newFlagSet(e, "check", checkUsage)
-	fset.Var(&catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &catalogs)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
 	if fset.NArg() > 0 {
 		return usageError("check: unexpected argument %q; give catalogs with --catalog (see opsift check --help)", fset.Arg(0))
 	}
-	c, err := catalog.Load(catalogLayers(e, catalogs)...)
+	c, err := e.readCatalog(catalogLayers(e, catalogs))
 	var probs catalog.Problems
 	if err != nil && !errors.As(err, &probs) {
 		return inputError(err) // not a catalog problem: cannot happen with Load today

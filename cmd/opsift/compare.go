@@ -12,8 +12,7 @@ import (
 )
 
 const compareUsage = `Usage: opsift compare PART-ID PART-ID... [--design FILE] [--catalog PATH]...
-                     [--format table|md|json|csv] [--strict] [--strict-catalog] [--bom]
-                     [-o FILE [--force]]
+                     [--format table|md|json|csv] [--strict] [--bom] [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Lay 2 to 6 parts side by side for a design: one row per worst-case
 figure (the value the design's policy gives, with its basis: unmarked
@@ -45,7 +44,7 @@ type compareFlags struct {
 func runCompare(e *env, args []string) error {
 	var f compareFlags
 	fset := newFlagSet(e, "compare", compareUsage)
-	fset.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &f.catalogs)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.format, "format", "table", "output format: table, md, json or csv")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")

@@ -20,6 +20,11 @@ type env struct {
 	getenv func(string) string
 	// isTTY reports whether stdout is a terminal (colour, width).
 	isTTY bool
+	// errTTY reports whether stderr is a terminal (progress of slow reads).
+	errTTY bool
+	// noCache is the --no-cache flag of the command being run: catalogs
+	// are read without the parsed-catalog cache.
+	noCache bool
 	// now is the clock outputs are dated with; tests fix it.
 	now func() time.Time
 }
@@ -32,6 +37,7 @@ func newEnv() *env {
 		stderr: os.Stderr,
 		getenv: os.Getenv,
 		isTTY:  isTerminal(os.Stdout),
+		errTTY: isTerminal(os.Stderr),
 		now:    time.Now,
 	}
 }

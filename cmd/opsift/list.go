@@ -11,8 +11,8 @@ import (
 )
 
 const listUsage = `Usage: opsift list [--catalog PATH]... [--design FILE] [--columns KEY,KEY...]
-                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--strict-catalog] [--bom]
-                  [-o FILE [--force]]
+                  [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--bom]
+                  [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 List every part of the catalog with the figures you choose, side by side,
 sorted by any of them (-KEY sorts descending; parts lacking the figure come
@@ -55,7 +55,7 @@ func runList(e *env, args []string) error {
 		output        outputFlags
 	)
 	fset := newFlagSet(e, "list", fmt.Sprintf(listUsage, listColumnsHelp()))
-	fset.Var(&catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &catalogs)
 	fset.StringVar(&design, "design", "", "design TOML file: figures at its worst case, with verdicts (default: none, 25 °C)")
 	fset.StringVar(&columns, "columns", "", "comma-separated column keys (default: "+strings.Join(listing.DefaultColumns(), ",")+")")
 	fset.StringVar(&sortKey, "sort", "id", "column key, id or name to sort by; -KEY for descending")

@@ -19,7 +19,7 @@ import (
 
 const previewUsage = `Usage: opsift preview PART-ID [--design FILE] [--stage NAME] [--catalog PATH]...
                       [--typical] [--format text|json] [--width N] [--height N] [--points N]
-                      [--strict-catalog] [-o FILE [--force]]
+                      [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Simulate PART-ID in one stage of the design and show the settled waveform
 beside the ideal op-amp's: output and ideal peak-to-peak, peak error, THD,
@@ -62,7 +62,7 @@ const (
 func runPreview(e *env, args []string) error {
 	var f previewFlags
 	fset := newFlagSet(e, "preview", previewUsage)
-	fset.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &f.catalogs)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.stage, "stage", "", "stage to simulate (default: the first stage that has a waveform)")
 	fset.BoolVar(&f.typical, "typical", false, "use typical figures on the nominal rails instead of the worst case")

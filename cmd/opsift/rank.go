@@ -8,8 +8,8 @@ import (
 )
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
-                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--strict-catalog] [--bom]
-                  [-o FILE [--force]]
+                  [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--bom]
+                  [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
@@ -54,7 +54,7 @@ type rankFlags struct {
 func runRank(e *env, args []string) error {
 	var f rankFlags
 	fset := newFlagSet(e, "rank", rankUsage)
-	fset.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &f.catalogs)
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.format, "format", "table", "output format: table, csv, json, md or toml")
 	fset.BoolVar(&f.all, "all", false, "list failing parts too, after the passing ones")

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"github.com/opsift/opsift/catalog"
@@ -18,8 +19,8 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--obsolete] [--over-temp] [--strict] [--strict-catalog] [--bom]
-                      [-o FILE [--force]]
+                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--strict-catalog] [--bom]
+                      [--no-cache] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -28,8 +29,12 @@ original; "strict" means no figure the original gives is worse or missing.
 The csv format ends every row with the caution in a "caution" column.
 With --design, every candidate is also evaluated in the circuit at worst
 case and the passing ones are ranked by their smallest margin; regressions
-are then warnings. Parts with problems are set aside (listed on stderr)
-unless --strict-catalog refuses the catalog; exit status as for rank.
+are then warnings. A table written to a terminal lists a screenful of
+candidates ($LINES rows, else 24, less the header); --top N lists at most N,
+--top 0 all. The other formats and files list every candidate unless --top
+is given. Parts with problems
+are set aside (listed on stderr) unless --strict-catalog refuses the catalog;
+exit status as for rank.
 
 Options:
 `
@@ -43,6 +48,7 @@ type replaceFlags struct {
 	obsolete bool
 	overTemp bool
 	strict   bool
+	top      int
 	// strictCatalog refuses the catalog on any problem.
 	strictCatalog bool
 	output        outputFlags
@@ -51,7 +57,7 @@ type replaceFlags struct {
 func runReplace(e *env, args []string) error {
 	var f replaceFlags
 	fs := newFlagSet(e, "replace", replaceUsage)
-	fs.Var(&f.catalogs, "catalog", catalogHelp)
+	catalogFlags(fs, e, &f.catalogs)
 	fs.StringVar(&f.design, "design", "", "design TOML: evaluate every candidate in this circuit")
 	fs.StringVar(&f.format, "format", "table", "output format: "+strings.Join(replaceFormats, ", "))
 	fs.BoolVar(&f.all, "all", false, "with --design, list the candidates that fail the design too")
@@ -59,6 +65,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
 	fs.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
+	fs.IntVar(&f.top, "top", -1, "list at most N candidates (0: all; default: a screenful for a table on a terminal, else all)")
 	f.output.register(fs)
 	f.output.registerBOM(fs)
 	pos, err := replaceParseArgs(fs, args)
@@ -70,6 +77,9 @@ func runReplace(e *env, args []string) error {
 		return usageError("replace: missing PART-ID (the id of the part to replace; see opsift replace --help)")
 	case len(pos) > 1:
 		return usageError("replace: one PART-ID expected, got %d: %s", len(pos), strings.Join(pos, " "))
+	}
+	if f.top < -1 {
+		return usageError("replace: --top %d: want 0 (all) or a positive count", f.top)
 	}
 	if !replaceOneOf(f.format, replaceFormats) {
 		return usageError("replace: --format %q: want one of %s", f.format, strings.Join(replaceFormats, ", "))
@@ -96,6 +106,7 @@ func runReplace(e *env, args []string) error {
 	}
 	res := replace.Find(orig, parts, opts)
 	v := newReplaceView(res, f.all)
+	v.limit(f.replaceTop(e))
 	v.plan, v.meta = plan, meta(e, f.design, design, cat, f.strict)
 	if plan != nil {
 		v.meta.Warnings = filter.FilterWarnings(plan, parts)
@@ -153,11 +164,44 @@ type replaceView struct {
 	res         replace.Result
 	list        []replace.Candidate
 	failHidden  int // candidates failing the design, not listed
+	topHidden   int // candidates past --top, not listed
 	designTitle string
 	designFile  string
 	plan        *filter.Plan // the design evaluated; nil without --design
 	meta        *report.Meta
 	color       bool
+}
+
+// replaceTop is the number of candidates to list, 0 for all: --top when
+// given, else a screenful for a table written to a terminal.
+func (f *replaceFlags) replaceTop(e *env) int {
+	if f.top >= 0 {
+		return f.top
+	}
+	if f.format != "table" || f.output.out != "" || !e.isTTY {
+		return 0
+	}
+	rows := 24
+	if n, err := strconv.Atoi(strings.TrimSpace(e.getenv("LINES"))); err == nil && n > 0 {
+		rows = n
+	}
+	return max(replaceTopMin, rows-replaceHeaderRows)
+}
+
+// The screenful of replace: the summary table gets the terminal's rows
+// less the header above it and the notes below, and never fewer than
+// replaceTopMin rows.
+const (
+	replaceHeaderRows = 10
+	replaceTopMin     = 5
+)
+
+// limit lists at most top candidates (0: all), counting the rest.
+func (v *replaceView) limit(top int) {
+	if top > 0 && len(v.list) > top {
+		v.topHidden = len(v.list) - top
+		v.list = v.list[:top]
+	}
 }
 
 func newReplaceView(res replace.Result, all bool) *replaceView {

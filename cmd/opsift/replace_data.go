@@ -20,6 +20,7 @@ type replaceJSON struct {
 	Candidates      []replaceCandJSON `json:"candidates"`
 	ObsoleteLeftOut int               `json:"obsolete_left_out"`
 	FailingLeftOut  int               `json:"failing_left_out,omitempty"`
+	TopLeftOut      int               `json:"top_left_out,omitempty"`
 	Caution         string            `json:"caution"`
 }
 
@@ -90,6 +91,7 @@ func (v *replaceView) writeJSON(w io.Writer) error {
 		Candidates:      []replaceCandJSON{},
 		ObsoleteLeftOut: v.res.ObsoleteLeftOut,
 		FailingLeftOut:  v.failHidden,
+		TopLeftOut:      v.topHidden,
 		Caution:         caution,
 	}
 	doc.JSONMeta = report.NewJSONMeta(v.meta, v.plan)

@@ -129,6 +129,9 @@ const replaceMinorClass = 7
 // leftOutNotes say what the listing does not show and how to see it.
 func (v *replaceView) leftOutNotes() []string {
 	var out []string
+	if n := v.topHidden; n > 0 {
+		out = append(out, fmt.Sprintf("%d more candidate%s not listed (--top 0 lists all).", n, replacePlural(n)))
+	}
 	if n := v.failHidden; n > 0 {
 		out = append(out, fmt.Sprintf("%d candidate%s fail%s the design and %s not listed (--all lists them).", n, replacePlural(n), replaceVerbS(n), replaceIsAre(n)))
 	}

@@ -4,17 +4,19 @@ import (
 	"fmt"
 	"io"
 	"log"
+	"sync/atomic"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/tui"
 )
 
-const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--strict-catalog]
+const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--strict-catalog] [--no-cache]
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
@@ -43,7 +45,7 @@ func runSelector(e *env, args []string) error {
 		strictCatalog bool
 	)
 	fset := newFlagSet(e, "opsift", selectorUsage)
-	fset.Var(&catalogs, "catalog", catalogHelp)
+	catalogFlags(fset, e, &catalogs)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
 	fset.BoolVar(&strictCatalog, "strict-catalog", false, strictCatalogHelp)
@@ -61,11 +63,10 @@ func runSelector(e *env, args []string) error {
 		return inputError(err)
 	}
 	layers := catalogLayers(e, catalogs)
-	cat, err := openCatalog(e, catalogs, strictCatalog)
-	if err != nil {
-		return err
-	}
 	if !e.isTTY {
+		if _, err := openCatalog(e, catalogs, strictCatalog); err != nil {
+			return err // a bad catalog is named first, as with a terminal
+		}
 		return usageError("the interactive selector needs a terminal; for scripts use opsift rank")
 	}
 	if path := e.getenv("OPSIFT_LOG"); path != "" {
@@ -87,6 +88,16 @@ func runSelector(e *env, args []string) error {
 	if e.getenv("NO_COLOR") != "" {
 		r.SetColorProfile(termenv.Ascii)
 	}
+	// The catalog is read after the first frame; the selector shows how far
+	// the read has got, and a catalog that cannot be read ends it with the
+	// error (exit status 2) as before it started.
+	var progress atomic.Pointer[catalog.Progress]
+	loader := e.loader()
+	loader.Progress = func(p catalog.Progress) { progress.Store(&p) }
+	empty := &catalog.Catalog{} // stands in until the read ends, naming the sources
+	for _, l := range layers {
+		empty.Sources = append(empty.Sources, safe.Text(l.Name))
+	}
 	settingsFile := tui.SettingsPath(e.getenv)
 	settings, settingsErr := tui.LoadSettings(settingsFile)
 	m := tui.New(tui.Config{
@@ -94,10 +105,16 @@ func runSelector(e *env, args []string) error {
 		DesignFile: design,
 		DesignText: text,
 		Version:    version,
-		Catalog:    cat,
-		CatalogErr: cat.Problems().AsError(),
+		Catalog:    empty,
+		LoadFirst:  true,
+		LoadProgress: func() catalog.Progress {
+			if p := progress.Load(); p != nil {
+				return *p
+			}
+			return catalog.Progress{}
+		},
 		Load: func() (*catalog.Catalog, error) {
-			c, err := catalog.Load(layers...)
+			c, err := loader.Load(layers...)
 			return c, acceptCatalog(c, err, strictCatalog)
 		},
 		OnDisk:   onDisk,
@@ -115,6 +132,9 @@ func runSelector(e *env, args []string) error {
 		tea.WithInput(e.stdin), tea.WithOutput(e.stdout))
 	if _, err := p.Run(); err != nil {
 		return fmt.Errorf("selector: %w", err)
+	}
+	if err := m.Fatal(); err != nil {
+		return inputError(newCatalogError(err, catalogs))
 	}
 	return nil
 }

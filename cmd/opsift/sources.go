@@ -2,9 +2,11 @@ package main
 
 import (
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"strings"
+	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
@@ -28,6 +30,72 @@ func (l *pathList) Set(s string) error {
 	}
 	*l = append(*l, s)
 	return nil
+}
+
+// noCacheHelp is the --no-cache flag's help, the same for every command.
+const noCacheHelp = "read every catalog file afresh, neither using nor updating the parsed-catalog cache ($XDG_CACHE_HOME/opsift, else ~/.cache/opsift)"
+
+// catalogFlags registers a command's catalog flags: --catalog into paths
+// and --no-cache into e.
+func catalogFlags(fset *flag.FlagSet, e *env, paths *pathList) {
+	fset.Var(paths, "catalog", catalogHelp)
+	fset.BoolVar(&e.noCache, "no-cache", false, noCacheHelp)
+}
+
+// loader is the catalog loader of a command: with the parsed-catalog cache
+// in the user's cache directory unless --no-cache was given or there is no
+// such directory.
+func (e *env) loader() catalog.Loader {
+	if e.noCache {
+		return catalog.Loader{}
+	}
+	dir := catalog.CacheDir(e.getenv)
+	if dir == "" {
+		return catalog.Loader{}
+	}
+	return catalog.Loader{Cache: &catalog.Cache{Dir: dir}}
+}
+
+// readCatalog loads layers with e's loader; when stderr is a terminal and
+// the read takes longer than progressDelay, it shows how far it has got
+// there on one line, cleared when done.
+func (e *env) readCatalog(layers []catalog.Layer) (*catalog.Catalog, error) {
+	ld := e.loader()
+	var pr *stderrProgress
+	if e.errTTY {
+		pr = &stderrProgress{w: e.stderr, start: time.Now()}
+		ld.Progress = pr.report
+	}
+	c, err := ld.Load(layers...)
+	if pr != nil {
+		pr.done()
+	}
+	return c, err
+}
+
+// progressDelay is how long a catalog read runs before its progress is shown.
+const progressDelay = 500 * time.Millisecond
+
+// stderrProgress draws the progress of a catalog read on a terminal.
+type stderrProgress struct {
+	w     io.Writer
+	start time.Time
+	shown bool
+}
+
+func (s *stderrProgress) report(p catalog.Progress) {
+	if time.Since(s.start) < progressDelay || p.TotalFiles == 0 {
+		return
+	}
+	s.shown = true
+	fmt.Fprintf(s.w, "\r\x1b[Kopsift: reading the catalog: %d of %d files, %d parts", p.Files, p.TotalFiles, p.Parts)
+}
+
+// done clears the progress line, if one was drawn.
+func (s *stderrProgress) done() {
+	if s.shown {
+		fmt.Fprint(s.w, "\r\x1b[K")
+	}
 }
 
 // catalogLayers turns --catalog paths into layers; with none, the user's
@@ -75,7 +143,7 @@ func loadCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) 
 // openCatalog is loadCatalog without the notes and the warning, for the
 // selector, which shows the catalog itself.
 func openCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) {
-	c, err := catalog.Load(catalogLayers(e, paths)...)
+	c, err := e.readCatalog(catalogLayers(e, paths))
 	if err := acceptCatalog(c, err, strict); err != nil {
 		return nil, inputError(newCatalogError(err, paths))
 	}

@@ -1,0 +1,282 @@
+package filter
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"strings"
+	"sync"
+
+	"github.com/opsift/opsift/catalog"
+)
+
+// Incremental evaluates one set of parts against plan after plan, the way
+// an interactive front end re-ranks on every keystroke, and re-computes
+// only what an edit can have changed:
+//
+//   - each part's worst-case figures, kept while the temperature range and
+//     the policy stay the same;
+//   - the design-level checks (supply, temperature, hard filters, cost,
+//     supply current), kept while the supply, environment, [choose],
+//     policy and number of stages stay the same;
+//   - each stage's checks, kept while that stage's inputs and the
+//     design-level inputs stay the same.
+//
+// Its results are those of Evaluate with Options.Summary, bit for bit.
+// Work is split over the CPUs. Evaluate may be called from several
+// goroutines; the calls run one at a time, and a call whose context is
+// cancelled stops early and leaves what it had not finished to the next.
+type Incremental struct {
+	parts  []*catalog.Part
+	strict bool
+
+	mu     sync.Mutex
+	figKey figureKey
+	figs   []PartFigures // nil until computed
+	global cachedGroup
+	stages []cachedGroup
+	// keys and keyBuf are Ranked's rank keys and merge buffer, kept from
+	// call to call (only Ranked, under mu, touches them).
+	keys, keyBuf []rankKey
+}
+
+// NewIncremental returns an Incremental for parts; o.Strict applies to
+// every evaluation (o.Summary is implied).
+func NewIncremental(parts []*catalog.Part, o Options) *Incremental {
+	return &Incremental{parts: parts, strict: o.Strict}
+}
+
+// Parts returns the parts the Incremental evaluates.
+func (in *Incremental) Parts() []*catalog.Part { return in.parts }
+
+// figureKey is everything of a plan that Figures reads.
+type figureKey struct {
+	tempLow, tempHigh, derate, inflate, speed, ibCold float64
+}
+
+func figureKeyOf(p *Plan) figureKey {
+	return figureKey{p.TempLow, p.TempHigh, p.DerateTyp, p.InflateTyp, p.SpeedTempco, p.IbColdTempco}
+}
+
+// cachedGroup is one group of checks evaluated for every part, with the
+// key of the inputs it was evaluated from.
+type cachedGroup struct {
+	key  string
+	sums []groupSum // nil when not evaluated
+	// totals of each part (design-level group only): packages, cost, current.
+	totals []partTotals
+}
+
+type partTotals struct {
+	packages      int
+	cost, current float64
+}
+
+// designKey renders everything of a plan outside its stages that a check
+// can depend on: figures, rails, the design-level requirements and the
+// number of stages.
+func designKey(p *Plan, strict bool) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%v|%v|%d|%t", figureKeyOf(p), p.Rails, len(p.Stages), strict)
+	for i := range p.Global {
+		q := &p.Global[i]
+		fmt.Fprintf(&b, "|%s %s %d %v %v %v %v %v", q.Stage, q.Key, q.Bound, q.Value, q.Low, q.High, q.Dim, q.Allowed)
+	}
+	return b.String()
+}
+
+// stageKey renders the inputs a stage's checks are derived from: the
+// design-level key, the stage's place, and its inputs as written.
+func stageKey(design string, i int, s *Stage) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s|%d|%s|%s", design, i, s.Name, s.Kind)
+	keys := make([]string, 0, len(s.Values))
+	for k := range s.Values {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		v := s.Values[k]
+		fmt.Fprintf(&b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
+	}
+	return b.String()
+}
+
+// checkEvery is how many parts a worker evaluates between looks at its
+// context.
+const checkEvery = 512
+
+// Evaluate returns the summary results of every part against plan in
+// parts order, as Evaluate(plan, parts, Options{Summary: true, Strict})
+// does. When ctx is cancelled first it returns ctx's error and no results.
+func (in *Incremental) Evaluate(ctx context.Context, plan *Plan) ([]Result, error) {
+	in.mu.Lock()
+	defer in.mu.Unlock()
+	return in.evaluate(ctx, plan, true)
+}
+
+// evaluate brings the kept groups up to plan and, when results is true,
+// assembles the results in parts order. The caller holds in.mu.
+func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) ([]Result, error) {
+	n := len(in.parts)
+	fk := figureKeyOf(plan)
+	newFigs := in.figs == nil || fk != in.figKey
+	dk := designKey(plan, in.strict)
+	newGlobal := newFigs || in.global.sums == nil || in.global.key != dk
+	skeys := make([]string, len(plan.Stages))
+	var redo []int // stages to evaluate again
+	for i := range plan.Stages {
+		st := plan.Stages[i].Stage
+		if st == nil {
+			st = &Stage{Name: plan.Stages[i].Name, Kind: plan.Stages[i].Kind}
+		}
+		skeys[i] = stageKey(dk, i, st)
+		if plan.Stages[i].Stage == nil || newFigs || i >= len(in.stages) || in.stages[i].sums == nil || in.stages[i].key != skeys[i] {
+			redo = append(redo, i)
+		}
+	}
+	figs := in.figs
+	if newFigs {
+		figs = make([]PartFigures, n)
+	}
+	global := in.global
+	if newGlobal {
+		global = cachedGroup{key: dk, sums: make([]groupSum, n), totals: make([]partTotals, n)}
+	}
+	stages := make([]cachedGroup, len(plan.Stages))
+	for i := range stages {
+		if i < len(in.stages) {
+			stages[i] = in.stages[i]
+		}
+	}
+	for _, i := range redo {
+		stages[i] = cachedGroup{key: skeys[i], sums: make([]groupSum, n)}
+	}
+	ev := evaluator{plan: plan, strict: in.strict, summary: true}
+	maxReqs := len(plan.Global)
+	for i := range plan.Stages {
+		maxReqs = max(maxReqs, len(plan.Stages[i].Requirements))
+	}
+	err := inParallel(ctx, n, func(lo, hi int) {
+		scratch := make([]Check, maxReqs)
+		var r Result
+		for k := lo; k < hi; k++ {
+			f := &figs[k]
+			if newFigs {
+				*f = Figures(in.parts[k], plan)
+			}
+			r.Part = in.parts[k]
+			if newGlobal {
+				ev.totals(&r, f)
+				global.totals[k] = partTotals{r.Packages, r.Cost, r.SupplyCurrent}
+				ev.group(&global.sums[k], scratch, plan.Global, nil, &r, f)
+			} else {
+				t := global.totals[k]
+				r.Packages, r.Cost, r.SupplyCurrent = t.packages, t.cost, t.current
+			}
+			for _, i := range redo {
+				sp := &plan.Stages[i]
+				ev.group(&stages[i].sums[k], scratch, sp.Requirements, sp, &r, f)
+			}
+		}
+	})
+	if err != nil {
+		return nil, err // nothing of this call is kept
+	}
+	in.figKey, in.figs, in.global, in.stages = fk, figs, global, stages
+	if !results {
+		return nil, nil
+	}
+	out := make([]Result, n)
+	fmax := make([]float64, n*len(stages))
+	_ = inParallel(context.Background(), n, func(lo, hi int) {
+		for k := lo; k < hi; k++ {
+			in.result(&out[k], k, fmax[k*len(stages):(k+1)*len(stages):(k+1)*len(stages)])
+		}
+	})
+	return out, nil
+}
+
+// result assembles the summary result of part k from the kept groups,
+// with fmax (one per stage) as its FMax.
+func (in *Incremental) result(r *Result, k int, fmax []float64) {
+	t := in.global.totals[k]
+	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
+		Packages: t.packages, Cost: t.cost, SupplyCurrent: t.current, FMax: fmax}
+	r.add(&in.global.sums[k])
+	for i := range in.stages {
+		g := &in.stages[i].sums[k]
+		r.add(g)
+		r.FMax[i] = g.fmax
+	}
+}
+
+// Ranked is Evaluate followed by Rank(results, key), the same results in
+// the same order, without moving results: the rank keys are made from the
+// kept groups and the results assembled in rank order.
+func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]Result, error) {
+	in.mu.Lock()
+	defer in.mu.Unlock()
+	if _, err := in.evaluate(ctx, plan, false); err != nil {
+		return nil, err
+	}
+	n, ns := len(in.parts), len(in.stages)
+	if len(in.keys) != n {
+		in.keys, in.keyBuf = make([]rankKey, n), make([]rankKey, n)
+	}
+	keys := in.keys
+	if err := inParallel(ctx, n, func(lo, hi int) {
+		var r Result
+		fmax := make([]float64, ns)
+		for k := lo; k < hi; k++ {
+			in.result(&r, k, fmax)
+			keys[k] = newRankKey(&r, k, key)
+		}
+	}); err != nil {
+		return nil, err
+	}
+	sortParallelIn(keys, in.keyBuf, rankOrder(key))
+	results := make([]Result, n)
+	fmax := make([]float64, n*ns)
+	_ = inParallel(context.Background(), n, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			in.result(&results[i], keys[i].idx, fmax[i*ns:(i+1)*ns:(i+1)*ns])
+		}
+	})
+	return results, nil
+}
+
+// inParallel runs work over [0, n) in ranges on up to GOMAXPROCS
+// goroutines, each range at most checkEvery long so that a cancelled ctx
+// stops the work soon; it returns ctx's error when it was cancelled.
+func inParallel(ctx context.Context, n int, work func(lo, hi int)) error {
+	workers := max(1, min(runtime.GOMAXPROCS(0), n/parallelMin))
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	next := 0
+	take := func() (int, int, bool) {
+		mu.Lock()
+		defer mu.Unlock()
+		if next >= n || ctx.Err() != nil {
+			return 0, 0, false
+		}
+		lo := next
+		next = min(n, next+checkEvery)
+		return lo, next, true
+	}
+	for range workers {
+		wg.Go(func() {
+			for {
+				lo, hi, ok := take()
+				if !ok {
+					return
+				}
+				work(lo, hi)
+			}
+		})
+	}
+	wg.Wait()
+	return ctx.Err()
+}
