@@ -18,6 +18,8 @@ type checksPane struct {
 	u      *ui
 	offset int    // first body line on screen
 	partID string // the part the offset belongs to; another part starts at the top
+
+	hr *headroomState // the selected part's headroom, lent read-only
 }
 
 // checkColumns are the checks pane's columns.
@@ -160,7 +162,7 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 			}
 		}
 	}
-	return out
+	return append(out, p.headroomLines(r, w)...)
 }
 
 // groupLine heads one stage's checks with its own pass/fail verdict.
@@ -206,6 +208,8 @@ func (m *Model) detailView(w, h int) []string {
 		return m.checks.draw(m.list.selected(m.rank.results), focused, w, h)
 	case detailPreview:
 		return m.prev.draw(&m.rank, m.previewParts(), focused, w, h)
+	case detailCompare:
+		return m.cmp.draw(focused, w, h)
 	}
 	return blank(w, h)
 }

@@ -17,6 +17,10 @@
 //	v / cursor move ─► previewJob{gen} (filter/preview, off the UI path) ─► previewMsg
 //	      ─► dropped unless gen is the newest ─► previewPane ─► tui/plot
 //	R ─► replace.Find with the plan in force ─► replacer (its own mode)
+//	selected passing part changed ─► findHeadroom (filter/headroom, a tea.Cmd)
+//	      ─► headroomMsg ─► dropped unless still the selected part and plan
+//	      ─► headroomState ─► the checks pane's headroom section
+//	= with 2–6 marked ─► comparePane (filter/compare, built in settle)
 //
 //	edit ─► undo stack, edits against the saved design ─► header "modified"
 //	w ─► filter.UpdateDesignText(saved text, design) ─► report.WriteFile ─► new saved base
@@ -36,7 +40,8 @@
 // model. File writes (export, save) run as tea.Cmds whose result comes
 // back as a writtenMsg. Each mode (browse, edit, find, prompt, help,
 // replace, ask) has its own update function; the right-hand detail area
-// switches on a detail kind: the checks pane or the waveform preview.
+// switches on a detail kind: the checks pane, the waveform preview or the
+// compare view.
 // Styles come from a Theme of ANSI colours 0–15 and a lipgloss renderer
 // chosen by the caller (no colour for NO_COLOR and tests).
 package tui

@@ -10,6 +10,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/compare"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -50,6 +51,10 @@ func (m *Model) exportShortlist(path string, f report.Format) (tea.Cmd, error) {
 	}
 	doc := &report.Doc{Plan: m.exportPlan(), Results: res, Sort: m.narrow.sortKey(), All: true,
 		Strict: m.rank.strict, Sources: m.cat.Sources, Meta: m.exportMeta()}
+	if f == report.Markdown && len(res) >= compare.MinParts && len(res) <= compare.MaxParts {
+		// the same side-by-side section as the compare view and opsift compare
+		doc.Compare = m.cmpTable(res)
+	}
 	var buf bytes.Buffer
 	if err := report.Write(&buf, f, doc); err != nil {
 		return nil, fmt.Errorf("export %s: %w", path, err)

@@ -29,6 +29,7 @@ type KeyMap struct {
 	Replace        key.Binding // replacement mode for the selected part
 	Preview        key.Binding // detail area: checks or waveform preview
 	Compare        key.Binding // preview the two shortlisted parts together
+	Versus         key.Binding // detail area: the marked parts side by side
 	StagePrev      key.Binding // preview: previous stage with a waveform
 	StageNext      key.Binding // preview: next stage with a waveform
 	Explore        key.Binding // explorer mode: every part, any figure as a column
@@ -73,6 +74,7 @@ func DefaultKeyMap() KeyMap {
 		Replace:   b([]string{"R"}, "R", "replace"),
 		Preview:   b([]string{"v"}, "v", "wave"),
 		Compare:   b([]string{"V"}, "V", "compare 2 marked"),
+		Versus:    b([]string{"="}, "=", "marked side by side"),
 		StagePrev: b([]string{"["}, "[", "previous stage"),
 		StageNext: b([]string{"]"}, "]", "next stage"),
 		Help:      b([]string{"?"}, "?", "keys"),
@@ -106,7 +108,7 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
 		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.Help, k.Quit},
-		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore},
+		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore, k.Versus},
 	}
 }
 

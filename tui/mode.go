@@ -35,4 +35,5 @@ type detail int
 const (
 	detailChecks  detail = iota // the selected part's checks, per stage
 	detailPreview               // its waveform in a stage of the design (preview_detail.go)
+	detailCompare               // the marked parts side by side (compare_view.go)
 )

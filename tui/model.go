@@ -8,6 +8,7 @@ import (
 	"io"
 	"path/filepath"
 	"strings"
+	"sync/atomic"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
@@ -96,8 +97,12 @@ type Model struct {
 	repl   replacer    // replacement mode (replace_mode.go)
 	prev   previewPane // waveform preview detail (preview_detail.go)
 	expl   explorer    // explorer mode (explorer.go)
+	cmp    comparePane // compare detail (compare_view.go)
 
 	helpPage int // the help overlay's page
+
+	hr    headroomState  // the selected part's headroom, searched lazily (headroom.go)
+	hrGen *atomic.Uint64 // numbers headroom requests; a waiting job searches only if still the newest
 
 	message string // last message for the status line
 	msgErr  bool   // message is an error
@@ -169,9 +174,10 @@ func New(cfg Config) *Model {
 		cfg.Getenv = func(string) string { return "" }
 	}
 	u := &ui{width: 120, height: 40, st: NewStyles(cfg.Renderer, DefaultTheme()), keys: DefaultKeyMap()}
-	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict}}
+	m := &Model{ui: u, cfg: cfg, focus: paneDesign, marks: newShortlist(), rank: ranking{strict: cfg.Strict},
+		hrGen: newHeadroomGen()}
 	m.form = newForm(u)
-	m.list, m.checks, m.prev = list{u: u}, checksPane{u: u}, previewPane{u: u}
+	m.list, m.checks, m.prev, m.cmp = list{u: u}, checksPane{u: u, hr: &m.hr}, previewPane{u: u}, comparePane{u: u}
 	m.expl = newExplorer(u, cfg.Settings.ExplorerColumns)
 	m.design = cfg.Design.Clone()
 	m.saved = savedState{path: cfg.DesignFile, text: cfg.DesignText, design: cfg.Design.Clone()}
@@ -230,6 +236,9 @@ func (m *Model) Close() error {
 // Update handles one message, then settles the panes for the next View.
 func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	cmd := m.route(msg)
+	if hc := m.requestHeadroom(); hc != nil {
+		cmd = tea.Batch(cmd, hc)
+	}
 	m.settle()
 	return m, cmd
 }
@@ -252,6 +261,9 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		return m.followPreview(nil)
 	case previewMsg:
 		m.prev.adopt(msg)
+		return nil
+	case headroomMsg:
+		m.adoptHeadroom(msg)
 		return nil
 	case writtenMsg:
 		return m.adoptWritten(msg)

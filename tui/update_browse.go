@@ -86,6 +86,8 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openReplace()
 	case key.Matches(k, keys.Explore):
 		return m.openExplorer()
+	case key.Matches(k, keys.Versus):
+		m.toggleCompareView()
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)
@@ -109,6 +111,10 @@ func (m *Model) moveFocused(n int) {
 	case paneList:
 		m.list.move(n, m.rank.results, m.listRows())
 	case paneDetail:
+		if m.detail == detailCompare {
+			m.cmp.scroll(n)
+			return
+		}
 		m.checks.scroll(n)
 	}
 }

@@ -78,7 +78,8 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return usageError("compare: %w", err)
 	}
-	doc := &report.CompareDoc{Table: t, Sources: cat.Sources, Meta: meta(e, f.design, d, cat, f.strict)}
+	doc := &report.CompareDoc{Table: t, Sources: cat.Sources, Width: e.columns(report.DefaultWidth),
+		Meta: meta(e, f.design, d, cat, f.strict)}
 	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	var buf bytes.Buffer
 	if err := report.WriteCompare(&buf, report.Format(f.format), doc); err != nil {

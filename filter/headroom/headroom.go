@@ -71,13 +71,18 @@ type Limit struct {
 }
 
 // Text is a short phrase for the limit: "good to 34.2 kHz — slew",
-// "down to 4.4 V — output_range".
+// "down to 4.4 V — photo/output_range" (the breaking check's stage is
+// named when it is not the input's own).
 func (l Limit) Text() string {
 	word := "good to "
 	if l.Dir == Down {
 		word = "down to "
 	}
-	return word + catalog.Format(l.Limit, l.Dim) + " — " + string(l.Breaks.Key)
+	brk := string(l.Breaks.Key)
+	if l.Breaks.Stage != "" && l.Breaks.Stage != l.Stage {
+		brk = l.Breaks.Stage + "/" + brk
+	}
+	return word + catalog.Format(l.Limit, l.Dim) + " — " + brk
 }
 
 // Label names the input for text: "sense: signal.freq", "supply.pos".

@@ -112,15 +112,15 @@ func TestHandCases(t *testing.T) {
 		method      Method
 		tol         float64
 	}{
-		// 0.35 V/µs / (2π·0.5 V) = 127.324 kHz (Vo = 10 × 50 mV), under gbw's 141.789 kHz.
+		// 0.35 V/µs / (2π·0.5 V) = 111.408 kHz (Vo = 10 × 50 mV), under gbw's 141.789 kHz.
 		{"hand-slow", "signal.freq", Up, 0.35e6 / (2 * math.Pi * 0.5), filter.KeySlew, ClosedForm, 1e-9},
 		// 10 MHz·√(1/0.99² − 1.0001²)/10 = 141.789 kHz.
 		{"hand-fast", "signal.freq", Up, fMax, filter.KeyGBW, ClosedForm, 1e-9},
-		// 0.35 V/µs / (2π·10 kHz·10) = 0.636620 V, under the swing's 1.35 V.
+		// 0.35 V/µs / (2π·10 kHz·10) = 0.557042 V, under the swing's 1.35 V.
 		{"hand-slow", "signal.peak", Up, 0.35e6 / (2 * math.Pi * 10e3 * 10), filter.KeySlew, ClosedForm, 1e-9},
 		// (15 V − 1.5 V)/10 = 1.35 V.
 		{"hand-fast", "signal.peak", Up, 1.35, filter.KeyOutputRange, ClosedForm, 1e-9},
-		// 0.35 V/µs / (2π·10 kHz·50 mV) = 127.324, under gbw's 132.836.
+		// 0.35 V/µs / (2π·10 kHz·50 mV) = 111.408, under gbw's 132.836.
 		{"hand-slow", "gain", Up, 0.35e6 / (2 * math.Pi * 10e3 * 0.05), filter.KeySlew, ClosedForm, 1e-9},
 		// the quadratic's root 132.836 (NG = G).
 		{"hand-fast", "gain", Up, ngMax, filter.KeyGBW, ClosedForm, 1e-9},

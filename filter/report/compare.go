@@ -21,10 +21,16 @@ import (
 type CompareDoc struct {
 	Table   *compare.Table
 	Sources []string // catalog source names
+	// Width is the terminal width the table fits its label column to
+	// (0: as wide as the labels); the part columns are never cut.
+	Width int
 	// Meta says what the comparison was made from: the block every JSON
 	// output opens with (meta.go).
 	Meta *Meta
 }
+
+// compareLabelMin is the narrowest the table's label column gets.
+const compareLabelMin = 16
 
 // BestMark follows the best value of a row in every compare format but
 // CSV and JSON (which carry a best column or flag): a character, so the
@@ -77,6 +83,10 @@ func (c markCell) plain() string {
 	return c.text
 }
 
+// CompareKey is the one-line key of the compare view's marks, for a pane
+// too narrow for the whole legend.
+const CompareKey = BestMark + " best · unmarked guaranteed · ~ typical × policy · g read off a graph · — not given"
+
 // compareSummary is the head of every compare format: passes, worst
 // margin (best marked) and binding check per part.
 func compareSummary(t *compare.Table) [][]markCell {
@@ -122,6 +132,27 @@ func compareLines(t *compare.Table) [][]markCell {
 	return out
 }
 
+// CompareCells returns the comparison as the terminal table shows it: the
+// header (the part ids, after an empty label cell) and one line per row —
+// the pass, worst-margin and binding head, then the figure and check rows
+// in order — each a label and one cell per part, the best marked with
+// BestMark. The selector's compare view draws these, so it shows the same
+// numbers as opsift compare.
+func CompareCells(t *compare.Table) (head []string, lines [][]string) {
+	head = append([]string{""}, compareIDs(t)...)
+	for _, l := range compareLines(t) {
+		line := make([]string, len(l))
+		for i, c := range l {
+			line[i] = c.plain()
+		}
+		lines = append(lines, line)
+	}
+	return head, lines
+}
+
+// CompareLegend is the line that explains the mark and the basis letters.
+func CompareLegend() string { return compareLegend }
+
 // rowLabel is a row's first cell: "check gain/slew", "slew rate".
 func rowLabel(r *compare.Row) string {
 	if r.Kind == compare.Check {
@@ -155,14 +186,9 @@ func compareIDs(t *compare.Table) []string {
 
 func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 	t := doc.Table
-	lines := [][]string{append([]string{"compare: " + oneLine(t.Plan.Title)}, compareIDs(t)...)}
-	for _, l := range compareLines(t) {
-		line := make([]string, len(l))
-		for i, c := range l {
-			line[i] = c.plain()
-		}
-		lines = append(lines, line)
-	}
+	head, rows := CompareCells(t)
+	head[0] = "compare: " + oneLine(t.Plan.Title)
+	lines := append([][]string{head}, rows...)
 	widths := make([]int, len(lines[0]))
 	for _, l := range lines[1:] {
 		for i, c := range l {
@@ -173,8 +199,24 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 	for i := 1; i < len(widths); i++ {
 		widths[i] = max(widths[i], present.Width(lines[0][i]))
 	}
+	if doc.Width > 0 {
+		// Narrow the label column (down to compareLabelMin) before the
+		// table runs past the terminal; the values stay whole.
+		rest := 2 * (len(widths) - 1)
+		for _, x := range widths[1:] {
+			rest += x
+		}
+		widths[0] = max(min(widths[0], doc.Width-rest), compareLabelMin)
+		for _, l := range lines[1:] {
+			l[0] = present.Clip(l[0], widths[0])
+		}
+	}
 	b := bufio.NewWriter(w)
-	fmt.Fprintf(b, "%s\n\n", lines[0][0])
+	title := lines[0][0]
+	if doc.Width > 0 {
+		title = present.Clip(title, doc.Width)
+	}
+	fmt.Fprintf(b, "%s\n\n", title)
 	lines[0][0] = ""
 	for li, l := range lines {
 		for i, c := range l {
@@ -198,8 +240,12 @@ func writeCompareTable(w io.Writer, doc *CompareDoc) error {
 		}
 	}
 	b.WriteByte('\n')
-	wrap(b, compareLegend, 100)
-	wrap(b, "Caution: "+Caution, 100)
+	textW := DefaultWidth
+	if doc.Width > 0 {
+		textW = min(textW, doc.Width)
+	}
+	wrap(b, compareLegend, textW)
+	wrap(b, "Caution: "+Caution, textW)
 	return b.Flush()
 }
 
@@ -214,16 +260,16 @@ func writeCompareMarkdown(w io.Writer, doc *CompareDoc) error {
 // writeCompareSection writes the comparison as a Markdown section whose
 // heading is at level h ("#", "##"), for opsift compare and for the
 // selector's shortlist document.
-func writeCompareSection(b *bytes.Buffer, t *compare.Table, h string) {
+func writeCompareSection(b io.Writer, t *compare.Table, h string) {
 	fmt.Fprintf(b, "%s Compared: %s\n\n", h, mdText(oneLine(t.Plan.Title)))
 	ids := compareIDs(t)
-	b.WriteString("| Row |")
+	io.WriteString(b, "| Row |")
 	for _, id := range ids {
 		fmt.Fprintf(b, " `%s` |", id)
 	}
-	b.WriteString("\n|---|" + strings.Repeat("---:|", len(ids)) + "\n")
+	io.WriteString(b, "\n|---|"+strings.Repeat("---:|", len(ids))+"\n")
 	for _, l := range compareLines(t) {
-		b.WriteString("|")
+		io.WriteString(b, "|")
 		for _, c := range l {
 			if c.best {
 				fmt.Fprintf(b, " **%s** %s |", mdText(c.text), BestMark)
@@ -231,7 +277,7 @@ func writeCompareSection(b *bytes.Buffer, t *compare.Table, h string) {
 			}
 			fmt.Fprintf(b, " %s |", mdText(c.text))
 		}
-		b.WriteByte('\n')
+		io.WriteString(b, "\n")
 	}
 	fmt.Fprintf(b, "\n%s\n", mdText(compareLegend))
 }

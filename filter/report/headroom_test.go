@@ -7,8 +7,11 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
+	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/compare"
 	"github.com/opsift/opsift/filter/headroom"
 	"github.com/opsift/opsift/filter/report"
 )
@@ -90,6 +93,37 @@ func TestMarkdownHeadroom(t *testing.T) {
 		has := strings.Contains(s, "| Stage | Input | Design | Limit | Breaks | Method |")
 		if has != rs[i].Pass {
 			t.Errorf("%s: pass %v, headroom table %v", rs[i].Part.ID, rs[i].Pass, has)
+		}
+	}
+}
+
+// TestCompareWidth: the compare table fits the terminal width it is given
+// by narrowing its label column; the values are never cut.
+func TestCompareWidth(t *testing.T) {
+	p, rs := fixture(t, "audio-split.toml", false)
+	parts := []*catalog.Part{rs[0].Part, rs[1].Part}
+	tab, err := compare.Build(p, parts, filter.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, lines := report.CompareCells(tab)
+	for _, w := range []int{60, 80, 120} {
+		var b bytes.Buffer
+		if err := report.WriteCompare(&b, report.Table, &report.CompareDoc{Table: tab, Width: w}); err != nil {
+			t.Fatal(err)
+		}
+		out := b.String()
+		for _, l := range strings.Split(out, "\n") {
+			if n := utf8.RuneCountInString(l); n > w {
+				t.Errorf("width %d: line of %d: %q", w, n, l)
+			}
+		}
+		for _, l := range lines {
+			for _, cell := range l[1:] {
+				if !strings.Contains(out, cell) {
+					t.Errorf("width %d: value %q cut", w, cell)
+				}
+			}
 		}
 	}
 }

@@ -70,6 +70,10 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			present.RowMargin(r), binding, r.Packages, cost(r.Cost), quantity(r.SupplyCurrent, catalog.Ampere),
 			fmaxText(doc.Plan, r), r.Unknown)
 	}
+	if doc.Compare != nil {
+		b.WriteByte('\n')
+		writeCompareSection(b, doc.Compare, "##")
+	}
 	b.WriteString("\n## Candidates\n")
 	doc.prepareHeadroom()
 	for _, r := range listed {

@@ -17,6 +17,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/compare"
 	"github.com/opsift/opsift/filter/headroom"
 	"github.com/opsift/opsift/filter/present"
 )
@@ -78,6 +79,9 @@ type Doc struct {
 	// NoHeadroom leaves the candidates' headroom out of the json and md
 	// documents (a large shortlist searches every input of every part).
 	NoHeadroom bool
+	// Compare, when set, adds a side-by-side section of the listed parts
+	// to the md document (the selector's shortlist export).
+	Compare *compare.Table
 	// headroom holds each listed candidate's headroom once computed.
 	headroom map[*catalog.Part][]headroom.Limit
 }
