@@ -38,7 +38,7 @@ func Decode(file string, data []byte) ([]*Part, error) {
 	parts, dups := dropDuplicates(parts, map[string]*Part{}, data)
 	probs = append(probs, dups...)
 	sortProblems(probs)
-	return parts, probs.asError()
+	return parts, probs.AsError()
 }
 
 // MaxProblems is the most problems kept for one file; past it a last
@@ -115,7 +115,7 @@ func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Pr
 	for _, k := range sortedKeys(doc) {
 		if k != "part" {
 			probs = append(probs, Problem{Pos: Pos{file, lines.top[k]},
-				Err: fmt.Errorf("unknown key %q outside any [[part]] table%s", k, didYouMean(k, []string{"part"}))})
+				Err: fmt.Errorf("unknown key %q %w%s", k, errOutsidePart, didYouMean(k, []string{"part"}))})
 		}
 	}
 	tables, err := partTables(doc["part"])

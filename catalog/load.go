@@ -44,6 +44,9 @@ type Catalog struct {
 	Overrides int
 	// Invalid counts parts left out because they have a problem.
 	Invalid int
+	// SetAside lists the parts and files left out, each with its
+	// problems (the same problems Load returns as its error).
+	SetAside []SetAside
 	// FileSums lists every catalog file read, in load order, with the hash of
 	// its content, so an export can say exactly which catalog it ranked.
 	FileSums []FileSum
@@ -80,8 +83,11 @@ func (c *Catalog) ByID(id string) *Part {
 // Load reads every source in order and layers them: a later source
 // overrides an earlier one part by part, by id (noted in Notes), while a
 // duplicate id within one source is a problem. It always returns a
-// Catalog, holding the parts without problems; when any file cannot be
-// read or has a problem, the error is a Problems holding all of them.
+// Catalog, holding the parts without problems and, in SetAside, the parts
+// and files left out with their problems; when any file cannot be read or
+// has a problem, the error is a Problems holding all of them. Refusing
+// the catalog on any problem is the strict reading (check,
+// --strict-catalog); Partial says whether the valid parts may be used.
 // Files are decoded on several cores at once; the result is the same as
 // reading them one by one. Load uses no cache; see Loader.
 func Load(srcs ...Layer) (*Catalog, error) { return Loader{}.Load(srcs...) }
@@ -180,7 +186,8 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 		}
 	})
 	c.count()
-	return c, probs.asError()
+	c.SetAside = c.setAside(probs)
+	return c, probs.AsError()
 }
 
 // fileJob is one catalog file to read, or a source that could not be listed.
@@ -299,7 +306,7 @@ func (s Layer) files() ([]string, error) {
 		}
 	}
 	if err != nil {
-		return nil, fmt.Errorf("cannot read catalog: %w", plainErr(err))
+		return nil, &SourceError{Err: plainErr(err)}
 	}
 	var names []string
 	for _, e := range entries {

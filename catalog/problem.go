@@ -115,8 +115,8 @@ func sortProblems(ps Problems) {
 	})
 }
 
-// asError returns ps as an error, or nil when it is empty.
-func (ps Problems) asError() error {
+// AsError returns ps as an error, or nil when it is empty.
+func (ps Problems) AsError() error {
 	if len(ps) == 0 {
 		return nil
 	}

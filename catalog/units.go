@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -72,6 +73,14 @@ var prefixes = map[string]float64{
 	"f": 1e-15, "p": 1e-12, "n": 1e-9, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
 	"m": 1e-3, "k": 1e3, "M": 1e6, "G": 1e9,
 }
+
+// celsiusUnits are the spellings of °C (no prefix is taken), also as the
+// denominator of an offset drift (uV/C).
+var celsiusUnits = []string{"C", "°C", "degC", "℃"}
+
+// noiseRoots are the spellings of the square root in a noise density's
+// unit: rtHz, √Hz, sqrtHz, sqrt(Hz).
+var noiseRoots = []string{"rt", "√", "sqrt"}
 
 // baseUnits maps every accepted spelling of a prefix-free unit to its dimension.
 var baseUnits = map[string]Dim{
@@ -261,7 +270,8 @@ func parseUnit(u string, want Dim) (scale float64, d Dim, ok bool) {
 		return 1e-6, Ratio, true
 	case "dB":
 		return 1, Decibel, true
-	case "C", "°C", "degC", "℃":
+	}
+	if slices.Contains(celsiusUnits, u) {
 		return 1, Celsius, true
 	}
 	num, den, slash := strings.Cut(u, "/")
@@ -275,10 +285,10 @@ func parseUnit(u string, want Dim) (scale float64, d Dim, ok bool) {
 	}
 	den = strings.TrimSpace(den)
 	if nd == Volt {
-		switch den {
-		case "K", "C", "°C", "degC", "℃":
+		switch {
+		case den == "K" || slices.Contains(celsiusUnits, den):
 			return ns, VoltPerKelvin, true
-		case "V":
+		case den == "V":
 			return ns, gainRatio, true
 		}
 	}
@@ -311,7 +321,7 @@ func parseUnit(u string, want Dim) (scale float64, d Dim, ok bool) {
 // noiseRoot recognises "rtHz", "√Hz", "sqrtHz", "sqrt(Hz)" and returns the
 // unit under the root.
 func noiseRoot(den string) (string, bool) {
-	for _, p := range []string{"rt", "√", "sqrt"} {
+	for _, p := range noiseRoots {
 		if rest, ok := strings.CutPrefix(den, p); ok {
 			rest = strings.TrimSuffix(strings.TrimPrefix(rest, "("), ")")
 			return rest, true

@@ -62,6 +62,9 @@ func (m *Model) updateLoad(msg tea.Msg) tea.Cmd {
 		}
 		m.setCatalog(msg.cat)
 		m.setMessage("read %s", plural(len(msg.cat.Parts), "part"))
+		if ps := msg.cat.Problems(); len(ps) > 0 {
+			m.setError(fmt.Errorf("catalog: %w (parts with problems are set aside; see opsift check)", firstProblem(ps)))
+		}
 		return m.rerank()
 	}
 	return nil

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"strings"
 	"sync/atomic"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -190,7 +191,7 @@ func New(cfg Config) *Model {
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
 	if cfg.CatalogErr != nil {
-		m.setError(fmt.Errorf("catalog: %w (parts with problems are left out; see opsift check)", firstProblem(cfg.CatalogErr)))
+		m.setError(fmt.Errorf("catalog: %w (parts with problems are set aside; see opsift check)", firstProblem(cfg.CatalogErr)))
 	} else if m.planErr != nil {
 		m.setError(m.planErr)
 	} else if cfg.SettingsErr != nil {
@@ -345,6 +346,26 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	}
 	m.cat = cs
 	m.narrow.keepValid(m.cat.techs, m.cat.pkgs)
+}
+
+// setAsideBanner is the status line's count of what the catalog load set
+// aside for problems ("1 set aside", "2 set aside, 1 file not read"), or
+// "" when nothing was.
+func setAsideBanner(c *catalog.Catalog) string {
+	if c == nil || len(c.SetAside) == 0 {
+		return ""
+	}
+	var out []string
+	if n := c.PartsSetAside(); n > 0 {
+		out = append(out, fmt.Sprintf("%d set aside", n))
+	}
+	if n := c.FilesSetAside(); n > 0 {
+		out = append(out, plural(n, "file")+" not read")
+	}
+	if len(out) == 0 {
+		out = append(out, plural(len(c.SetAside), "catalog problem"))
+	}
+	return strings.Join(out, ", ")
 }
 
 // setMessage puts a message on the status line.

@@ -180,8 +180,10 @@ func (m *Model) reload(why string) tea.Cmd {
 
 // adoptCatalog installs a reloaded catalog, keeping the selection and the
 // shortlist (marks of parts that are gone are dropped and counted). A
-// catalog with problems is not taken: the one in force stays, so a typo
-// being typed in an editor does not empty the list.
+// catalog the loader refused (Config.Load applies the strict or partial
+// rule: a source gone, no valid part left, any problem under
+// --strict-catalog) is not taken: the one in force stays, so a file
+// being rewritten does not empty the list.
 //
 // Reads can overlap (a slow file system, a key pressed during a watched
 // reload): the newest read wins, and the result of one older than the
@@ -202,6 +204,9 @@ func (m *Model) adoptCatalog(r reloadedMsg) tea.Cmd {
 	}
 	gone := m.marks.prune(func(id string) bool { return ids[id] })
 	msg := fmt.Sprintf("%s: %s", r.why, plural(len(r.cat.Parts), "part"))
+	if b := setAsideBanner(r.cat); b != "" {
+		msg += fmt.Sprintf(" (%s for problems; see opsift check)", b)
+	}
 	if gone > 0 {
 		msg += fmt.Sprintf("; %s left the shortlist (no longer in the catalog)", plural(gone, "part"))
 	}

@@ -124,6 +124,9 @@ func (m *Model) statusView(w int) string {
 		b.WriteString(" · " + st.Warning.Render("⚠ "+plural(n, "warning")))
 	}
 	left := st.Status.Render(b.String())
+	if banner := setAsideBanner(m.cat.Catalog); banner != "" {
+		left += st.Error.Render(" · " + banner)
+	}
 	if m.message != "" {
 		msg := st.Message.Render(m.message)
 		if m.msgErr {

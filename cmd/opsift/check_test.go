@@ -144,7 +144,7 @@ func TestCheckUsage(t *testing.T) {
 func TestLoadCatalogErrorLines(t *testing.T) {
 	bad := filepath.Join("..", "..", "testdata", "bad")
 	e := &env{getenv: func(string) string { return "" }}
-	_, err := loadCatalog(e, []string{bad})
+	_, err := loadCatalog(e, []string{bad}, true)
 	if err == nil {
 		t.Fatal("invalid catalog loaded")
 	}

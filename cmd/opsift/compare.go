@@ -8,12 +8,11 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/compare"
-	"github.com/opsift/opsift/filter/replace"
 	"github.com/opsift/opsift/filter/report"
 )
 
 const compareUsage = `Usage: opsift compare PART-ID PART-ID... [--design FILE] [--catalog PATH]...
-                     [--format table|md|json|csv] [--strict] [--bom] [--no-cache] [-o FILE [--force]]
+                     [--format table|md|json|csv] [--strict] [--bom] [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Lay 2 to 6 parts side by side for a design: one row per worst-case
 figure (the value the design's policy gives, with its basis: unmarked
@@ -21,7 +20,9 @@ guaranteed, ~ typical, g read off a graph) and one per design check (the margin)
 best value of each row marked ◆ (md: bold and ◆; csv: a best column; json:
 "best"). Rows whose differences decide the choice come first: checks some
 of the parts fail, then checks and figures by how far apart they lie.
-Part ids are those of the catalog: opsift list shows them all.
+Part ids are those of the catalog: opsift list shows them all. Parts with
+problems are set aside (listed on stderr) unless --strict-catalog refuses
+the catalog; exit status as for rank.
 
 Options:
 `
@@ -35,7 +36,9 @@ type compareFlags struct {
 	design   string
 	format   string
 	strict   bool
-	output   outputFlags
+	// strictCatalog refuses the catalog on any problem.
+	strictCatalog bool
+	output        outputFlags
 }
 
 func runCompare(e *env, args []string) error {
@@ -45,6 +48,7 @@ func runCompare(e *env, args []string) error {
 	fset.StringVar(&f.design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.StringVar(&f.format, "format", "table", "output format: table, md, json or csv")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	f.output.register(fset)
 	f.output.registerBOM(fset)
 	ids, err := replaceParseArgs(fset, args)
@@ -62,11 +66,11 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return inputError(err)
 	}
-	cat, err := loadCatalog(e, f.catalogs)
+	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog)
 	if err != nil {
 		return err
 	}
-	parts, err := compareParts(ids, cat.Parts)
+	parts, err := compareParts(ids, cat)
 	if err != nil {
 		return err
 	}
@@ -91,7 +95,7 @@ func runCompare(e *env, args []string) error {
 // compareParts looks every id up in the catalog; an unknown id is a usage
 // error naming it, with the nearest ids (or where to find them), and an
 // id given twice is refused.
-func compareParts(ids []string, all []*catalog.Part) ([]*catalog.Part, error) {
+func compareParts(ids []string, cat *catalog.Catalog) ([]*catalog.Part, error) {
 	var parts []*catalog.Part
 	seen := map[string]bool{}
 	for _, id := range ids {
@@ -99,9 +103,9 @@ func compareParts(ids []string, all []*catalog.Part) ([]*catalog.Part, error) {
 			return nil, usageError("compare: part %q given twice", safe.Text(id))
 		}
 		seen[id] = true
-		p, err := replace.Lookup(id, all)
+		p, err := lookupPart(cat, id)
 		if err != nil {
-			return nil, usageError("compare: %w", err)
+			return nil, withPrefix("compare", err)
 		}
 		parts = append(parts, p)
 	}

@@ -6,6 +6,8 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+
+	"github.com/opsift/opsift/filter/schema"
 )
 
 const initUsage = `Usage: opsift init [DIR]
@@ -15,6 +17,11 @@ directory):
 
   DIR/catalog.d/example.toml   three invented parts, every key explained
   DIR/design.toml              a one-stage design using the design keys
+  DIR/opsift-catalog.schema.json, DIR/opsift-design.schema.json
+                               JSON Schemas of both formats, which the two
+                               files name on their first line (#:schema) so
+                               a TOML language server checks and completes
+                               keys while you edit
 
 Existing files are never overwritten: if either file exists, nothing is
 written.
@@ -33,9 +40,19 @@ func runInit(e *env, args []string) error {
 		dir = fset.Arg(0)
 	}
 	catDir := filepath.Join(dir, "catalog.d")
+	catSchema, err := schemaText("catalog")
+	if err != nil {
+		return err
+	}
+	designSchema, err := schemaText("design")
+	if err != nil {
+		return err
+	}
 	files := []struct{ path, text string }{
 		{filepath.Join(catDir, "example.toml"), starterCatalog},
 		{filepath.Join(dir, "design.toml"), starterDesign},
+		{filepath.Join(dir, catalogSchemaFile), catSchema},
+		{filepath.Join(dir, designSchemaFile), designSchema},
 	}
 	// Refuse before writing anything, so init never leaves half a starter.
 	for _, f := range files {
@@ -55,12 +72,13 @@ func runInit(e *env, args []string) error {
 	}
 	fmt.Fprintf(e.stdout, `wrote %s
 wrote %s
+wrote %s and %s (editors with a TOML language server check keys against them)
 
 Next:
   edit the parts in %s (the figures are invented examples)
   opsift check --catalog %s
   opsift --catalog %s --design %s
-`, files[0].path, files[1].path, files[0].path, catDir, catDir, files[1].path)
+`, files[0].path, files[1].path, files[2].path, files[3].path, files[0].path, catDir, catDir, files[1].path)
 	return nil
 }
 
@@ -105,4 +123,21 @@ func writeNewFile(path string, data []byte) (err error) {
 		return fmt.Errorf("%s already exists; not overwriting it", path)
 	}
 	return os.Rename(name, path)
+}
+
+// The schema files init writes beside design.toml and catalog.d
+// (schema.FileName; init_test.go checks they agree).
+const (
+	catalogSchemaFile = "opsift-catalog.schema.json"
+	designSchemaFile  = "opsift-design.schema.json"
+)
+
+// schemaText is the JSON Schema called name, as init writes it.
+func schemaText(name string) (string, error) {
+	s, err := schema.ByName(name)
+	if err != nil {
+		return "", err
+	}
+	b, err := schema.Marshal(s)
+	return string(b), err
 }

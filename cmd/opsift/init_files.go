@@ -7,12 +7,17 @@ import "strings"
 // opsift check (init_test.go checks it does).
 
 // starterCatalog is DIR/catalog.d/example.toml.
-const starterCatalog = `# opsift catalog: op-amp parameter sets, one [[part]] table each.
+const starterCatalog = `#:schema ../` + catalogSchemaFile + `
+# opsift catalog: op-amp parameter sets, one [[part]] table each.
 #
 # Put your own parts in this directory (any number of *.toml files; they are
 # read in name order) and check them with:
 #
 #     opsift check --catalog catalog.d
+#
+# The first line points editors with a TOML language server (taplo, Even
+# Better TOML) at the schema opsift init wrote beside catalog.d, so keys
+# are completed and checked as you type; opsift schema catalog prints it.
 #
 # The parts below are INVENTED examples of their class, to show the keys.
 # Replace them with figures from the current manufacturer datasheet of the
@@ -141,13 +146,15 @@ notes = "Invented example; nrnd shows a part you would not pick for a new design
 var cautionComment = commentLines("CAUTION: "+caution, 76)
 
 // starterDesign is DIR/design.toml. It carries the full caution.
-var starterDesign = `# opsift design: what the circuit needs from the op-amp.
+var starterDesign = `#:schema ./` + designSchemaFile + `
+# opsift design: what the circuit needs from the op-amp.
 #
 #     opsift derive --design design.toml            the requirements, with formulas
 #     opsift rank   --design design.toml --catalog catalog.d
 #     opsift --catalog catalog.d --design design.toml   the interactive selector
 #
-# Values are strings with units, as in the catalog.
+# Values are strings with units, as in the catalog. The first line points
+# editors with a TOML language server at the schema beside this file.
 #
 ` + cautionComment + `
 

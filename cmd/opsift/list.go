@@ -12,7 +12,7 @@ import (
 
 const listUsage = `Usage: opsift list [--catalog PATH]... [--design FILE] [--columns KEY,KEY...]
                   [--sort [-]KEY] [--typical] [--format table|csv|json|md] [--bom]
-                  [--no-cache] [-o FILE [--force]]
+                  [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 List every part of the catalog with the figures you choose, side by side,
 sorted by any of them (-KEY sorts descending; parts lacking the figure come
@@ -25,7 +25,8 @@ without it they are at 25 °C with the default policy, and no verdict.
 its basis: guaranteed (unmarked in table and md), typical (~) or read from a
 graph (g). Formats: table, csv (SI numbers, a basis column per figure, the
 caution in the last column; --bom starts it with a UTF-8 byte-order mark
-for spreadsheets), json (SI units), md.
+for spreadsheets), json (SI units), md. Parts with problems
+are set aside (listed on stderr) unless --strict-catalog refuses the catalog.
 
 Columns (default ` + "gbw,slew,vos,ib,en,iq,supply.min,supply.max,unit_cost" + `):
 %s
@@ -49,7 +50,9 @@ func runList(e *env, args []string) error {
 		sortKey  string
 		format   string
 		typical  bool
-		output   outputFlags
+		// strictCatalog refuses the catalog on any problem.
+		strictCatalog bool
+		output        outputFlags
 	)
 	fset := newFlagSet(e, "list", fmt.Sprintf(listUsage, listColumnsHelp()))
 	catalogFlags(fset, e, &catalogs)
@@ -58,6 +61,7 @@ func runList(e *env, args []string) error {
 	fset.StringVar(&sortKey, "sort", "id", "column key, id or name to sort by; -KEY for descending")
 	fset.StringVar(&format, "format", "table", "output format: table, csv, json or md")
 	fset.BoolVar(&typical, "typical", false, "show the catalog's typical figures instead of the worst case")
+	fset.BoolVar(&strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	output.register(fset)
 	output.registerBOM(fset)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
@@ -90,7 +94,7 @@ func runList(e *env, args []string) error {
 			return inputError(err)
 		}
 	}
-	cat, err := loadCatalog(e, catalogs)
+	cat, err := loadCatalog(e, catalogs, strictCatalog)
 	if err != nil {
 		return err
 	}

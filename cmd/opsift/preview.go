@@ -12,7 +12,6 @@ import (
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/preview"
-	"github.com/opsift/opsift/filter/replace"
 	"github.com/opsift/opsift/filter/report"
 	"github.com/opsift/opsift/filter/sim"
 	"github.com/opsift/opsift/tui/plot"
@@ -20,7 +19,7 @@ import (
 
 const previewUsage = `Usage: opsift preview PART-ID [--design FILE] [--stage NAME] [--catalog PATH]...
                       [--typical] [--format text|json] [--width N] [--height N] [--points N]
-                      [--no-cache] [-o FILE [--force]]
+                      [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Simulate PART-ID in one stage of the design and show the settled waveform
 beside the ideal op-amp's: output and ideal peak-to-peak, peak error, THD,
@@ -30,6 +29,8 @@ same worst-case figures the margins use (--typical: the catalog's typical
 figures on the nominal rails). Without --design, the embedded demo design;
 without --stage, its first stage that has a waveform (direct and
 rail_splitter stages have none). JSON is in SI units: V, s, Hz, fractions.
+Parts with problems are set aside (listed on stderr) unless --strict-catalog
+refuses the catalog; exit status as for rank.
 
 Options:
 `
@@ -43,6 +44,7 @@ type previewFlags struct {
 	format        string
 	width, height int
 	points        int
+	strictCatalog bool // refuse the catalog on any problem
 	output        outputFlags
 }
 
@@ -68,6 +70,7 @@ func runPreview(e *env, args []string) error {
 	fset.IntVar(&f.width, "width", 0, "plot width in columns (default: $COLUMNS, else 80)")
 	fset.IntVar(&f.height, "height", previewDefaultHeight, "plot height in lines")
 	fset.IntVar(&f.points, "points", 0, "largest number of samples in the t, in, out, ideal arrays (default 2000)")
+	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	f.output.register(fset)
 	pos, err := replaceParseArgs(fset, args)
 	if helped, err := flagResult(e, fset, err); helped || err != nil {
@@ -91,13 +94,13 @@ func runPreview(e *env, args []string) error {
 		f.width = min(max(e.columns(previewDefaultWidth), 20), previewMaxWidth)
 	}
 
-	cat, err := loadCatalog(e, f.catalogs)
+	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog)
 	if err != nil {
 		return err // already an input error (exit status 2)
 	}
-	part, err := replace.Lookup(pos[0], cat.Parts)
+	part, err := lookupPart(cat, pos[0])
 	if err != nil {
-		return usageError("preview: %w", err)
+		return withPrefix("preview", err)
 	}
 	design, plan, err := deriveDesign(f.design)
 	if err != nil {

@@ -9,7 +9,7 @@ import (
 
 const rankUsage = `Usage: opsift rank [--design FILE] [--catalog PATH]... [--format table|csv|json|md|toml]
                   [--all] [--top N] [--sort KEY] [--strict] [--no-headroom] [--headroom N] [--bom]
-                  [--no-cache] [-o FILE [--force]]
+                  [--strict-catalog] [--no-cache] [-o FILE [--force]]
 
 Evaluate every part of the catalog against the design at worst case and
 rank the ones that pass by their smallest margin (the binding requirement
@@ -26,6 +26,13 @@ some read µ, ° and √ wrongly). Tables are fitted to the terminal
 symlink's target is replaced, devices and FIFOs are refused (except
 /dev/stdout), a read-only file only with --force.
 
+A part with a problem (or a file that is not valid TOML) is set aside and
+the rest is ranked: the set-aside parts are listed on stderr and in the
+json and md documents. --strict-catalog refuses the whole catalog instead.
+Exit status 0 (also when no part passes or parts were set aside); 2 for bad
+usage, an unreadable or invalid design, a catalog source that cannot be
+read, no valid part left, or any catalog problem with --strict-catalog.
+
 Options:
 `
 
@@ -40,7 +47,9 @@ type rankFlags struct {
 	strict   bool
 	noHead   bool
 	headTop  int
-	output   outputFlags
+	// strictCatalog refuses the catalog on any problem.
+	strictCatalog bool
+	output        outputFlags
 }
 
 func runRank(e *env, args []string) error {
@@ -53,6 +62,7 @@ func runRank(e *env, args []string) error {
 	fset.IntVar(&f.top, "top", 0, "list at most N candidates (0: all)")
 	fset.StringVar(&f.sort, "sort", "margin", "sort key: margin, cost, supply_current, fmax or id")
 	fset.BoolVar(&f.strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	fset.BoolVar(&f.noHead, "no-headroom", false, "leave each candidate's headroom out of json and md (faster on a long list)")
 	fset.IntVar(&f.headTop, "headroom", defaultHeadroomTop, "search headroom for the first N passing candidates in json and md (0: all; the rest carry null)")
 	f.output.register(fset)
@@ -78,14 +88,14 @@ func runRank(e *env, args []string) error {
 	if err != nil {
 		return inputError(err)
 	}
-	cat, err := loadCatalog(e, f.catalogs) // its errors carry exit status 2
+	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog) // its errors carry exit status 2
 	if err != nil {
 		return err
 	}
 	results := filter.Evaluate(plan, cat.Parts, filter.Options{Strict: f.strict})
 	filter.Rank(results, key)
 	doc := &report.Doc{Plan: plan, Results: results, Sort: key, All: f.all, Top: f.top, Strict: f.strict, NoHeadroom: f.noHead, HeadroomTop: f.headTop,
-		Sources: cat.Sources, Width: e.tableWidth(f.output.out != ""), Meta: meta(e, f.design, d, cat, f.strict)}
+		Sources: cat.Sources, SetAside: cat.SetAside, Width: e.tableWidth(f.output.out != ""), Meta: meta(e, f.design, d, cat, f.strict)}
 	doc.Meta.Warnings = filter.FilterWarnings(plan, cat.Parts)
 	doc.Color = f.output.out == "" && format == report.Table && e.isTTY && e.getenv("NO_COLOR") == ""
 	var buf bytes.Buffer

@@ -19,7 +19,8 @@ import (
 var replaceFormats = []string{"table", "json", "md", "csv"}
 
 const replaceUsage = `Usage: opsift replace PART-ID [--catalog PATH]... [--design FILE] [--format table|json|md|csv]
-                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--bom] [--no-cache] [-o FILE [--force]]
+                      [--all] [--top N] [--obsolete] [--over-temp] [--strict] [--strict-catalog] [--bom]
+                      [--no-cache] [-o FILE [--force]]
 
 List the parts that can take PART-ID's place: drop-ins (same pinout family,
 a package in common, at least as many channels) first, then parts that need
@@ -31,7 +32,9 @@ case and the passing ones are ranked by their smallest margin; regressions
 are then warnings. A table written to a terminal lists a screenful of
 candidates ($LINES rows, else 24, less the header); --top N lists at most N,
 --top 0 all. The other formats and files list every candidate unless --top
-is given.
+is given. Parts with problems
+are set aside (listed on stderr) unless --strict-catalog refuses the catalog;
+exit status as for rank.
 
 Options:
 `
@@ -46,7 +49,9 @@ type replaceFlags struct {
 	overTemp bool
 	strict   bool
 	top      int
-	output   outputFlags
+	// strictCatalog refuses the catalog on any problem.
+	strictCatalog bool
+	output        outputFlags
 }
 
 func runReplace(e *env, args []string) error {
@@ -59,6 +64,7 @@ func runReplace(e *env, args []string) error {
 	fs.BoolVar(&f.obsolete, "obsolete", false, "list obsolete parts as candidates too")
 	fs.BoolVar(&f.overTemp, "over-temp", false, "compare over-temperature limits (min_ot, max_ot) where both parts give them")
 	fs.BoolVar(&f.strict, "strict", false, "with --design, a check whose figure the catalog lacks fails")
+	fs.BoolVar(&f.strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	fs.IntVar(&f.top, "top", -1, "list at most N candidates (0: all; default: a screenful for a table on a terminal, else all)")
 	f.output.register(fs)
 	f.output.registerBOM(fs)
@@ -79,14 +85,14 @@ func runReplace(e *env, args []string) error {
 		return usageError("replace: --format %q: want one of %s", f.format, strings.Join(replaceFormats, ", "))
 	}
 
-	cat, err := loadCatalog(e, f.catalogs)
+	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog)
 	if err != nil {
 		return err // already an input error (exit status 2)
 	}
 	parts := cat.Parts
-	orig, err := replace.Lookup(pos[0], parts)
+	orig, err := lookupPart(cat, pos[0])
 	if err != nil {
-		return usageError("replace: %w", err)
+		return withPrefix("replace", err)
 	}
 	opts := replace.Options{IncludeObsolete: f.obsolete, OverTemperature: f.overTemp}
 	var design *filter.Design

@@ -25,6 +25,8 @@ func commands() []command {
 		{"compare", "lay 2 to 6 parts side by side for a design", runCompare},
 		{"preview", "simulate a part in a design's stage and plot it", runPreview},
 		{"init", "write a starter catalog and design to edit", runInit},
+		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
+		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
 	}
 }
 
@@ -76,7 +78,13 @@ Catalog sources: --catalog FILE|DIR (repeatable; later overrides earlier by id).
 Without --catalog: $XDG_CONFIG_HOME/opsift/catalog.d (else ~/.config/opsift/catalog.d)
 if it exists, else the embedded demo catalog. Without --design: the embedded demo design.
 
-Exit status: 0 success; 1 check found problems; 2 bad usage or an unreadable or invalid input file.
+Parts with problems are set aside with a warning and the rest is used;
+--strict-catalog (rank, replace, preview, selector) refuses the catalog instead.
+
+Exit status: 0 success (also with parts set aside); 1 check found problems;
+2 bad usage, an unreadable or invalid design, a catalog that cannot be read
+or has no valid part (with --strict-catalog: any catalog problem), or an
+output file that cannot be written.
 
 Caution: ` + caution + "\n")
 	return b.String()

@@ -16,7 +16,7 @@ import (
 	"github.com/opsift/opsift/tui"
 )
 
-const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--no-cache]
+const selectorUsage = `Usage: opsift [--catalog PATH]... [--design FILE] [--strict] [--strict-catalog] [--no-cache]
 
 The interactive selector: edit the design's inputs and watch the derived
 requirements, the ranking and every candidate's margins follow at once.
@@ -25,6 +25,10 @@ the edited design in place, keeping its comments; q asks before unsaved
 edits are lost, and a change to the design file on disk is offered, never
 overwritten unasked. R finds replacements for a part, v shows its
 waveform. Press ? inside for every key.
+
+Parts with problems are set aside (the status line counts them; opsift
+check lists them) and the rest is ranked; --strict-catalog refuses the
+whole catalog instead, at start and on every reload.
 
 Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
 
@@ -37,11 +41,14 @@ func runSelector(e *env, args []string) error {
 		catalogs pathList
 		design   string
 		strict   bool
+		// strictCatalog refuses the catalog on any problem.
+		strictCatalog bool
 	)
 	fset := newFlagSet(e, "opsift", selectorUsage)
 	catalogFlags(fset, e, &catalogs)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
+	fset.BoolVar(&strictCatalog, "strict-catalog", false, strictCatalogHelp)
 	if helped, err := parseFlags(e, fset, args); helped || err != nil {
 		return err
 	}
@@ -57,7 +64,7 @@ func runSelector(e *env, args []string) error {
 	}
 	layers := catalogLayers(e, catalogs)
 	if !e.isTTY {
-		if _, err := openCatalog(e, catalogs); err != nil {
+		if _, err := openCatalog(e, catalogs, strictCatalog); err != nil {
 			return err // a bad catalog is named first, as with a terminal
 		}
 		return usageError("the interactive selector needs a terminal; for scripts use opsift rank")
@@ -106,7 +113,10 @@ func runSelector(e *env, args []string) error {
 			}
 			return catalog.Progress{}
 		},
-		Load:     func() (*catalog.Catalog, error) { return loader.Load(layers...) },
+		Load: func() (*catalog.Catalog, error) {
+			c, err := loader.Load(layers...)
+			return c, acceptCatalog(c, err, strictCatalog)
+		},
 		OnDisk:   onDisk,
 		Watch:    true,
 		Strict:   strict,

@@ -9,8 +9,10 @@ import (
 	"time"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/replace"
 	"github.com/opsift/opsift/filter/report"
 )
 
@@ -109,13 +111,21 @@ func catalogLayers(e *env, paths []string) []catalog.Layer {
 	return layers
 }
 
-// loadCatalog loads the catalog a command reads parts from. An unreadable
-// or invalid catalog is an input error (exit status 2), printed one
-// problem per line. The catalog's notes (a part overriding one of an
-// earlier source, a source without files) go to stderr as "opsift: note:
-// …", at most maxShown of them, so that stdout stays the document.
-func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
-	c, err := openCatalog(e, paths)
+// strictCatalogHelp is the --strict-catalog flag's help, the same for
+// every command that reads parts.
+const strictCatalogHelp = "refuse the whole catalog when any part or file has a problem (default: set those aside and use the rest)"
+
+// loadCatalog loads the catalog a command reads parts from. Parts and
+// files with problems are set aside and the rest is used, the set-aside
+// ones listed on stderr as a warning (see warnSetAside); the catalog is
+// refused — an input error, exit status 2, one problem per line — when
+// strict is set and anything has a problem, when a source cannot be read
+// at all, or when no valid part is left. The catalog's notes (a part
+// overriding one of an earlier source, a source without files) go to
+// stderr as "opsift: note: …", at most maxShown of them, so that stdout
+// stays the document.
+func loadCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) {
+	c, err := openCatalog(e, paths, strict)
 	if err != nil {
 		return nil, err
 	}
@@ -126,17 +136,57 @@ func loadCatalog(e *env, paths []string) (*catalog.Catalog, error) {
 		}
 		fmt.Fprintf(e.stderr, "opsift: note: %s\n", n)
 	}
+	warnSetAside(e.stderr, c, paths)
 	return c, nil
 }
 
-// openCatalog is loadCatalog without the notes, for the selector, which
-// shows the catalog itself.
-func openCatalog(e *env, paths []string) (*catalog.Catalog, error) {
+// openCatalog is loadCatalog without the notes and the warning, for the
+// selector, which shows the catalog itself.
+func openCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) {
 	c, err := e.readCatalog(catalogLayers(e, paths))
-	if err != nil {
+	if err := acceptCatalog(c, err, strict); err != nil {
 		return nil, inputError(newCatalogError(err, paths))
 	}
 	return c, nil
+}
+
+// acceptCatalog is the error a load's result is refused with, or nil:
+// with strict any problem refuses it, else catalog.Partial decides.
+func acceptCatalog(c *catalog.Catalog, err error, strict bool) error {
+	if strict {
+		return err
+	}
+	return catalog.Partial(c, err)
+}
+
+// warnSetAside tells on w what the load set aside: a summary line, then
+// each problem as "opsift: FILE:LINE: …" (at most maxShown, then a
+// pointer to check), and for a set-aside part whose id an earlier source
+// gives validly, which one is used instead.
+func warnSetAside(w io.Writer, c *catalog.Catalog, paths []string) {
+	if len(c.SetAside) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "opsift: warning: %s; %s in use (--strict-catalog refuses the catalog instead)\n",
+		c.SetAsideSummary(), plural(len(c.Parts), "valid part"))
+	shown, total := 0, 0
+	for _, s := range c.SetAside {
+		total += s.Problems.Count()
+		for _, p := range s.Problems {
+			if shown < maxShown {
+				fmt.Fprintf(w, "opsift: %s\n", safe.Text(p.Error()))
+			}
+			shown++
+		}
+	}
+	if total > maxShown {
+		fmt.Fprintf(w, "opsift: … and %d more catalog problems (see %s)\n", total-maxShown, checkHint(paths))
+	}
+	for _, s := range c.SetAside {
+		if s.InUse != "" {
+			fmt.Fprintf(w, "opsift: warning: %s is set aside; the one from %s is used instead\n", s.Subject(), safe.Text(s.InUse))
+		}
+	}
 }
 
 // maxShown is how many catalog problems a command other than check prints
@@ -171,6 +221,22 @@ func (c *catalogError) Error() string {
 
 // Unwrap returns the catalog's Problems, for errors.As.
 func (c *catalogError) Unwrap() error { return c.err }
+
+// lookupPart finds the part id names in the catalog, as replace.Lookup
+// does; a part that was set aside for problems is named as such, with its
+// first problem, rather than as unknown.
+func lookupPart(c *catalog.Catalog, id string) (*catalog.Part, error) {
+	p, err := replace.Lookup(id, c.Parts)
+	if err == nil {
+		return p, nil
+	}
+	for _, s := range c.SetAside {
+		if s.ID == id && len(s.Problems) > 0 {
+			return nil, inputError(fmt.Errorf("part %q is set aside for problems: %w", id, s.Problems[0]))
+		}
+	}
+	return nil, err
+}
 
 // meta says what an output is made from: this program's version, the
 // time, the design file (the embedded demo design named as such) and the

@@ -7,6 +7,7 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
@@ -27,6 +28,34 @@ type jsonRank struct {
 	Passing      int               `json:"passing"`
 	Requirements []jsonRequirement `json:"requirements"`
 	Candidates   []jsonCandidate   `json:"candidates"`
+	// SetAside lists the catalog's parts and files left out for problems.
+	SetAside []jsonSetAside `json:"set_aside"`
+}
+
+// jsonSetAside is one part or file the catalog load left out.
+type jsonSetAside struct {
+	Kind     string   `json:"kind"` // "part" or "file"
+	ID       string   `json:"id,omitempty"`
+	File     string   `json:"file"`
+	Line     int      `json:"line,omitempty"`
+	Problems []string `json:"problems"`
+	InUse    string   `json:"in_use,omitempty"` // where the valid part with the same id used instead is written
+}
+
+// jsonSetAsides renders the set-aside entries of a document.
+func jsonSetAsides(ss []catalog.SetAside) []jsonSetAside {
+	out := make([]jsonSetAside, 0, len(ss))
+	for _, s := range ss {
+		j := jsonSetAside{Kind: "part", ID: s.ID, File: s.Pos.File, Line: s.Pos.Line, InUse: s.InUse}
+		if s.IsFile() {
+			j.Kind = "file"
+		}
+		for _, p := range s.Problems {
+			j.Problems = append(j.Problems, p.Error())
+		}
+		out = append(out, j)
+	}
+	return out
 }
 
 type jsonRequirement struct {
@@ -190,7 +219,7 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 	p := doc.Plan
 	out := jsonRank{JSONMeta: NewJSONMeta(doc.Meta, p), Title: p.Title, Caution: Caution, Sort: sortName(doc.Sort),
 		Strict: doc.Strict, Parts: len(doc.Results), Passing: doc.Passing(),
-		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}}
+		Requirements: jsonRequirements(p), Candidates: []jsonCandidate{}, SetAside: jsonSetAsides(doc.SetAside)}
 	doc.prepareHeadroom()
 	for _, r := range doc.Listed() {
 		c := jsonCandidate{ID: r.Part.ID, Name: r.Part.Name, Datasheet: r.Part.Datasheet, Pass: r.Pass, WorstMargin: opt(present.ShownMargin(r)),

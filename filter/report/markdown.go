@@ -44,6 +44,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 	if len(doc.Sources) > 0 {
 		fmt.Fprintf(b, "- Catalog: %s\n", mdText(strings.Join(doc.Sources, ", ")))
 	}
+	writeSetAsideMD(b, doc.SetAside)
 	b.WriteString("\n## Requirements\n\n| Stage | Requirement | Need | Formula |\n|---|---|---|---|\n")
 	reqs := p.Requirements()
 	for i := range reqs {
@@ -188,4 +189,21 @@ func summaryLines(p *filter.Plan) []string {
 		out = append(out, line)
 	}
 	return out
+}
+
+// writeSetAsideMD lists the parts and files the catalog load left out,
+// so a review sees what the ranking did not consider.
+func writeSetAsideMD(b *bufio.Writer, ss []catalog.SetAside) {
+	if len(ss) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "\n## Set aside\n\nThese catalog entries have problems and were left out of the ranking (`opsift check` lists them):\n\n")
+	for _, s := range ss {
+		for _, p := range s.Problems {
+			fmt.Fprintf(b, "- %s\n", mdText(p.Error()))
+		}
+		if s.InUse != "" {
+			fmt.Fprintf(b, "- %s: the one from %s is used instead\n", mdText(s.Subject()), mdText(s.InUse))
+		}
+	}
 }

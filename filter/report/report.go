@@ -68,6 +68,9 @@ type Doc struct {
 	Strict  bool // unknown checks counted as failures
 	// Sources names the catalog sources, for the document's header.
 	Sources []string
+	// SetAside lists the catalog's parts and files left out for problems
+	// (catalog.Catalog.SetAside), listed by the json and md documents.
+	SetAside []catalog.SetAside
 	// Meta says what the document was made from (version, date, design
 	// file, catalog hashes); the JSON and Markdown writers carry it.
 	Meta  *Meta
