@@ -234,6 +234,9 @@ func same(a, b float64) bool {
 const (
 	marginLow  = -1.0
 	marginHigh = 3.0
+	// minSpread is the spread of a check whose margins differ only beyond
+	// the clip.
+	minSpread = 1e-9
 )
 
 // rank sets the row's ordering group and spread.
@@ -293,7 +296,13 @@ func spread(r *Row, vals []float64) float64 {
 	switch {
 	case r.Kind == Check:
 		clip := func(v float64) float64 { return math.Min(marginHigh, math.Max(marginLow, v)) }
-		return clip(hi) - clip(lo)
+		if d := clip(hi) - clip(lo); d > 0 || same(hi, lo) {
+			return d
+		}
+		// Both beyond the clip yet different (+572 % against +4873 %):
+		// a difference, ranked after every close call but before the rows
+		// where the parts agree.
+		return minSpread
 	case r.Dim == catalog.Celsius:
 		return (hi - lo) / 100
 	case r.Dim == catalog.Volt && (r.Key != "vos" && r.Key != "vdiff_max" && r.Key != "supply_min" && r.Key != "supply_max"):

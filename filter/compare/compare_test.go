@@ -184,3 +184,30 @@ func TestPartCount(t *testing.T) {
 		}
 	}
 }
+
+// TestBeyondClipStillDiffers: two passing checks at +572 % and +4873 %
+// both clip to the +300 % ceiling, yet they differ, so the row ranks with
+// the checks that differ (group 1, spread above 0), not with the rows
+// where every part agrees (group 3); equal margins stay in group 3.
+func TestBeyondClipStillDiffers(t *testing.T) {
+	row := func(a, b float64) *Row {
+		return &Row{Kind: Check, Cells: []Cell{
+			{Known: true, V: a, Status: filter.StatusPass},
+			{Known: true, V: b, Status: filter.StatusPass}}}
+	}
+	r := row(5.72, 48.73)
+	rank(r)
+	if r.Group != 1 || !(r.Spread > 0) {
+		t.Errorf("+572 %% vs +4873 %%: group %d spread %g, want group 1 and a spread above 0", r.Group, r.Spread)
+	}
+	close := row(0.02, 0.30)
+	rank(close)
+	if !(close.Spread > r.Spread) {
+		t.Errorf("a close call (spread %g) should rank before a difference beyond the clip (%g)", close.Spread, r.Spread)
+	}
+	eq := row(48.73, 48.73)
+	rank(eq)
+	if eq.Group != 3 {
+		t.Errorf("equal margins: group %d, want 3", eq.Group)
+	}
+}
