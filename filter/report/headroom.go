@@ -11,17 +11,14 @@ import (
 
 // Headroom returns the headroom of a listed candidate (filter/headroom),
 // computed on first use and kept for the other writers of the same
-// document: only what is exported is ever searched. A failing candidate,
-// or a plan without its design, has none.
+// document: only what is exported is ever searched. A candidate the
+// document does not search (HeadroomSearched) has none.
 func (d *Doc) Headroom(r *filter.Result) []headroom.Limit {
-	if !r.Pass || d.NoHeadroom || d.Plan == nil || d.Plan.Design == nil {
+	if !d.HeadroomSearched(r) {
 		return nil
 	}
 	if ls, ok := d.headroom[r.Part]; ok {
 		return ls
-	}
-	if !d.headroomSearched(r) {
-		return nil
 	}
 	if d.headroom == nil {
 		d.headroom = map[*catalog.Part][]headroom.Limit{}
@@ -31,9 +28,27 @@ func (d *Doc) Headroom(r *filter.Result) []headroom.Limit {
 	return ls
 }
 
-// headroomSearched reports whether a listed passing candidate is among
-// the first HeadroomTop passing ones (every one when HeadroomTop is 0).
-func (d *Doc) headroomSearched(r *filter.Result) bool {
+// HeadroomSearched reports whether the document searches r's headroom:
+// r passes, headroom is on, the plan has its design, and r is within
+// HeadroomTop.
+func (d *Doc) HeadroomSearched(r *filter.Result) bool {
+	return r.Pass && d.headroomOn() && d.inHeadroomTop(r)
+}
+
+// HeadroomLeftOut reports whether r is a passing candidate whose headroom
+// would be searched but for HeadroomTop (the writers say so).
+func (d *Doc) HeadroomLeftOut(r *filter.Result) bool {
+	return r.Pass && d.headroomOn() && !d.inHeadroomTop(r)
+}
+
+// headroomOn reports whether the document carries headroom at all.
+func (d *Doc) headroomOn() bool {
+	return !d.NoHeadroom && d.Plan != nil && d.Plan.Design != nil
+}
+
+// inHeadroomTop reports whether a listed passing candidate is among the
+// first HeadroomTop passing ones (every one when HeadroomTop is 0).
+func (d *Doc) inHeadroomTop(r *filter.Result) bool {
 	if d.HeadroomTop <= 0 {
 		return true
 	}
@@ -51,21 +66,15 @@ func (d *Doc) headroomSearched(r *filter.Result) bool {
 	return d.headroomTop[r]
 }
 
-// HeadroomSearched reports whether the document searches r's headroom:
-// it passes, headroom is on, and r is within HeadroomTop.
-func (d *Doc) HeadroomSearched(r *filter.Result) bool {
-	return r.Pass && !d.NoHeadroom && d.Plan != nil && d.Plan.Design != nil && d.headroomSearched(r)
-}
-
 // prepareHeadroom computes the headroom of every listed candidate, the
 // candidates spread over the CPUs (each search is independent).
 func (d *Doc) prepareHeadroom() {
-	if d.NoHeadroom || d.Plan == nil || d.Plan.Design == nil {
+	if !d.headroomOn() {
 		return
 	}
 	var todo []*filter.Result
 	for _, r := range d.Listed() {
-		if _, ok := d.headroom[r.Part]; r.Pass && !ok && d.headroomSearched(r) {
+		if _, ok := d.headroom[r.Part]; !ok && d.HeadroomSearched(r) {
 			todo = append(todo, r)
 		}
 	}

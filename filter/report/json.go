@@ -226,8 +226,8 @@ func WriteJSON(w io.Writer, doc *Doc) error {
 			Packages: r.Packages, Cost: opt(r.Cost), SupplyCurrent: opt(r.SupplyCurrent),
 			FMax: map[string]*num{}, Failed: r.Failed, Unknown: r.Unknown, Checks: jsonChecks(r),
 			Headroom: jsonHeadrooms(doc.Headroom(r))}
-		if r.Pass && !doc.NoHeadroom && !doc.HeadroomSearched(r) {
-			c.Headroom = nil
+		if doc.HeadroomLeftOut(r) {
+			c.Headroom = nil // not searched, unlike a failing part's []
 		}
 		switch w := present.Worst(r); {
 		case w != nil:

@@ -99,7 +99,7 @@ func writeMarkdown(w io.Writer, doc *Doc) error {
 			fmt.Fprintf(b, "| %s | %s | %s | %s | %s | %s | %s | %s |\n", mdText(stageOrDesign(c.Req.Stage)), c.Req.Key,
 				mdText(CheckNeed(c)), mdText(Has(c, r.Part)), present.Margin(c.Margin), c.Status, c.Basis, mdText(c.Note))
 		}
-		if r.Pass && !doc.NoHeadroom && !doc.HeadroomSearched(r) {
+		if doc.HeadroomLeftOut(r) {
 			fmt.Fprintf(b, "\nHeadroom not searched: only the first %d passing candidates are (rank --headroom N; 0 searches all).\n", doc.HeadroomTop)
 			continue
 		}
