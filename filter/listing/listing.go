@@ -18,6 +18,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // Column is one column a listing can show.
@@ -162,28 +163,10 @@ func Columns() []Column {
 				if r.Result == nil {
 					return unknown()
 				}
-				return number(shownMargin(r.Result), filter.BasisNone)
+				return number(present.ShownMargin(r.Result), filter.BasisNone)
 			}},
 	)
 	return out
-}
-
-// shownMargin is the margin a row shows: a passing part's worst margin; a
-// failing part's worst miss (its most negative failing check), NaN when
-// it fails only on checks without a number (package, lifecycle, …), so a
-// failing part never shows the positive margin of a check it passes.
-func shownMargin(r *filter.Result) float64 {
-	if r.Pass {
-		return r.WorstMargin
-	}
-	miss := math.NaN()
-	for i := range r.Checks {
-		c := &r.Checks[i]
-		if !c.Pass && c.Status != filter.StatusUnknown && !math.IsNaN(c.Margin) && (math.IsNaN(miss) || c.Margin < miss) {
-			miss = c.Margin
-		}
-	}
-	return miss
 }
 
 func plain(c Column) Column {
