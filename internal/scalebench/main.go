@@ -98,7 +98,7 @@ func run(sizeList, keep, cpuFile, memFile string, genOnly bool) error {
 	}
 	fmt.Printf("opsift scale benchmark: %s/%s, %d CPUs (GOMAXPROCS %d), %s\n",
 		runtime.GOOS, runtime.GOARCH, runtime.NumCPU(), runtime.GOMAXPROCS(0), runtime.Version())
-	fmt.Printf("%-46s %-34s %8s  %-8s\n", "target", "measured", "ratio", "limit")
+	fmt.Printf("%-58s %-28s %8s  %-8s\n", "target", "measured", "ratio", "limit")
 	r := &report{}
 	for _, n := range sizes {
 		dir := filepath.Join(root, fmt.Sprintf("cat-%d", n))
