@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"sync/atomic"
 
 	"github.com/opsift/opsift/catalog"
 )
@@ -22,7 +23,10 @@ import (
 //     supply current), kept while the supply, environment, [choose],
 //     policy and number of stages stay the same;
 //   - each stage's checks, kept while that stage's inputs and the
-//     design-level inputs stay the same.
+//     design-level inputs stay the same;
+//   - each part's simulated checks (thd) of a stage, with that stage's
+//     checks: run in a second pass only for the parts that pass every
+//     closed-form check, and only once per part while the stage is kept.
 //
 // Its results are those of Evaluate with Options.Summary, bit for bit.
 // Work is split over the CPUs. Evaluate may be called from several
@@ -67,6 +71,11 @@ type cachedGroup struct {
 	sums []groupSum // nil when not evaluated
 	// totals of each part (design-level group only): packages, cost, current.
 	totals []partTotals
+	// nsim counts the stage's simulated checks; sims holds each part's
+	// sum of them, filled in by the second pass (simulated[k] says which).
+	nsim      int
+	sims      []groupSum
+	simulated []bool
 }
 
 type partTotals struct {
@@ -153,6 +162,9 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) (
 	}
 	for _, i := range redo {
 		stages[i] = cachedGroup{key: skeys[i], sums: make([]groupSum, n)}
+		if k := plan.Stages[i].simulatedChecks(); k > 0 {
+			stages[i].nsim, stages[i].sims, stages[i].simulated = k, make([]groupSum, n), make([]bool, n)
+		}
 	}
 	ev := evaluator{plan: plan, strict: in.strict, summary: true}
 	maxReqs := len(plan.Global)
@@ -186,6 +198,9 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) (
 		return nil, err // nothing of this call is kept
 	}
 	in.figKey, in.figs, in.global, in.stages = fk, figs, global, stages
+	if err := in.simulate(ctx, plan); err != nil {
+		return nil, err // the simulations finished are kept
+	}
 	if !results {
 		return nil, nil
 	}
@@ -200,7 +215,8 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) (
 }
 
 // result assembles the summary result of part k from the kept groups,
-// with fmax (one per stage) as its FMax.
+// with fmax (one per stage) as its FMax. The simulated checks are added
+// after every closed-form group, as Evaluate adds them.
 func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	t := in.global.totals[k]
 	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
@@ -211,6 +227,90 @@ func (in *Incremental) result(r *Result, k int, fmax []float64) {
 		r.add(g)
 		r.FMax[i] = g.fmax
 	}
+	closedPass := r.Pass
+	for i := range in.stages {
+		st := &in.stages[i]
+		if st.nsim == 0 {
+			continue
+		}
+		if closedPass {
+			r.add(&st.sims[k])
+			continue
+		}
+		var g groupSum
+		ev := evaluator{strict: in.strict}
+		ev.notSimulated(&g, st.nsim)
+		r.add(&g)
+	}
+}
+
+// closedPass reports whether part k passes every kept closed-form group.
+func (in *Incremental) closedPass(k int) bool {
+	if in.global.sums[k].fail {
+		return false
+	}
+	for i := range in.stages {
+		if in.stages[i].sums[k].fail {
+			return false
+		}
+	}
+	return true
+}
+
+// simulate is the second pass: it runs the simulated checks of every
+// stage that has them for each part that passes every closed-form check
+// and has not been simulated in that stage yet. The parts are spread over
+// the CPUs one at a time (a simulation costs milliseconds); a cancelled
+// ctx stops it between parts, and the parts finished are kept. The caller
+// holds in.mu.
+func (in *Incremental) simulate(ctx context.Context, plan *Plan) error {
+	var todo []int
+	for k := range in.parts {
+		if !in.closedPass(k) {
+			continue
+		}
+		for i := range in.stages {
+			if in.stages[i].nsim > 0 && !in.stages[i].simulated[k] {
+				todo = append(todo, k)
+				break
+			}
+		}
+	}
+	if len(todo) == 0 {
+		return ctx.Err()
+	}
+	ev := evaluator{plan: plan, strict: in.strict, summary: true}
+	maxReqs := 0
+	for i := range plan.Stages {
+		maxReqs = max(maxReqs, len(plan.Stages[i].Requirements))
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(todo)) {
+		wg.Go(func() {
+			scratch := make([]Check, maxReqs)
+			var r Result
+			for ctx.Err() == nil {
+				j := int(next.Add(1)) - 1
+				if j >= len(todo) {
+					return
+				}
+				k := todo[j]
+				t := in.global.totals[k]
+				r = Result{Part: in.parts[k], Packages: t.packages, Cost: t.cost, SupplyCurrent: t.current}
+				for i := range in.stages {
+					st := &in.stages[i]
+					if st.nsim == 0 || st.simulated[k] {
+						continue
+					}
+					ev.simGroup(&st.sims[k], scratch, &plan.Stages[i], &r, &in.figs[k])
+					st.simulated[k] = true
+				}
+			}
+		})
+	}
+	wg.Wait()
+	return ctx.Err()
 }
 
 // Ranked is Evaluate followed by Rank(results, key), the same results in
