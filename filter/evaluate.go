@@ -11,14 +11,14 @@ import (
 
 // Check notes; constant text so evaluation allocates nothing per check.
 const (
-	noteUnknown     = "the catalog lacks the figure"
-	noteUnknownSide = "the catalog lacks one side of the range"
-	noteScaled      = "swing scaled to the load: headroom × R_spec/R_load (linear output-resistance approximation)"
-	noteNoSwingLoad = "swing load not stated; used as given"
-	noteStrict      = "unknown figure counts as a failure (strict)"
-	noteNoLifecycle = "the catalog does not give the lifecycle"
-	noteNoCost      = "the catalog does not give the unit cost"
-	noteNoTemp      = "the catalog does not give the rated temperature range"
+	noteUnknown      = "the catalog lacks the figure"
+	noteUnknownSide  = "the catalog lacks one side of the range"
+	noteScaled       = "swing scaled to the load: headroom × R_spec/R_load (linear output-resistance approximation)"
+	noteNoSwingLoad  = "swing load not stated; used as given"
+	noteStrict       = "unknown figure counts as a failure (strict)"
+	noteNoLifecycle  = "the catalog does not give the lifecycle"
+	noteNoCost       = "the catalog does not give the unit cost"
+	noteNoTemp       = "the catalog does not give the rated temperature range"
 	noteNotSimulated = "not simulated: the part fails a closed-form check"
 )
 
