@@ -14,6 +14,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/internal/fourier"
 )
 
 // thdDesign is a ±15 V follower design driven with a sine of peak vp at
@@ -44,68 +45,18 @@ func fastPart(id string, slew, h float64) *catalog.Part {
 	return p
 }
 
-// triangleTHD is the THD over harmonics 2…10 of a symmetric triangle wave:
-// its Fourier series has only odd harmonics, of amplitude ∝ 1/n² (standard
-// Fourier series tables, from memory: x(t) = 8/π²·Σ (−1)^((n−1)/2) sin(nωt)/n²),
-// so THD = √(Σ_{n=3,5,7,9} 1/n⁴).
-func triangleTHD() float64 {
-	s := 0.0
-	for n := 3.0; n <= 9; n += 2 {
-		s += math.Pow(n, -4)
-	}
-	return math.Sqrt(s)
-}
-
-// clippedSineTHD is the THD over harmonics 2…10 of a sine A·sin θ clipped
-// symmetrically at ±c = ±A·sin θc. The wave is odd and half-wave
-// symmetric, so only odd sine terms remain, b_n = (4/π)∫₀^{π/2} x(θ) sin(nθ) dθ.
-// Integrated by hand (Fourier series by definition, from memory for the
-// method; the integrals are elementary):
-//
-//	b_1 = (2A/π)·(θc + sin θc·cos θc)
-//	b_n = (4A/π)·[ ½·(sin((n−1)θc)/(n−1) − sin((n+1)θc)/(n+1)) + sin θc·cos(nθc)/n ],  n = 3, 5, …
-//
-// (the second term from ∫_{θc}^{π/2} sin nθ dθ = cos(nθc)/n, as cos(nπ/2) = 0 for odd n).
-func clippedSineTHD(clip float64) float64 {
-	tc := math.Asin(clip)
-	b1 := 2 / math.Pi * (tc + math.Sin(tc)*math.Cos(tc))
-	s := 0.0
-	for n := 3.0; n <= 9; n += 2 {
-		bn := 4 / math.Pi * (0.5*(math.Sin((n-1)*tc)/(n-1)-math.Sin((n+1)*tc)/(n+1)) + math.Sin(tc)*math.Cos(n*tc)/n)
-		s += bn * bn
-	}
-	return math.Sqrt(s) / b1
-}
-
-// TestClippedSineSeriesSanity checks the hand-integrated series at its
-// two ends: no clipping (c = A) leaves a pure sine, and a hard clip
-// (c → 0) tends to a square wave, whose harmonics are 1/n (standard
-// Fourier series tables, from memory): THD → √(Σ_{3,5,7,9} 1/n²) = 0.4291.
-func TestClippedSineSeriesSanity(t *testing.T) {
-	if got := clippedSineTHD(1); math.Abs(got) > 1e-12 {
-		t.Errorf("unclipped THD %g, want 0", got)
-	}
-	sq := 0.0
-	for n := 3.0; n <= 9; n += 2 {
-		sq += 1 / (n * n)
-	}
-	if got, want := clippedSineTHD(1e-6), math.Sqrt(sq); math.Abs(got/want-1) > 1e-5 {
-		t.Errorf("hard-clip THD %g, want the square wave's %g", got, want)
-	}
-}
-
 // TestTHDTriangle runs the thd check's own measurement (filter.SimulatedTHD,
 // which the check calls) on a follower driven far past its full-power
 // bandwidth: a 6 V, 100 kHz sine into a 1 V/µs part ramps at the slew
 // rate all the time, a symmetric triangle of Vpp = SR/(2f) = 5 V, whose
-// THD over harmonics 2…10 is √(Σ 1/n⁴) = 12.05 % (triangleTHD).
+// THD over harmonics 2…10 is √(Σ 1/n⁴) = 12.05 % (fourier.TriangleTHD).
 func TestTHDTriangle(t *testing.T) {
 	_, plan := mustDesign(t, thdDesign("6 V", "100 kHz", "15 V", ""))
 	got, err := filter.SimulatedTHD(plan, "amp", fastPart("slow", 1e6, 0.5))
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := triangleTHD()
+	want := fourier.TriangleTHD()
 	if math.Abs(got/want-1) > 1e-3 {
 		t.Errorf("THD %.6g, want %.6g (triangle Fourier series) within 0.1 %%", got, want)
 	}
@@ -113,7 +64,7 @@ func TestTHDTriangle(t *testing.T) {
 
 // TestTHDClippedSine runs the measurement on a fast follower whose swing
 // (V− + 1 V … V+ − 1 V at ±5 V: ±4 V) clips the sine at three levels
-// c/A = sin θc, against clippedSineTHD.
+// c/A = sin θc, against fourier.ClippedSineTHD.
 func TestTHDClippedSine(t *testing.T) {
 	for _, clip := range []float64{0.95, 0.8, 0.5} {
 		t.Run(strconv.FormatFloat(clip, 'g', -1, 64), func(t *testing.T) {
@@ -123,7 +74,7 @@ func TestTHDClippedSine(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			want := clippedSineTHD(clip)
+			want := fourier.ClippedSineTHD(clip)
 			if math.Abs(got/want-1) > 1e-3 {
 				t.Errorf("THD %.6g, want %.6g (clipped-sine Fourier series) within 0.1 %%", got, want)
 			}
@@ -131,7 +82,7 @@ func TestTHDClippedSine(t *testing.T) {
 	}
 }
 
-// TestClippedSineNgspice checks clippedSineTHD against ngspice's .four
+// TestClippedSineNgspice checks fourier.ClippedSineTHD against ngspice's .four
 // analysis of the same clipped sine (a behavioural source), so the hand
 // integration does not check itself. .four counts harmonics 2…9; a
 // half-wave symmetric wave has no even ones, so the set is 3, 5, 7, 9 in
@@ -163,7 +114,7 @@ R1 out 0 1k
 			t.Fatalf("no THD in ngspice output:\n%s", out)
 		}
 		pct, _ := strconv.ParseFloat(string(m[1]), 64)
-		if got, want := pct/100, clippedSineTHD(clip); math.Abs(got/want-1) > 1e-3 {
+		if got, want := pct/100, fourier.ClippedSineTHD(clip); math.Abs(got/want-1) > 1e-3 {
 			t.Errorf("clip %g: ngspice THD %.6g, series %.6g", clip, got, want)
 		}
 	}
@@ -184,7 +135,7 @@ func thdCheck(t *testing.T, r *filter.Result) *filter.Check {
 // TestTHDRejects: a part whose catalog entry gives no output swing and no
 // common-mode range has both range checks unknown, so it passes every
 // closed-form check; the simulation takes its output to the rails (±5 V)
-// and clips a 6.25 V sine at c/A = 0.8 (THD 8.95 %, clippedSineTHD). A
+// and clips a 6.25 V sine at c/A = 0.8 (THD 8.95 %, fourier.ClippedSineTHD). A
 // 5 % limit rejects it, on the thd check, basis simulated; a 10 % limit
 // passes it.
 func TestTHDRejects(t *testing.T) {
@@ -197,7 +148,7 @@ func TestTHDRejects(t *testing.T) {
 		_, plan := mustDesign(t, thdDesign("6.25 V", "1 kHz", "5 V", `thd = "`+tc.limit+`"`))
 		r := filter.Evaluate(plan, []*catalog.Part{p}, filter.Options{})[0]
 		c := thdCheck(t, &r)
-		want := clippedSineTHD(0.8)
+		want := fourier.ClippedSineTHD(0.8)
 		if c.Basis != filter.BasisSimulated || math.Abs(c.Available/want-1) > 1e-3 {
 			t.Errorf("limit %s: thd check %+v, want basis simulated, THD %.4g", tc.limit, *c, want)
 		}
