@@ -17,6 +17,7 @@ func thdParam() Param {
 // The notes of a thd check: what the simulation found besides the number,
 // or why it could not run. Constant text (Check.Note).
 const (
+	noteTHDFloor     = "under 0.0001 %, the model's floor: its only distortions are the slew clamp and the swing limits, and this output reaches neither"
 	noteTHDClipped   = "the output reaches the swing limit in the simulation"
 	noteTHDSlewing   = "the output is slew-limited for part of each period in the simulation"
 	noteTHDNoFigures = "the catalog lacks gbw or slew, which the simulation needs"
@@ -101,6 +102,8 @@ func simulatedTHD(plan *Plan, sp *StagePlan, p *catalog.Part, f *PartFigures) Fi
 	}
 	fig := Figure{V: *w.Metrics.THD, Known: true, Basis: BasisSimulated}
 	switch {
+	case fig.V < thdFloor:
+		fig.V, fig.Note = thdFloor, noteTHDFloor
 	case w.Metrics.Clipped:
 		fig.Note = noteTHDClipped
 	case w.Metrics.SlewingFraction > 0:

@@ -183,9 +183,10 @@ func TestTHDAtTheEdge(t *testing.T) {
 // TestTHDNotSimulated: a part that fails a closed-form check (slew, at
 // 1 V/µs against 2π·100 kHz·6 V = 3.77 V/µs) is not simulated: its thd
 // check is unknown with the note saying so. A part that passes every
-// closed-form check measures a THD at rounding level: the model's only
-// nonlinearities are the slew clamp and the swing limits, which those
-// checks already keep the sine clear of.
+// closed-form check measures a THD at rounding level, reported as the
+// check's floor, 0.0001 %: the model's only nonlinearities are the slew
+// clamp and the swing limits, which those checks already keep the sine
+// clear of.
 func TestTHDNotSimulated(t *testing.T) {
 	_, plan := mustDesign(t, thdDesign("6 V", "100 kHz", "15 V", `thd = "1 %"`))
 	res := filter.Evaluate(plan, []*catalog.Part{fastPart("slow", 1e6, 0.5), fastPart("fast", 1e9, 0.5)}, filter.Options{})
@@ -193,8 +194,8 @@ func TestTHDNotSimulated(t *testing.T) {
 	if res[0].Pass || slow.Status != filter.StatusUnknown || !strings.Contains(slow.Note, "not simulated") {
 		t.Errorf("slow part: pass %t, thd check %+v, want a failing part with the check not simulated", res[0].Pass, *slow)
 	}
-	if !res[1].Pass || fast.Status != filter.StatusPass || fast.Available > 1e-9 {
-		t.Errorf("fast part: pass %t, thd check %+v, want a pass at rounding-level THD", res[1].Pass, *fast)
+	if !res[1].Pass || fast.Status != filter.StatusPass || fast.Available != 1e-6 || !strings.Contains(fast.Note, "floor") {
+		t.Errorf("fast part: pass %t, thd check %+v, want a pass at the 0.0001 %% floor", res[1].Pass, *fast)
 	}
 }
 

@@ -62,6 +62,14 @@ const (
 	// model's default, which brings a follower far past its full-power
 	// bandwidth within a small fraction of a percent.
 	thdSettlePeriods = 20
+	// thdFloor is the smallest THD the thd check reports (fraction,
+	// 0.0001 %): a measured THD under it is reported as thdFloor, an upper
+	// bound. The model's only distortions are the slew clamp and the
+	// swing limits; a sine that reaches neither measures 1e-16 … 1e-12
+	// (rounding), and a number like 4e-14 % would read as a claim about
+	// the part. 1e-6 is far above that rounding and far below any limit
+	// a design states (0.001 % and up).
+	thdFloor = 1e-6
 	// thdMeasurePeriods is the THD window, whole periods: the model's
 	// default; on whole periods every harmonic falls on a DFT bin.
 	thdMeasurePeriods = 5
