@@ -152,3 +152,42 @@ func BenchmarkIncremental(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkIncrementalTHD is BenchmarkIncremental on the demo design with a
+// thd limit on its buffer stage while the gain stage is edited: the
+// buffer's simulations are kept from the first evaluation, so a keystroke
+// costs the closed-form path plus handing the kept figures to the new plan
+// (the rows shown are explained from them, not simulated again).
+func BenchmarkIncrementalTHD(b *testing.B) {
+	parts := gencat.Parts(10_000, 1)
+	o := filter.Options{Summary: true}
+	in := filter.NewIncremental(parts, o)
+	d := benchDesign(b)
+	if err := d.Set("stage.buffer.thd", "1 %"); err != nil {
+		b.Fatal(err)
+	}
+	if p, err := filter.Derive(d); err != nil {
+		b.Fatal(err)
+	} else if _, err := in.Ranked(context.Background(), p, filter.SortMargin); err != nil {
+		b.Fatal(err) // the first evaluation computes every group and simulation
+	}
+	freqs := []string{"20 kHz", "21 kHz"}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		if err := d.Set("stage.gain.signal.freq", freqs[i%2]); err != nil {
+			b.Fatal(err)
+		}
+		p, err := filter.Derive(d)
+		if err != nil {
+			b.Fatal(err)
+		}
+		rs, err := in.Ranked(context.Background(), p, filter.SortMargin)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for i := 0; i < min(len(rs), 30); i++ {
+			filter.Explain(p, &rs[i], o)
+		}
+	}
+}

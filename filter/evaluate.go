@@ -342,7 +342,7 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 	case KeyDCError:
 		ev.numeric(c, q.Bound, dcError(sp, f))
 	case KeyTHD:
-		fig := simulatedTHD(ev.plan, sp, p, f)
+		fig := ev.simulatedFigure(q, sp, p, f)
 		ev.numeric(c, q.Bound, fig)
 		if !fig.Known {
 			c.Note = fig.Note

@@ -72,9 +72,11 @@ type cachedGroup struct {
 	// totals of each part (design-level group only): packages, cost, current.
 	totals []partTotals
 	// nsim counts the stage's simulated checks; sims holds each part's
-	// sum of them, filled in by the second pass (simulated[k] says which).
+	// sum of them and simFigs their figures (nsim per part), filled in by
+	// the second pass (simulated[k] says which).
 	nsim      int
 	sims      []groupSum
+	simFigs   []Figure
 	simulated []bool
 }
 
@@ -164,6 +166,7 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) (
 		stages[i] = cachedGroup{key: skeys[i], sums: make([]groupSum, n)}
 		if k := plan.Stages[i].simulatedChecks(); k > 0 {
 			stages[i].nsim, stages[i].sims, stages[i].simulated = k, make([]groupSum, n), make([]bool, n)
+			stages[i].simFigs = make([]Figure, n*k)
 		}
 	}
 	ev := evaluator{plan: plan, strict: in.strict, summary: true}
@@ -244,6 +247,33 @@ func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	}
 }
 
+// lendSims puts the figures of the simulations kept from earlier plans
+// into plan's memo, so that Explain on plan finds them.
+func (in *Incremental) lendSims(plan *Plan) {
+	if plan.sims == nil {
+		return
+	}
+	for i := range in.stages {
+		st := &in.stages[i]
+		if st.nsim == 0 {
+			continue
+		}
+		sp := &plan.Stages[i]
+		for k, done := range st.simulated {
+			if !done {
+				continue
+			}
+			j := 0
+			for q := range sp.Requirements {
+				if sp.Requirements[q].Simulated {
+					plan.sims.put(&sp.Requirements[q], in.parts[k], st.simFigs[k*st.nsim+j])
+					j++
+				}
+			}
+		}
+	}
+}
+
 // closedPass reports whether part k passes every kept closed-form group.
 func (in *Incremental) closedPass(k int) bool {
 	if in.global.sums[k].fail {
@@ -264,6 +294,10 @@ func (in *Incremental) closedPass(k int) bool {
 // ctx stops it between parts, and the parts finished are kept. The caller
 // holds in.mu.
 func (in *Incremental) simulate(ctx context.Context, plan *Plan) error {
+	if !plan.hasSimulated() {
+		return nil
+	}
+	in.lendSims(plan)
 	var todo []int
 	for k := range in.parts {
 		if !in.closedPass(k) {
@@ -303,7 +337,15 @@ func (in *Incremental) simulate(ctx context.Context, plan *Plan) error {
 					if st.nsim == 0 || st.simulated[k] {
 						continue
 					}
-					ev.simGroup(&st.sims[k], scratch, &plan.Stages[i], &r, &in.figs[k])
+					sp := &plan.Stages[i]
+					ev.simGroup(&st.sims[k], scratch, sp, &r, &in.figs[k])
+					j := 0
+					for q := range sp.Requirements {
+						if sp.Requirements[q].Simulated {
+							st.simFigs[k*st.nsim+j], _ = plan.sims.get(&sp.Requirements[q], in.parts[k])
+							j++
+						}
+					}
 					st.simulated[k] = true
 				}
 			}

@@ -241,6 +241,10 @@ type Plan struct {
 	// beyond the rails, no temperature range); FilterWarnings adds those
 	// that need the catalog.
 	Warnings []Warning
+	// sims keeps the figures of the plan's simulated checks by
+	// requirement and part, so Explain does not simulate again what the
+	// ranking did (nil: nothing is kept).
+	sims *simMemo
 }
 
 // Requirements returns every requirement of the plan: design-level first,

@@ -3,6 +3,7 @@ package filter
 import (
 	"errors"
 	"fmt"
+	"sync"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/sim"
@@ -130,4 +131,52 @@ func SimulatedTHD(plan *Plan, stage string, p *catalog.Part) (float64, error) {
 		return fig.V, nil
 	}
 	return 0, errors.New("no stage " + fmt.Sprintf("%q", stage) + " in the plan")
+}
+
+// simMemo keeps the figures of a plan's simulated checks, by requirement
+// (a pointer into the plan) and part. A simulation's figure depends only
+// on the plan and the part, so the ranking's second pass, Explain and the
+// incremental evaluator's kept stages share it. Safe for concurrent use;
+// a nil memo keeps nothing.
+type simMemo struct {
+	mu sync.Mutex
+	m  map[simKey]Figure
+}
+
+type simKey struct {
+	q *Requirement
+	p *catalog.Part
+}
+
+func (s *simMemo) get(q *Requirement, p *catalog.Part) (Figure, bool) {
+	if s == nil {
+		return Figure{}, false
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	f, ok := s.m[simKey{q, p}]
+	return f, ok
+}
+
+func (s *simMemo) put(q *Requirement, p *catalog.Part, f Figure) {
+	if s == nil {
+		return
+	}
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.m == nil {
+		s.m = map[simKey]Figure{}
+	}
+	s.m[simKey{q, p}] = f
+}
+
+// simulatedFigure is the figure of simulated requirement q of stage sp on
+// part p, from the plan's memo or, the first time, by simulation.
+func (ev *evaluator) simulatedFigure(q *Requirement, sp *StagePlan, p *catalog.Part, f *PartFigures) Figure {
+	if fig, ok := ev.plan.sims.get(q, p); ok {
+		return fig
+	}
+	fig := simulatedTHD(ev.plan, sp, p, f)
+	ev.plan.sims.put(q, p, fig)
+	return fig
 }
