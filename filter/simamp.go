@@ -72,12 +72,12 @@ func BuildAmp(plan *Plan, sp *StagePlan, p *catalog.Part, typical bool) (SimAmp,
 func buildAmp(plan *Plan, sp *StagePlan, p *catalog.Part, f *PartFigures, typical bool) (SimAmp, error) {
 	b := SimAmp{Worst: *f}
 	pick := func(name string, worst Figure, typ catalog.Spec, dim catalog.Dim) (SimFigure, bool) {
-		if typical && typ.Typ.Set {
+		if typical && typ.Typ.Known() {
 			basis := "typical"
 			if typ.Source == catalog.SourceGraph {
 				basis = "graph"
 			}
-			return SimFigure{Name: name, V: typ.Typ.V, Dim: dim, Basis: basis, Note: "typical, not derated"}, true
+			return SimFigure{Name: name, V: typ.Typ.V(), Dim: dim, Basis: basis, Note: "typical, not derated"}, true
 		}
 		if !worst.Known {
 			return SimFigure{}, false
