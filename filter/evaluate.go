@@ -26,7 +26,7 @@ const (
 // worst case. The worst-case figures of each part are computed once
 // (Figures) and shared by all its checks. Simulated checks (thd) are a
 // second pass, run only for a part that passes every closed-form check;
-// for any other part they are unknown (noteNotSimulated). The results are in parts order;
+// for any other part they are not run (Check.NotRun). The results are in parts order;
 // Rank sorts them. The Checks of all results share one backing array; with
 // Options.Summary they are not kept (Result.Checks is nil) and Explain
 // fills them in for the results a front end shows.
@@ -110,16 +110,14 @@ func (ev *evaluator) part(r *Result, f *PartFigures) {
 	if !ev.plan.hasSimulated() {
 		return
 	}
-	simulate := r.Pass
+	if !r.Pass {
+		return // the simulated checks stay not run (group)
+	}
 	n = len(ev.plan.Global)
 	for si := range ev.plan.Stages {
 		sp := &ev.plan.Stages[si]
-		if k := sp.simulatedChecks(); k > 0 {
-			if simulate {
-				ev.simGroup(&g, r.Checks[n:n+len(sp.Requirements)], sp, r, f)
-			} else {
-				ev.notSimulated(&g, k)
-			}
+		if sp.simulatedChecks() > 0 {
+			ev.simGroup(&g, r.Checks[n:n+len(sp.Requirements)], sp, r, f)
 			r.add(&g)
 		}
 		n += len(sp.Requirements)
@@ -159,12 +157,6 @@ func (ev *evaluator) simGroup(g *groupSum, checks []Check, sp *StagePlan, r *Res
 	}
 }
 
-// notSimulated is the sum of a stage's n simulated checks left out
-// because the part fails a closed-form check: n unknowns (failing under
-// Strict, as every unknown does; the part fails anyway).
-func (ev *evaluator) notSimulated(g *groupSum, n int) {
-	*g = groupSum{unknown: n, fail: ev.strict, margin: math.NaN(), fmax: math.NaN()}
-}
 
 // totals fills the part's package count, cost and supply current.
 func (ev *evaluator) totals(r *Result, f *PartFigures) {
@@ -204,9 +196,10 @@ func (ev *evaluator) group(g *groupSum, checks []Check, reqs []Requirement, sp *
 		q, c := &reqs[i], &checks[i]
 		if q.Simulated {
 			// The second pass (simGroup) fills it in for a part that
-			// passes every closed-form check.
+			// passes every closed-form check; for any other it stays not
+			// run, counted nowhere.
 			*c = Check{Req: q, Required: q.Value, Available: math.NaN(), AvailLow: math.NaN(), AvailHigh: math.NaN(),
-				Margin: math.NaN(), Status: StatusUnknown, Note: noteNotSimulated}
+				Margin: math.NaN(), Status: StatusUnknown, NotRun: true, Note: noteNotSimulated}
 			continue
 		}
 		ev.check(c, q, sp, r.Part, f, r)

@@ -218,8 +218,9 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) (
 }
 
 // result assembles the summary result of part k from the kept groups,
-// with fmax (one per stage) as its FMax. The simulated checks are added
-// after every closed-form group, as Evaluate adds them.
+// with fmax (one per stage) as its FMax. The simulated checks of a part
+// that passes every closed-form group are added after those groups, as
+// Evaluate adds them.
 func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	t := in.global.totals[k]
 	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
@@ -230,20 +231,13 @@ func (in *Incremental) result(r *Result, k int, fmax []float64) {
 		r.add(g)
 		r.FMax[i] = g.fmax
 	}
-	closedPass := r.Pass
+	if !r.Pass {
+		return // the simulated checks were not run
+	}
 	for i := range in.stages {
-		st := &in.stages[i]
-		if st.nsim == 0 {
-			continue
-		}
-		if closedPass {
+		if st := &in.stages[i]; st.nsim > 0 {
 			r.add(&st.sims[k])
-			continue
 		}
-		var g groupSum
-		ev := evaluator{strict: in.strict}
-		ev.notSimulated(&g, st.nsim)
-		r.add(&g)
 	}
 }
 

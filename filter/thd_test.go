@@ -182,7 +182,9 @@ func TestTHDAtTheEdge(t *testing.T) {
 
 // TestTHDNotSimulated: a part that fails a closed-form check (slew, at
 // 1 V/µs against 2π·100 kHz·6 V = 3.77 V/µs) is not simulated: its thd
-// check is unknown with the note saying so. A part that passes every
+// check is unknown and not run, with the note saying so, and is not counted
+// among its unknown checks, strict or not (it is not a missing figure). A
+// part that passes every
 // closed-form check measures a THD at rounding level, reported as the
 // check's floor, 0.0001 %: the model's only nonlinearities are the slew
 // clamp and the swing limits, which those checks already keep the sine
@@ -191,8 +193,12 @@ func TestTHDNotSimulated(t *testing.T) {
 	_, plan := mustDesign(t, thdDesign("6 V", "100 kHz", "15 V", `thd = "1 %"`))
 	res := filter.Evaluate(plan, []*catalog.Part{fastPart("slow", 1e6, 0.5), fastPart("fast", 1e9, 0.5)}, filter.Options{})
 	slow, fast := thdCheck(t, &res[0]), thdCheck(t, &res[1])
-	if res[0].Pass || slow.Status != filter.StatusUnknown || !strings.Contains(slow.Note, "not simulated") {
-		t.Errorf("slow part: pass %t, thd check %+v, want a failing part with the check not simulated", res[0].Pass, *slow)
+	if res[0].Pass || slow.Status != filter.StatusUnknown || !slow.NotRun || !strings.Contains(slow.Note, "not simulated") || res[0].Unknown != 0 {
+		t.Errorf("slow part: pass %t, %d unknown, thd check %+v, want a failing part with the check not run", res[0].Pass, res[0].Unknown, *slow)
+	}
+	strict := filter.Evaluate(plan, []*catalog.Part{fastPart("slow", 1e6, 0.5)}, filter.Options{Strict: true})[0]
+	if c := thdCheck(t, &strict); strict.Unknown != 0 || !c.NotRun || strict.Binding.Key != filter.KeySlew {
+		t.Errorf("strict slow part: %d unknown, binding %v, thd check %+v, want the slew failure alone", strict.Unknown, strict.Binding, *c)
 	}
 	if !res[1].Pass || fast.Status != filter.StatusPass || fast.Available != 1e-6 || !strings.Contains(fast.Note, "floor") {
 		t.Errorf("fast part: pass %t, thd check %+v, want a pass at the 0.0001 %% floor", res[1].Pass, *fast)

@@ -187,7 +187,9 @@ func (p *checksPane) groupLine(r *filter.Result, stage string, w int) string {
 			}
 			fails = append(fails, f)
 		case filter.StatusUnknown:
-			unknown++
+			if !c.NotRun {
+				unknown++
+			}
 		}
 	}
 	verdict := st.Pass.Render("✓ pass")
