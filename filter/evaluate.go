@@ -157,7 +157,6 @@ func (ev *evaluator) simGroup(g *groupSum, checks []Check, sp *StagePlan, r *Res
 	}
 }
 
-
 // totals fills the part's package count, cost and supply current.
 func (ev *evaluator) totals(r *Result, f *PartFigures) {
 	p := r.Part
