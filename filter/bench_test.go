@@ -90,7 +90,11 @@ func benchEdit(b *testing.B, parts []*catalog.Part, o filter.Options) {
 // benchKeys runs edit → re-derive → rank (by the given function) and, in
 // summary mode, explains the rows a screen shows.
 func benchKeys(b *testing.B, o filter.Options, rank func(*filter.Plan) ([]filter.Result, error)) {
-	d := benchDesign(b)
+	benchKeysOn(b, benchDesign(b), o, rank)
+}
+
+// benchKeysOn is benchKeys on design d.
+func benchKeysOn(b *testing.B, d *filter.Design, o filter.Options, rank func(*filter.Plan) ([]filter.Result, error)) {
 	freqs := []string{"20 kHz", "21 kHz"}
 	b.ReportAllocs()
 	b.ResetTimer()
@@ -168,4 +172,27 @@ func BenchmarkIncremental(b *testing.B) {
 			})
 		})
 	}
+}
+
+// BenchmarkIncrementalTHD is BenchmarkIncremental on the demo design with a
+// thd limit on its buffer stage while the gain stage is edited: the
+// buffer's simulations are kept from the first evaluation, so a keystroke
+// costs the closed-form path plus handing the kept figures to the new plan
+// (the rows shown are explained from them, not simulated again).
+func BenchmarkIncrementalTHD(b *testing.B) {
+	parts := gencat.Parts(10_000, 1)
+	o := filter.Options{Summary: true}
+	in := filter.NewIncremental(parts, o)
+	d := benchDesign(b)
+	if err := d.Set("stage.buffer.thd", "1 %"); err != nil {
+		b.Fatal(err)
+	}
+	if p, err := filter.Derive(d); err != nil {
+		b.Fatal(err)
+	} else if _, err := in.Ranked(context.Background(), p, filter.SortMargin); err != nil {
+		b.Fatal(err) // the first evaluation computes every group and simulation
+	}
+	benchKeysOn(b, d, o, func(p *filter.Plan) ([]filter.Result, error) {
+		return in.Ranked(context.Background(), p, filter.SortMargin)
+	})
 }

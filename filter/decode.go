@@ -181,6 +181,11 @@ func (dec *designDecoder) stage(i int, raw map[string]any) *Stage {
 		}
 		path := base + "." + lf.key
 		p, ok := params[lf.key]
+		if !ok && lf.key == "thd" {
+			dec.fail(path, name, "thd", "kind %s has no sine output whose distortion could be checked, want thd only on a sine stage of kind %s",
+				kind, strings.Join(thdKinds(), ", "))
+			continue
+		}
 		if !ok {
 			dec.unknown(name, path, lf.key, keys)
 			continue

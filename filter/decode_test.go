@@ -53,6 +53,10 @@ func TestDesignErrors(t *testing.T) {
 		{"sine without frequency", "[supply]\npos = \"5 V\"\n" + strings.Replace(goodStage, `, freq = "2 kHz"`, "", 1)},
 		{"gain below one", "[supply]\npos = \"5 V\"\n" + strings.Replace(goodStage, "gain = 11", "gain = 0.5", 1)},
 		{"no stages", "[supply]\npos = \"5 V\"\n"},
+		{"thd negative", "[supply]\npos = \"5 V\"\n" + goodStage + "thd = \"-1 %\"\n"},
+		{"thd zero", "[supply]\npos = \"5 V\"\n" + goodStage + "thd = 0\n"},
+		{"thd on a square", "[supply]\npos = \"5 V\"\n" + strings.Replace(goodStage, `shape = "sine", peak = "0.1 V", freq = "2 kHz"`, `shape = "square", peak = "0.1 V", rise = "2 us"`, 1) + "thd = \"1 %\"\n"},
+		{"thd on a comparator", "[supply]\npos = \"5 V\"\n[[stage]]\nname = \"c\"\nkind = \"comparator\"\nthd = \"1 %\"\n"},
 		{"direct half range", "[supply]\npos = \"5 V\"\n[[stage]]\nname = \"d\"\nkind = \"direct\"\ninput = [\"1 V\"]\n"},
 	}
 	var out bytes.Buffer

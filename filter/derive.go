@@ -15,7 +15,7 @@ import (
 // budget) and each stage's through its template. Errors name the design
 // file, the line where known, the stage and the field.
 func Derive(d *Design) (*Plan, error) {
-	p := &Plan{Design: d, Title: d.Title}
+	p := &Plan{Design: d, Title: d.Title, sims: &simMemo{}}
 	if err := p.deriveSupply(d); err != nil {
 		return nil, err
 	}

@@ -86,6 +86,14 @@
 //     part's worst-case figure (FigureFor) against the stated min or max.
 //   - vdiff, cload: a stage states the differential input or load
 //     capacitance; the part's vdiff_max / cload must reach it.
+//   - thd (when a sine stage sets it; Requirement.Simulated): the output
+//     THD the time-domain model (filter/sim) measures at the worst-case
+//     figures (BuildAmp: derated GBW, slew, Aol, the swing at the load,
+//     rails at tolerance) ≤ allowed; harmonics 2…10 over the fundamental,
+//     DFT of 5 periods after 20 of settling, 400 points per period, floor
+//     0.0001 %. A second pass: only parts that pass every closed-form
+//     check are simulated; for the rest the check is unknown ("not
+//     simulated"). Basis simulated.
 //   - Hard filters (pass/fail, margin null): temperature (the part's rated
 //     range covers the design's), package (any of), tech (any of),
 //     lifecycle (any of; default anything but obsolete), cost (unit cost ≤
@@ -104,7 +112,8 @@
 // 25 °C too (the rated range includes it). Policy adds: GBW and slew given
 // at 25 °C × (1 − speed_tempco·|ΔT|), bipolar Ib and Ios given at 25 °C ×
 // (1 + ib_cold_tempco·ΔT below 25 °C). Basis: guaranteed for limits,
-// typical or graph (source = "graph") for typical figures.
+// typical or graph (source = "graph") for typical figures, simulated for
+// the thd check's measured figure.
 //
 // # Margins (fractions; ≥ 0 ⇔ pass)
 //

@@ -11,19 +11,22 @@ import (
 
 // Check notes; constant text so evaluation allocates nothing per check.
 const (
-	noteUnknown     = "the catalog lacks the figure"
-	noteUnknownSide = "the catalog lacks one side of the range"
-	noteScaled      = "swing scaled to the load: headroom × R_spec/R_load (linear output-resistance approximation)"
-	noteNoSwingLoad = "swing load not stated; used as given"
-	noteStrict      = "unknown figure counts as a failure (strict)"
-	noteNoLifecycle = "the catalog does not give the lifecycle"
-	noteNoCost      = "the catalog does not give the unit cost"
-	noteNoTemp      = "the catalog does not give the rated temperature range"
+	noteUnknown      = "the catalog lacks the figure"
+	noteUnknownSide  = "the catalog lacks one side of the range"
+	noteScaled       = "swing scaled to the load: headroom × R_spec/R_load (linear output-resistance approximation)"
+	noteNoSwingLoad  = "swing load not stated; used as given"
+	noteStrict       = "unknown figure counts as a failure (strict)"
+	noteNoLifecycle  = "the catalog does not give the lifecycle"
+	noteNoCost       = "the catalog does not give the unit cost"
+	noteNoTemp       = "the catalog does not give the rated temperature range"
+	noteNotSimulated = "not simulated: the part fails a closed-form check"
 )
 
 // Evaluate checks every part against every requirement of the plan at
 // worst case. The worst-case figures of each part are computed once
-// (Figures) and shared by all its checks. The results are in parts order;
+// (Figures) and shared by all its checks. Simulated checks (thd) are a
+// second pass, run only for a part that passes every closed-form check;
+// for any other part they are not run (Check.NotRun). The results are in parts order;
 // Rank sorts them. The Checks of all results share one backing array; with
 // Options.Summary they are not kept (Result.Checks is nil) and Explain
 // fills them in for the results a front end shows.
@@ -104,6 +107,54 @@ func (ev *evaluator) part(r *Result, f *PartFigures) {
 		r.add(&g)
 		r.FMax[si] = g.fmax
 	}
+	if !ev.plan.hasSimulated() {
+		return
+	}
+	if !r.Pass {
+		return // the simulated checks stay not run (group)
+	}
+	n = len(ev.plan.Global)
+	for si := range ev.plan.Stages {
+		sp := &ev.plan.Stages[si]
+		if sp.simulatedChecks() > 0 {
+			ev.simGroup(&g, r.Checks[n:n+len(sp.Requirements)], sp, r, f)
+			r.add(&g)
+		}
+		n += len(sp.Requirements)
+	}
+}
+
+// hasSimulated reports whether a stage of the plan has a simulated check.
+func (p *Plan) hasSimulated() bool {
+	for si := range p.Stages {
+		if p.Stages[si].simulatedChecks() > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// simulatedChecks counts the stage's simulated requirements.
+func (sp *StagePlan) simulatedChecks() int {
+	n := 0
+	for i := range sp.Requirements {
+		if sp.Requirements[i].Simulated {
+			n++
+		}
+	}
+	return n
+}
+
+// simGroup runs the simulated checks of stage sp into their slots of
+// checks (the stage's checks, in requirement order) and sums them into g.
+func (ev *evaluator) simGroup(g *groupSum, checks []Check, sp *StagePlan, r *Result, f *PartFigures) {
+	*g = groupSum{margin: math.NaN(), fmax: math.NaN()}
+	for i := range sp.Requirements {
+		if q := &sp.Requirements[i]; q.Simulated {
+			ev.check(&checks[i], q, sp, r.Part, f, r)
+			ev.count(g, &checks[i], q)
+		}
+	}
 }
 
 // totals fills the part's package count, cost and supply current.
@@ -142,25 +193,38 @@ func (ev *evaluator) group(g *groupSum, checks []Check, reqs []Requirement, sp *
 	*g = groupSum{margin: math.NaN(), fmax: math.NaN()}
 	for i := range reqs {
 		q, c := &reqs[i], &checks[i]
+		if q.Simulated {
+			// The second pass (simGroup) fills it in for a part that
+			// passes every closed-form check; for any other it stays not
+			// run, counted nowhere.
+			*c = Check{Req: q, Required: q.Value, Available: math.NaN(), AvailLow: math.NaN(), AvailHigh: math.NaN(),
+				Margin: math.NaN(), Status: StatusUnknown, NotRun: true, Note: noteNotSimulated}
+			continue
+		}
 		ev.check(c, q, sp, r.Part, f, r)
-		switch c.Status {
-		case StatusFail:
-			g.failed++
-			g.fail = true
-		case StatusUnknown:
-			g.unknown++
-			if ev.strict {
-				c.Note = noteStrict
-				g.fail = true
-			}
-		}
-		if c.HasMargin() && (math.IsNaN(g.margin) || c.Margin < g.margin) {
-			g.margin = c.Margin
-			g.binding = Binding{Stage: q.Stage, Key: q.Key}
-		}
+		ev.count(g, c, q)
 	}
 	if sp != nil {
 		g.fmax = stageFMax(sp, f)
+	}
+}
+
+// count adds one evaluated check c of requirement q into g.
+func (ev *evaluator) count(g *groupSum, c *Check, q *Requirement) {
+	switch c.Status {
+	case StatusFail:
+		g.failed++
+		g.fail = true
+	case StatusUnknown:
+		g.unknown++
+		if ev.strict {
+			c.Note = noteStrict
+			g.fail = true
+		}
+	}
+	if c.HasMargin() && (math.IsNaN(g.margin) || c.Margin < g.margin) {
+		g.margin = c.Margin
+		g.binding = Binding{Stage: q.Stage, Key: q.Key}
 	}
 }
 
@@ -269,6 +333,12 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 		ev.numeric(c, q.Bound, Figure{V: p.CLoad.V(), Known: p.CLoad.Known(), Basis: BasisGuaranteed})
 	case KeyDCError:
 		ev.numeric(c, q.Bound, dcError(sp, f))
+	case KeyTHD:
+		fig := ev.simulatedFigure(q, sp, p, f)
+		ev.numeric(c, q.Bound, fig)
+		if !fig.Known {
+			c.Note = fig.Note
+		}
 	case KeySupplyCurrent:
 		fig := f.Iq
 		fig.V = r.SupplyCurrent

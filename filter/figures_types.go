@@ -3,15 +3,20 @@ package filter
 // Basis says what a worst-case figure rests on.
 type Basis uint8
 
-// The bases a figure may have, weakest last.
+// The bases a figure may have, weakest last among the catalog's own.
+// BasisSimulated is a check's figure measured by the time-domain model
+// (filter/sim) run on the worst-case figures, not a catalog figure: it
+// comes after the others only to keep their order.
 const (
 	BasisNone       Basis = iota // the catalog lacks the figure
 	BasisGuaranteed              // a guaranteed limit (min/max, or over temperature)
 	BasisTypical                 // a typical table figure, derated or inflated
 	BasisGraph                   // a typical figure read off a graph, derated or inflated
+	BasisSimulated               // measured by simulation at worst-case figures (the thd check)
 )
 
-// String returns "guaranteed", "typical", "graph" or "" for BasisNone.
+// String returns "guaranteed", "typical", "graph", "simulated" or "" for
+// BasisNone.
 func (b Basis) String() string {
 	switch b {
 	case BasisGuaranteed:
@@ -20,6 +25,8 @@ func (b Basis) String() string {
 		return "typical"
 	case BasisGraph:
 		return "graph"
+	case BasisSimulated:
+		return "simulated"
 	}
 	return ""
 }

@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"sync/atomic"
 
 	"github.com/opsift/opsift/catalog"
 )
@@ -26,7 +27,10 @@ import (
 //     design-level inputs stay the same, and evaluated part by part only
 //     as far as they are asked for: Rank evaluates a stage only for the
 //     candidates that passed the stages before it, Ranked and Evaluate for
-//     every part.
+//     every part;
+//   - each part's simulated checks (thd) of a stage, with that stage's
+//     checks: run in a second pass only for the parts that pass every
+//     closed-form check, and only once per part while the stage is kept.
 //
 // Its results are those of Evaluate with Options.Summary, bit for bit.
 // Work is split over the CPUs. Its methods may be called from several
@@ -82,6 +86,13 @@ type stageGroup struct {
 	sums []groupSum
 	have []bool // have[k]: sums[k] is evaluated for key
 	all  bool   // every have is true
+	// nsim counts the stage's simulated checks; sims holds each part's
+	// sum of them and simFigs their figures (nsim per part), filled in by
+	// the second pass (simulated[k] says which).
+	nsim      int
+	sims      []groupSum
+	simFigs   []Figure
+	simulated []bool
 }
 
 type partTotals struct {
@@ -206,6 +217,11 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) err
 			} else {
 				clear(g.have)
 			}
+			g.nsim, g.sims, g.simFigs, g.simulated = 0, nil, nil, nil
+			if k := plan.Stages[i].simulatedChecks(); k > 0 {
+				g.nsim, g.sims, g.simulated = k, make([]groupSum, n), make([]bool, n)
+				g.simFigs = make([]Figure, n*k)
+			}
 		}
 		if !g.all {
 			redo = append(redo, i)
@@ -213,7 +229,7 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) err
 	}
 	in.stages = stages
 	if len(redo) == 0 {
-		return nil
+		return in.simulate(ctx, plan)
 	}
 	work := len(in.global.cand)
 	if every {
@@ -253,11 +269,13 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) err
 			stages[i].all = true
 		}
 	}
-	return nil
+	return in.simulate(ctx, plan) // the simulations finished are kept
 }
 
 // result assembles the summary result of part k from the kept groups,
 // with fmax (one per stage) as its FMax. Every stage group must have k.
+// The simulated checks of a part that passes every closed-form group are
+// added after those groups, as Evaluate adds them.
 func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	t := in.global.totals[k]
 	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
@@ -267,6 +285,14 @@ func (in *Incremental) result(r *Result, k int, fmax []float64) {
 		g := &in.stages[i].sums[k]
 		r.add(g)
 		r.FMax[i] = g.fmax
+	}
+	if !r.Pass {
+		return // the simulated checks were not run
+	}
+	for i := range in.stages {
+		if st := &in.stages[i]; st.nsim > 0 {
+			r.add(&st.sims[k])
+		}
 	}
 }
 
@@ -282,8 +308,26 @@ func (in *Incremental) failsKept(k int) bool {
 }
 
 // passes reports whether candidate k passes every stage evaluated so far
-// (after a candidates-only evaluate: every stage).
+// (after a candidates-only evaluate: every stage), its simulated checks
+// included.
 func (in *Incremental) passes(k int) bool {
+	if !in.closedPass(k) {
+		return false
+	}
+	for i := range in.stages {
+		if g := &in.stages[i]; g.nsim > 0 && (!g.simulated[k] || g.sims[k].fail) {
+			return false
+		}
+	}
+	return true
+}
+
+// closedPass reports whether part k passes the design-level group and
+// every stage group, each evaluated for it (the closed-form checks).
+func (in *Incremental) closedPass(k int) bool {
+	if in.global.sums[k].fail {
+		return false
+	}
 	for i := range in.stages {
 		if g := &in.stages[i]; !g.have[k] || g.sums[k].fail {
 			return false
@@ -411,6 +455,101 @@ func inParallel(ctx context.Context, n int, work func(lo, hi int)) error {
 					return
 				}
 				work(lo, hi)
+			}
+		})
+	}
+	wg.Wait()
+	return ctx.Err()
+}
+
+// lendSims puts the figures of the simulations kept from earlier plans
+// into plan's memo, so that Explain on plan finds them.
+func (in *Incremental) lendSims(plan *Plan) {
+	if plan.sims == nil {
+		return
+	}
+	for i := range in.stages {
+		st := &in.stages[i]
+		if st.nsim == 0 {
+			continue
+		}
+		sp := &plan.Stages[i]
+		for k, done := range st.simulated {
+			if !done {
+				continue
+			}
+			j := 0
+			for q := range sp.Requirements {
+				if sp.Requirements[q].Simulated {
+					plan.sims.put(&sp.Requirements[q], in.parts[k], st.simFigs[k*st.nsim+j])
+					j++
+				}
+			}
+		}
+	}
+}
+
+// simulate is the second pass: it runs the simulated checks of every
+// stage that has them for each part that passes every closed-form check
+// and has not been simulated in that stage yet. The parts are spread over
+// the CPUs one at a time (a simulation costs milliseconds); a cancelled
+// ctx stops it between parts, and the parts finished are kept. The caller
+// holds in.mu.
+func (in *Incremental) simulate(ctx context.Context, plan *Plan) error {
+	if !plan.hasSimulated() {
+		return nil
+	}
+	in.lendSims(plan)
+	var todo []int
+	for k := range in.parts {
+		if !in.closedPass(k) {
+			continue
+		}
+		for i := range in.stages {
+			if in.stages[i].nsim > 0 && !in.stages[i].simulated[k] {
+				todo = append(todo, k)
+				break
+			}
+		}
+	}
+	if len(todo) == 0 {
+		return ctx.Err()
+	}
+	ev := evaluator{plan: plan, strict: in.strict, summary: true}
+	maxReqs := 0
+	for i := range plan.Stages {
+		maxReqs = max(maxReqs, len(plan.Stages[i].Requirements))
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(todo)) {
+		wg.Go(func() {
+			scratch := make([]Check, maxReqs)
+			var r Result
+			for ctx.Err() == nil {
+				j := int(next.Add(1)) - 1
+				if j >= len(todo) {
+					return
+				}
+				k := todo[j]
+				t := in.global.totals[k]
+				r = Result{Part: in.parts[k], Packages: t.packages, Cost: t.cost, SupplyCurrent: t.current}
+				for i := range in.stages {
+					st := &in.stages[i]
+					if st.nsim == 0 || st.simulated[k] {
+						continue
+					}
+					sp := &plan.Stages[i]
+					ev.simGroup(&st.sims[k], scratch, sp, &r, &in.figs[k])
+					j := 0
+					for q := range sp.Requirements {
+						if sp.Requirements[q].Simulated {
+							st.simFigs[k*st.nsim+j], _ = plan.sims.get(&sp.Requirements[q], in.parts[k])
+							j++
+						}
+					}
+					st.simulated[k] = true
+				}
 			}
 		})
 	}

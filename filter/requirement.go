@@ -29,6 +29,9 @@ const (
 	KeyAol           Key = "aol"
 	KeyVos           Key = "vos" // direct stages: vos_max
 	KeyIb            Key = "ib"  // direct stages: ib_max
+	// KeyTHD is checked by simulation (Requirement.Simulated), not by a
+	// closed form: the output THD the time-domain model measures.
+	KeyTHD Key = "thd"
 )
 
 // Bound says how a requirement compares.
@@ -91,6 +94,11 @@ type Requirement struct {
 	// (the transimpedance Cf, the relaxation stage's predicted frequency).
 	// It runs only when checks are kept (not in Options.Summary).
 	Aside func(p *catalog.Part, f *PartFigures) Aside
+	// Simulated marks a check made by running the time-domain model
+	// (filter/sim) at worst-case figures: a second pass, made only for the
+	// parts that pass every other check (see Evaluate). Its basis is
+	// BasisSimulated.
+	Simulated bool
 }
 
 // Aside is a per-part quantity reported beside a check, V in SI units of
@@ -239,6 +247,10 @@ type Plan struct {
 	// beyond the rails, no temperature range); FilterWarnings adds those
 	// that need the catalog.
 	Warnings []Warning
+	// sims keeps the figures of the plan's simulated checks by
+	// requirement and part, so Explain does not simulate again what the
+	// ranking did (nil: nothing is kept).
+	sims *simMemo
 }
 
 // Requirements returns every requirement of the plan: design-level first,

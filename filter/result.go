@@ -10,7 +10,8 @@ import (
 type Status uint8
 
 // The outcomes of a check. StatusUnknown means the catalog lacks a figure
-// the check needs: neither pass nor fail unless Options.Strict.
+// the check needs: neither pass nor fail unless Options.Strict; or, with
+// Check.NotRun, a simulated check not run on a part that fails anyway.
 const (
 	StatusPass Status = iota
 	StatusFail
@@ -42,6 +43,11 @@ type Check struct {
 	Pass                bool
 	Status              Status
 	Basis               Basis
+	// NotRun marks a simulated check (Requirement.Simulated) left out
+	// because the part fails a closed-form check: Status is unknown, but
+	// it is not a missing figure, so it is not counted in Result.Unknown
+	// and does not fail under Options.Strict.
+	NotRun bool
 	// Note explains an adjustment or why the check is unknown; constant text.
 	Note string
 	// Aside is the requirement's per-part quantity (Requirement.Aside),

@@ -40,7 +40,7 @@ func loadParams() []Param {
 			Help: "allowed output-referred DC error; no check when not given"},
 		{Key: "noise", Label: "allowed noise", Kind: Quantity, Dim: catalog.Volt,
 			Help: "allowed output noise, V rms over noise_band (else the closed-loop bandwidth); no check when not given"},
-		noiseBandParam(), noiseOrderParam(),
+		noiseBandParam(), noiseOrderParam(), thdParam(),
 	}
 }
 
@@ -248,6 +248,13 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 	}
 	if a.invR > 0 {
 		useInvertingInputR(&sp, a.invR, a.invName)
+	}
+	thd, err := readTHD(in, sp.Shape)
+	if err != nil {
+		return sp, err
+	}
+	if thd > 0 {
+		add(thdRequirement(thd))
 	}
 	return sp, nil
 }

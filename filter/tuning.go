@@ -42,6 +42,38 @@ const (
 	// evaluating a few hundred parts.
 	parallelMin = 1000
 
+	// assumedAolDB is the open-loop gain a simulation (the waveform
+	// preview, the thd check) uses when the catalog has none (dB). It sets
+	// only the DC error of the loop (1/Aol); 100 dB is a common
+	// general-purpose figure (common practice, no source), and the notes
+	// say it was assumed.
+	assumedAolDB = 100.0
+
+	// thdPointsPerPeriod is the fixed grid of the thd check's simulation
+	// (points per period): the model's default first grid, without the
+	// adaptive doubling the preview uses, so the check costs one run.
+	// 400 samples per period put harmonic 10 far below the DFT's Nyquist
+	// bin (200); the chord error (3e-5 of the peak) lands on the
+	// fundamental's aliases (399, 401), not on harmonics 2…10. The tests
+	// check the measured THD of a triangle and of a clipped sine against
+	// their Fourier series to 1e-3 relative (thd_test.go).
+	thdPointsPerPeriod = 400
+	// thdSettlePeriods are run before the THD window (periods): the
+	// model's default, which brings a follower far past its full-power
+	// bandwidth within a small fraction of a percent.
+	thdSettlePeriods = 20
+	// thdFloor is the smallest THD the thd check reports (fraction,
+	// 0.0001 %): a measured THD under it is reported as thdFloor, an upper
+	// bound. The model's only distortions are the slew clamp and the
+	// swing limits; a sine that reaches neither measures 1e-16 … 1e-12
+	// (rounding), and a number like 4e-14 % would read as a claim about
+	// the part. 1e-6 is far above that rounding and far below any limit
+	// a design states (0.001 % and up).
+	thdFloor = 1e-6
+	// thdMeasurePeriods is the THD window, whole periods: the model's
+	// default; on whole periods every harmonic falls on a DFT bin.
+	thdMeasurePeriods = 5
+
 	// The waveform preview's choices where a stage gives no value for
 	// the model to run with (StagePlan.Circuit); the notes state them.
 

@@ -30,7 +30,7 @@ func checkColumns() []column {
 		{title: "required", width: 13, prio: 90, right: true},
 		{title: "available", width: 13, prio: 89, right: true},
 		{title: "margin", width: 6, prio: 95, right: true},
-		{title: "basis", width: 10, prio: 50},
+		{title: "basis", width: 11, prio: 50}, // "s simulated"
 		{title: "note", width: 8, prio: 1, flex: true},
 	}
 }
@@ -187,7 +187,9 @@ func (p *checksPane) groupLine(r *filter.Result, stage string, w int) string {
 			}
 			fails = append(fails, f)
 		case filter.StatusUnknown:
-			unknown++
+			if !c.NotRun {
+				unknown++
+			}
 		}
 	}
 	verdict := st.Pass.Render("✓ pass")

@@ -279,6 +279,7 @@ func (m *Model) helpPages(w, h int) [][]string {
 		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
 		"~ typical figure, derated or inflated by the design's policy",
 		"g typical figure read off a datasheet graph",
+		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
 		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
 		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
 		"● modified: the design has edits not saved (w saves in place, u undoes)",

@@ -16,7 +16,8 @@ const compareUsage = `Usage: opsift compare PART-ID PART-ID... [--design FILE] [
 
 Lay 2 to 6 parts side by side for a design: one row per worst-case
 figure (the value the design's policy gives, with its basis: unmarked
-guaranteed, ~ typical, g read off a graph) and one per design check (the margin), the
+guaranteed, ~ typical, g read off a graph) and one per design check (the margin;
+s marks a check measured by simulation, thd), the
 best value of each row marked ◆ (md: bold and ◆; csv: a best column; json:
 "best"). Rows whose differences decide the choice come first: checks some
 of the parts fail, then checks and figures by how far apart they lie.

@@ -19,6 +19,9 @@ last column of every row), json (SI units), md (a shortlist for design
 review), toml (the ranked parts as a catalog file). json and md give each
 passing candidate's headroom: for every design input, moved alone, the
 value at which the part fails and the requirement that breaks there.
+A stage's thd limit is checked by simulation (basis simulated) for the
+parts that pass every other check; on such a design rank and its headroom
+search take longer (--no-headroom leaves the search out).
 --bom starts csv with a UTF-8 byte-order mark for spreadsheets (without it
 some read µ, ° and √ wrongly). Tables are fitted to the terminal
 ($COLUMNS); written to a file or a pipe they are not shortened. Sort keys: margin

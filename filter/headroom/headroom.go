@@ -233,7 +233,7 @@ func breaking(r *filter.Result, strict bool) (filter.Binding, []filter.Binding) 
 	var all []filter.Binding
 	for i := range r.Checks {
 		c := &r.Checks[i]
-		if c.Status == filter.StatusPass || c.Status == filter.StatusUnknown && !strict {
+		if c.Status == filter.StatusPass || c.Status == filter.StatusUnknown && (!strict || c.NotRun) {
 			continue
 		}
 		b := filter.Binding{Stage: c.Stage(), Key: c.Key()}

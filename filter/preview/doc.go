@@ -3,8 +3,8 @@
 // stage's circuit and drive from the stage kind (StagePlan.Circuit, built in
 // the kind's filter/stage_<kind>.go from the circuit its derivation
 // resolved), builds the part's amp from the same worst-case figures the
-// engine's margins use (filter.Figures), or from its typical figures on
-// request, and runs the model.
+// engine's margins use (filter.BuildAmp, which the thd check uses too), or
+// from its typical figures on request, and runs the model.
 //
 //	Plan ─► StagePlan.Circuit (ref, R/C, signal) ─► sim.Circuit + sim.Input ─────┐
 //	Part ─► filter.Figures (worst case) | typical  ─► sim.Amp (Aol, GBW, SR,    ├─► sim.Run ─► Result

@@ -30,6 +30,11 @@ type Options struct {
 	Sim sim.Options
 }
 
+// Figure is one part figure the preview used, as it was resolved
+// (filter.SimFigure: the preview and the simulated thd check build their
+// amp the same way, filter.BuildAmp).
+type Figure = filter.SimFigure
+
 // Result is one part run in one stage.
 type Result struct {
 	Part  *catalog.Part
@@ -70,11 +75,11 @@ func Run(plan *filter.Plan, stage string, part *catalog.Part, opts Options) (*Re
 		return nil, fmt.Errorf("stage %q: stage kind %s has %w (pick a stage of kind %s)",
 			sp.Name, sp.Kind, filter.ErrNoWaveform, strings.Join(filter.WaveformKinds(), ", "))
 	}
-	ab, err := buildAmp(plan, sp, part, opts.Typical)
+	ab, err := filter.BuildAmp(plan, sp, part, opts.Typical)
 	if err != nil {
 		return nil, fmt.Errorf("stage %q: %w", sp.Name, err)
 	}
-	sb, err := sp.Circuit(part, &ab.worst)
+	sb, err := sp.Circuit(part, &ab.Worst)
 	if err != nil {
 		return nil, err
 	}
@@ -82,19 +87,19 @@ func Run(plan *filter.Plan, stage string, part *catalog.Part, opts Options) (*Re
 	if so.Duration == 0 {
 		so.Duration = sb.Duration
 	}
-	w, err := sim.Run(sb.Circuit, ab.amp, sb.Input, so)
+	w, err := sim.Run(sb.Circuit, ab.Amp, sb.Input, so)
 	if err != nil {
 		return nil, fmt.Errorf("stage %q: part %q: %w", sp.Name, part.ID, err)
 	}
-	res := &Result{Part: part, Stage: sp.Name, Kind: sp.Kind, Basis: WorstCase, Figures: ab.figs,
-		Amp: ab.amp, Circuit: sb.Circuit, Input: sb.Input, InTrace: sb.InTrace, Metrics: w.Metrics, Waveform: w}
+	res := &Result{Part: part, Stage: sp.Name, Kind: sp.Kind, Basis: WorstCase, Figures: ab.Figures,
+		Amp: ab.Amp, Circuit: sb.Circuit, Input: sb.Input, InTrace: sb.InTrace, Metrics: w.Metrics, Waveform: w}
 	if opts.Typical {
 		res.Basis = Typical
 	}
-	res.Notes = append(res.Notes, ab.notes...)
+	res.Notes = append(res.Notes, ab.Notes...)
 	res.Notes = append(res.Notes, sb.Notes...)
 	res.Notes = append(res.Notes, w.Metrics.Notes...)
-	res.Notes = append(res.Notes, ab.checkCM(&w.Metrics)...)
+	res.Notes = append(res.Notes, ab.CheckCM(&w.Metrics)...)
 	return res, nil
 }
 

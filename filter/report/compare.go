@@ -39,7 +39,7 @@ const BestMark = "◆"
 
 // compareLegend explains the mark and the basis letters.
 const compareLegend = BestMark + " best in the row. Basis: unmarked guaranteed limit, ~ typical figure × the design's policy, " +
-	"g typical read off a graph × the policy; — the catalog does not give it; ? a check its figures cannot decide. Rows whose differences decide the choice come first: " +
+	"g typical read off a graph × the policy; — the catalog does not give it; ? a check its figures cannot decide; s a check measured by simulation (thd). Rows whose differences decide the choice come first: " +
 	"checks some parts fail, then checks and figures by how far apart they lie; rows with no difference last."
 
 // compareCell renders one cell for people: a figure with its basis
@@ -56,6 +56,9 @@ func compareCell(r *compare.Row, c compare.Cell) string {
 		s = present.Margin(c.V)
 		if c.Status == filter.StatusFail {
 			s += " fail"
+		}
+		if c.Basis == filter.BasisSimulated {
+			s = WithBasis(s, c.Basis)
 		}
 	case !c.Known:
 		s = "—"
@@ -85,7 +88,7 @@ func (c markCell) plain() string {
 
 // CompareKey is the one-line key of the compare view's marks, for a pane
 // too narrow for the whole legend.
-const CompareKey = BestMark + " best · unmarked guaranteed · ~ typical × policy · g read off a graph · — not given"
+const CompareKey = BestMark + " best · unmarked guaranteed · ~ typical × policy · g read off a graph · s simulated · — not given"
 
 // compareSummary is the head of every compare format: passes, worst
 // margin (best marked) and binding check per part.

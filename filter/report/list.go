@@ -57,7 +57,8 @@ func WriteList(w io.Writer, f Format, doc *ListDoc) error {
 
 // BasisMark is the one mark every output (tables, md, the selector) puts
 // after a figure to say what it rests on: "" a guaranteed limit (or not a
-// datasheet figure), "~" a typical figure, "g" a typical read off a graph.
+// datasheet figure), "~" a typical figure, "g" a typical read off a graph,
+// "s" a check measured by simulation (the thd check; never a catalog figure).
 // BasisLegend explains the marks.
 func BasisMark(b filter.Basis) string {
 	switch b {
@@ -65,6 +66,8 @@ func BasisMark(b filter.Basis) string {
 		return "~"
 	case filter.BasisGraph:
 		return "g"
+	case filter.BasisSimulated:
+		return "s"
 	}
 	return ""
 }

@@ -194,7 +194,7 @@ func failingOrUnknown(r *filter.Result, strict bool) []*filter.Check {
 	}
 	if strict {
 		for i := range r.Checks {
-			if r.Checks[i].Status == filter.StatusUnknown {
+			if r.Checks[i].Status == filter.StatusUnknown && !r.Checks[i].NotRun {
 				out = append(out, &r.Checks[i])
 			}
 		}
