@@ -54,9 +54,10 @@ func AppendPart(data []byte, p *Part) ([]byte, error) {
 
 // ReplacePart returns data with the [[part]] table of the part with id
 // replaced by p's table (as Encode writes it), every byte outside that
-// table kept. The table's text runs from its header to the end of the line
+// table kept. The table's keys run from the line after its [[part]]
+// header (kept as written, with its comment) to the end of the line
 // holding its last value, so the comments and blank lines before the next
-// table stay where they are; comments inside the replaced table are not
+// table stay where they are; comments among the replaced keys are not
 // kept. It is an error when no valid part of data has id, or when the
 // result would not read back p.
 func ReplacePart(data []byte, id string, p *Part) ([]byte, error) {
@@ -65,6 +66,7 @@ func ReplacePart(data []byte, id string, p *Part) ([]byte, error) {
 		return nil, err
 	}
 	table := encodeOne(p, data)
+	table = table[bytes.IndexByte(table, '\n')+1:] // the header stays as written
 	if end == len(data) && !bytes.HasSuffix(data, []byte("\n")) {
 		table = bytes.TrimRight(table, "\r\n")
 	}
@@ -78,8 +80,8 @@ func ReplacePart(data []byte, id string, p *Part) ([]byte, error) {
 var ErrPartNotInFile = errors.New("no such part in the file")
 
 // partSpan is the byte range [start, end) of the [[part]] table of the
-// valid part id in data: from its header's "[" to the end of the line of
-// its last value (its newline included).
+// valid part id in data: from the line after its [[part]] header to the
+// end of the line of its last value (its newline included).
 func partSpan(data []byte, id string) (start, end int, err error) {
 	parts, _ := Decode("", data)
 	line := 0
@@ -101,6 +103,11 @@ func partSpan(data []byte, id string) (start, end int, err error) {
 	})
 	if found < 0 {
 		return 0, 0, fmt.Errorf("part %q: its table was not found on line %d: %w", id, line, ErrPartNotInFile)
+	}
+	if i := bytes.IndexByte(data[start:], '\n'); i >= 0 {
+		start += i + 1
+	} else {
+		start = len(data)
 	}
 	end = start
 	var walk func(path string)

@@ -27,6 +27,7 @@ func commands() []command {
 		{"init", "write a starter catalog and design to edit", runInit},
 		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
+		{"add", "enter a new part in the selector's entry form and save it into a catalog file", runAdd},
 	}
 }
 
