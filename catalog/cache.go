@@ -185,14 +185,14 @@ func encodeEntry(k cacheKey, parts []*Part) []byte {
 		slots := opts
 		mask := make([]byte, (len(slots)+7)/8)
 		for i, o := range slots {
-			if o.Set {
+			if o.Known() {
 				mask[i/8] |= 1 << (i % 8)
 			}
 		}
 		b = append(b, mask...)
 		for _, o := range slots {
-			if o.Set {
-				b = binary.LittleEndian.AppendUint64(b, math.Float64bits(o.V))
+			if o.Known() {
+				b = binary.LittleEndian.AppendUint64(b, math.Float64bits(o.V()))
 			}
 		}
 		srcs = sourceSlots(p, srcs)

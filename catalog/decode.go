@@ -432,7 +432,7 @@ func (d *partDecoder) tempRange(key string, v any) [2]Opt {
 	for i, name := range []string{"low", "high"} {
 		r[i] = d.quantity(key, name, map[string]any{name: l[i]}, Celsius)
 	}
-	if !r[0].Set || !r[1].Set {
+	if !r[0].Known() || !r[1].Known() {
 		return [2]Opt{}
 	}
 	return r

@@ -117,10 +117,10 @@ func TestDecodeContract(t *testing.T) {
 	}
 	for _, c := range checks {
 		t.Run(c.name, func(t *testing.T) {
-			if !c.got.Set {
+			if !c.got.Known() {
 				t.Fatal("not set")
 			}
-			assertNear(t, c.got.V, c.want, 1e-12)
+			assertNear(t, c.got.V(), c.want, 1e-12)
 		})
 	}
 	if p.ID != "xq4-bip" || p.Tech != TechBipolar || p.Channels != 4 || p.Pinout != "quad-a" ||
@@ -128,7 +128,7 @@ func TestDecodeContract(t *testing.T) {
 		p.Slew.Source != SourceGraph || p.Datasheet == "" || p.Notes != "..." {
 		t.Errorf("identity fields wrong: %+v", p)
 	}
-	if p.Aol.Max.Set || p.GBW.Max.Set || p.Slew.Min.Set {
+	if p.Aol.Max.Known() || p.GBW.Max.Known() || p.Slew.Min.Known() {
 		t.Error("figures not in the file are set")
 	}
 	if parts[1].Lifecycle != LifecycleActive {

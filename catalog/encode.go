@@ -50,11 +50,11 @@ func encodePart(w *bufio.Writer, p *Part) {
 	}
 	str("pinout", p.Pinout)
 	str("lifecycle", string(p.Lifecycle))
-	if p.UnitCost.Set {
-		fmt.Fprintf(w, "unit_cost = %s\n", tomlFloat(p.UnitCost.V))
+	if p.UnitCost.Known() {
+		fmt.Fprintf(w, "unit_cost = %s\n", tomlFloat(p.UnitCost.V()))
 	}
-	if p.Temp[0].Set && p.Temp[1].Set {
-		fmt.Fprintf(w, "temp = [%s, %s]\n", quoteTOML(Exact(p.Temp[0].V, Celsius)), quoteTOML(Exact(p.Temp[1].V, Celsius)))
+	if p.Temp[0].Known() && p.Temp[1].Known() {
+		fmt.Fprintf(w, "temp = [%s, %s]\n", quoteTOML(Exact(p.Temp[0].V(), Celsius)), quoteTOML(Exact(p.Temp[1].V(), Celsius)))
 	}
 	inline(w, "supply", "", []kv{{"min", p.Supply.Min, Volt}, {"max", p.Supply.Max, Volt}})
 	inline(w, "input_cm", p.InputCM.Source, []kv{{"low", p.InputCM.Low, Volt}, {"high", p.InputCM.High, Volt}})
@@ -67,8 +67,8 @@ func encodePart(w *bufio.Writer, p *Part) {
 		})
 	}
 	for _, s := range scalars {
-		if o := s.opt(p); o.Set {
-			fmt.Fprintf(w, "%s = %s\n", s.key, quoteTOML(Exact(o.V, s.dim)))
+		if o := s.opt(p); o.Known() {
+			fmt.Fprintf(w, "%s = %s\n", s.key, quoteTOML(Exact(o.V(), s.dim)))
 		}
 	}
 	str("datasheet", p.Datasheet)
@@ -87,8 +87,8 @@ type kv struct {
 func inline(w *bufio.Writer, key string, src Source, vals []kv) {
 	var parts []string
 	for _, e := range vals {
-		if e.v.Set {
-			parts = append(parts, e.key+" = "+quoteTOML(Exact(e.v.V, e.dim)))
+		if e.v.Known() {
+			parts = append(parts, e.key+" = "+quoteTOML(Exact(e.v.V(), e.dim)))
 		}
 	}
 	if src != "" {

@@ -34,7 +34,7 @@ slew = { typ = "1 MHz" }
 	parts, err := catalog.Decode("parts.toml", []byte(file))
 	for _, p := range parts {
 		// 1.5 V/µs is 1.5e6 V/s; the guaranteed GBW is 2e6 Hz.
-		fmt.Printf("%s: slew %g V/s typical, gbw %g Hz guaranteed\n", p.ID, p.Slew.Typ.V, p.GBW.Min.V)
+		fmt.Printf("%s: slew %g V/s typical, gbw %g Hz guaranteed\n", p.ID, p.Slew.Typ.V(), p.GBW.Min.V())
 	}
 	var probs catalog.Problems
 	if errors.As(err, &probs) {

@@ -273,7 +273,7 @@ func (c *Catalog) count() {
 				continue
 			}
 			c.Figures++
-			if !s.Min.Set && !s.Max.Set && !s.MinOT.Set && !s.MaxOT.Set {
+			if !s.Min.Known() && !s.Max.Known() && !s.MinOT.Known() && !s.MaxOT.Known() {
 				c.TypicalOnly++
 			}
 			switch s.Source {

@@ -73,7 +73,7 @@ func TestLoadLayers(t *testing.T) {
 	if got := strings.Join(ids, " "); got != "aa-1 bb-1 cc-1 dd-1" {
 		t.Errorf("parts %s, want aa-1 bb-1 cc-1 dd-1 (first-appearance order)", got)
 	}
-	if p := c.ByID("bb-1"); p == nil || p.Slew.Typ.V != 20e6 || !strings.HasSuffix(p.Pos.File, "over.toml") {
+	if p := c.ByID("bb-1"); p == nil || p.Slew.Typ.V() != 20e6 || !strings.HasSuffix(p.Pos.File, "over.toml") {
 		t.Errorf("bb-1 not overridden by the later layer: %+v", p)
 	}
 	if c.ByID("zz") != nil {

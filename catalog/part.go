@@ -1,6 +1,8 @@
 package catalog
 
 import (
+	"math"
+	"strconv"
 	"strings"
 	"unicode"
 )
@@ -8,12 +10,45 @@ import (
 // Opt is an optional number: a figure the catalog may or may not give.
 // The zero value is "not given".
 type Opt struct {
-	V   float64 // value in SI units of the field's Dim
-	Set bool    // false when the catalog does not give the figure
+	// bits is the value's IEEE 754 bit pattern XOR unsetBits, so the zero
+	// Opt is the unset one and a set figure costs eight bytes, not sixteen
+	// (a part holds 70 of them).
+	bits uint64
 }
 
+// unsetBits is the bit pattern of a quiet NaN that arithmetic does not
+// produce; Some stores math.NaN() in its place, so it only ever means
+// "unset" (stored XORed to zero).
+const unsetBits = 0x7ff8_dead_0000_0000
+
 // Some returns a set Opt holding v.
-func Some(v float64) Opt { return Opt{V: v, Set: true} }
+func Some(v float64) Opt {
+	b := math.Float64bits(v)
+	if b == unsetBits {
+		b = math.Float64bits(math.NaN())
+	}
+	return Opt{bits: b ^ unsetBits}
+}
+
+// Known reports whether the catalog gives the figure.
+func (o Opt) Known() bool { return o.bits != 0 }
+
+// V returns the value in SI units of the field's Dim, or 0 when the figure
+// is not given.
+func (o Opt) V() float64 {
+	if o.bits == 0 {
+		return 0
+	}
+	return math.Float64frombits(o.bits ^ unsetBits)
+}
+
+// String formats the value as %g would, or "unset".
+func (o Opt) String() string {
+	if !o.Known() {
+		return "unset"
+	}
+	return strconv.FormatFloat(o.V(), 'g', -1, 64)
+}
 
 // Source says where a figure was read from: a datasheet table (guaranteed or
 // typical), a graph (typical, read off a curve), or an estimate.
@@ -42,7 +77,7 @@ type Spec struct {
 
 // Known reports whether the spec holds any figure at all.
 func (s Spec) Known() bool {
-	return s.Typ.Set || s.Min.Set || s.Max.Set || s.MinOT.Set || s.MaxOT.Set
+	return s.Typ.Known() || s.Min.Known() || s.Max.Known() || s.MinOT.Known() || s.MaxOT.Known()
 }
 
 // Tech is the input-stage technology of a part.

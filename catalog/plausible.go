@@ -62,13 +62,13 @@ func outside(key string, v float64) bool {
 func (c *checker) plausibility() {
 	p := c.p
 	check := func(key, name string, o Opt, dim Dim, rangeKey string) {
-		if o.Set && outside(rangeKey, o.V) {
+		if o.Known() && outside(rangeKey, o.V()) {
 			what := name + " "
 			if name == "" {
 				what = ""
 			}
 			c.add(key, "%s%s is outside the plausible range %s for %s; check the unit prefix",
-				what, formatAny(o.V, dim), plausible[rangeKey].text, key)
+				what, formatAny(o.V(), dim), plausible[rangeKey].text, key)
 		}
 	}
 	for _, f := range figures {

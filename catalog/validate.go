@@ -26,8 +26,8 @@ func validate(p *Part, index int, skip map[string]bool) Problems {
 		c.figure(f)
 	}
 	for _, s := range scalars {
-		if o := *s.opt(p); o.Set && o.V <= 0 {
-			c.add(s.key, "%s is not positive", Format(o.V, s.dim))
+		if o := *s.opt(p); o.Known() && o.V() <= 0 {
+			c.add(s.key, "%s is not positive", Format(o.V(), s.dim))
 		}
 	}
 	c.plausibility()
@@ -110,8 +110,8 @@ func (c *checker) identity() {
 		c.add("lifecycle", "%q is not a known lifecycle, want one of %s%s",
 			p.Lifecycle, enumList(lifecycles), didYouMean(string(p.Lifecycle), lifecycles))
 	}
-	if p.UnitCost.Set && p.UnitCost.V < 0 {
-		c.add("unit_cost", "%g is negative", p.UnitCost.V)
+	if p.UnitCost.Known() && p.UnitCost.V() < 0 {
+		c.add("unit_cost", "%g is negative", p.UnitCost.V())
 	}
 }
 
@@ -119,51 +119,51 @@ func (c *checker) identity() {
 // output windows.
 func (c *checker) ranges() {
 	p := c.p
-	if lo, hi := p.Temp[0], p.Temp[1]; lo.Set && hi.Set {
+	if lo, hi := p.Temp[0], p.Temp[1]; lo.Known() && hi.Known() {
 		switch {
-		case lo.V < absoluteZero:
-			c.add("temp", "low %s is below absolute zero (%s)", Format(lo.V, Celsius), Format(absoluteZero, Celsius))
-		case lo.V >= hi.V:
-			c.add("temp", "low %s is not below high %s", Format(lo.V, Celsius), Format(hi.V, Celsius))
+		case lo.V() < absoluteZero:
+			c.add("temp", "low %s is below absolute zero (%s)", Format(lo.V(), Celsius), Format(absoluteZero, Celsius))
+		case lo.V() >= hi.V():
+			c.add("temp", "low %s is not below high %s", Format(lo.V(), Celsius), Format(hi.V(), Celsius))
 		}
 	}
 	s := p.Supply
 	switch {
-	case !s.Min.Set && !s.Max.Set:
+	case !s.Min.Known() && !s.Max.Known():
 		c.add("supply", `missing, want the rated span such as { min = "3 V", max = "32 V" }`)
-	case !s.Min.Set:
+	case !s.Min.Known():
 		c.add("supply", "gives max but not min")
-	case !s.Max.Set:
+	case !s.Max.Known():
 		c.add("supply", "gives min but not max")
-	case s.Min.V <= 0:
-		c.add("supply", "min %s is not positive", Format(s.Min.V, Volt))
-	case s.Min.V >= s.Max.V:
-		c.add("supply", "min %s is not below max %s", Format(s.Min.V, Volt), Format(s.Max.V, Volt))
+	case s.Min.V() <= 0:
+		c.add("supply", "min %s is not positive", Format(s.Min.V(), Volt))
+	case s.Min.V() >= s.Max.V():
+		c.add("supply", "min %s is not below max %s", Format(s.Min.V(), Volt), Format(s.Max.V(), Volt))
 	}
 	// A window V− + low … V+ + high must be open at the smallest rated span,
 	// or no signal fits.
 	window := func(key string, low, high Opt) {
 		switch {
-		case !low.Set && !high.Set:
-		case !low.Set:
+		case !low.Known() && !high.Known():
+		case !low.Known():
 			c.add(key, "gives high but not low")
-		case !high.Set:
+		case !high.Known():
 			c.add(key, "gives low but not high")
-		case s.Min.Set && s.Min.V+high.V-low.V <= 0:
+		case s.Min.Known() && s.Min.V()+high.V()-low.V() <= 0:
 			c.add(key, "low %s and high %s leave no room at the minimum supply %s",
-				Format(low.V, Volt), Format(high.V, Volt), Format(s.Min.V, Volt))
+				Format(low.V(), Volt), Format(high.V(), Volt), Format(s.Min.V(), Volt))
 		}
 	}
 	window("input_cm", p.InputCM.Low, p.InputCM.High)
 	c.source("input_cm", p.InputCM.Source)
 	o := p.Output
 	switch {
-	case o.Low.Set && o.Low.V < 0:
-		c.add("output", "low %s is negative; it is how far above V− the output reaches", Format(o.Low.V, Volt))
-	case o.High.Set && o.High.V > 0:
-		c.add("output", "high %s is positive; it is the offset from V+, zero or negative", Format(o.High.V, Volt))
-	case o.Load.Set && o.Load.V <= 0:
-		c.add("output", "load %s is not positive", Format(o.Load.V, Ohm))
+	case o.Low.Known() && o.Low.V() < 0:
+		c.add("output", "low %s is negative; it is how far above V− the output reaches", Format(o.Low.V(), Volt))
+	case o.High.Known() && o.High.V() > 0:
+		c.add("output", "high %s is positive; it is the offset from V+, zero or negative", Format(o.High.V(), Volt))
+	case o.Load.Known() && o.Load.V() <= 0:
+		c.add("output", "load %s is not positive", Format(o.Load.V(), Ohm))
 	}
 	window("output", o.Low, o.High)
 	c.source("output", o.Source)
@@ -187,11 +187,11 @@ func (c *checker) figure(f figure) {
 	}{{"typ", s.Typ}, {"min", s.Min}, {"max", s.Max}, {"min_ot", s.MinOT}, {"max_ot", s.MaxOT}}
 	for _, v := range vals {
 		switch {
-		case !v.o.Set:
-		case f.sign == positive && v.o.V <= 0:
-			c.add(f.key, "%s %s is not positive", v.name, Format(v.o.V, f.dim))
-		case f.sign == nonNeg && v.o.V < 0:
-			c.add(f.key, "%s %s is negative; give the magnitude", v.name, Format(v.o.V, f.dim))
+		case !v.o.Known():
+		case f.sign == positive && v.o.V() <= 0:
+			c.add(f.key, "%s %s is not positive", v.name, Format(v.o.V(), f.dim))
+		case f.sign == nonNeg && v.o.V() < 0:
+			c.add(f.key, "%s %s is negative; give the magnitude", v.name, Format(v.o.V(), f.dim))
 		}
 	}
 	// Each pair must satisfy lo ≤ hi. Limits over the rated range include
@@ -212,8 +212,8 @@ func (c *checker) figure(f figure) {
 		{s.MinOT, s.MaxOT, "min_ot", "max_ot", ""},
 	}
 	for _, o := range order {
-		if o.lo.Set && o.hi.Set && o.lo.V > o.hi.V {
-			c.add(f.key, "%s %s is above %s %s%s", o.loN, Format(o.lo.V, f.dim), o.hiN, Format(o.hi.V, f.dim), o.afterwards)
+		if o.lo.Known() && o.hi.Known() && o.lo.V() > o.hi.V() {
+			c.add(f.key, "%s %s is above %s %s%s", o.loN, Format(o.lo.V(), f.dim), o.hiN, Format(o.hi.V(), f.dim), o.afterwards)
 			break
 		}
 	}

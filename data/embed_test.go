@@ -134,31 +134,31 @@ func TestCatalogCoverage(t *testing.T) {
 	if len(parts) < 44 {
 		t.Errorf("demo catalog holds %d parts, want at least 44", len(parts))
 	}
-	typ := func(s catalog.Spec) float64 { return s.Typ.V }
+	typ := func(s catalog.Spec) float64 { return s.Typ.V() }
 	tests := []struct {
 		class string
 		min   int
 		is    func(p *catalog.Part) bool
 	}{
 		{"general-purpose bipolar, slew ≤ 1 V/µs, supply to 24 V or more", 6, func(p *catalog.Part) bool {
-			return p.Tech == catalog.TechBipolar && typ(p.Slew) <= 1e6 && p.Supply.Max.V >= 24 && typ(p.Iq) > 100e-6
+			return p.Tech == catalog.TechBipolar && typ(p.Slew) <= 1e6 && p.Supply.Max.V() >= 24 && typ(p.Iq) > 100e-6
 		}},
 		{"low-voltage CMOS rail-to-rail in and out", 5, func(p *catalog.Part) bool {
-			return p.Tech == catalog.TechCMOS && p.Supply.Max.V <= 5.5 && p.InputCM.Low.V < 0 && p.InputCM.High.V > 0
+			return p.Tech == catalog.TechCMOS && p.Supply.Max.V() <= 5.5 && p.InputCM.Low.V() < 0 && p.InputCM.High.V() > 0
 		}},
 		{"micropower, Iq ≤ 50 µA", 4, func(p *catalog.Part) bool { return typ(p.Iq) <= 50e-6 }},
 		{"JFET input", 4, func(p *catalog.Part) bool { return p.Tech == catalog.TechJFET }},
-		{"precision, Vos max ≤ 200 µV", 4, func(p *catalog.Part) bool { return p.Vos.Max.Set && p.Vos.Max.V <= 200e-6 }},
-		{"zero-drift, drift ≤ 0.1 µV/K", 3, func(p *catalog.Part) bool { return p.VosDrift.Typ.Set && typ(p.VosDrift) <= 0.1e-6 }},
+		{"precision, Vos max ≤ 200 µV", 4, func(p *catalog.Part) bool { return p.Vos.Max.Known() && p.Vos.Max.V() <= 200e-6 }},
+		{"zero-drift, drift ≤ 0.1 µV/K", 3, func(p *catalog.Part) bool { return p.VosDrift.Typ.Known() && typ(p.VosDrift) <= 0.1e-6 }},
 		{"high-speed, GBW ≥ 50 MHz", 4, func(p *catalog.Part) bool { return typ(p.GBW) >= 50e6 }},
-		{"high-voltage, supply ≥ 40 V", 3, func(p *catalog.Part) bool { return p.Supply.Max.V >= 40 }},
+		{"high-voltage, supply ≥ 40 V", 3, func(p *catalog.Part) bool { return p.Supply.Max.V() >= 40 }},
 		{"high output current, ≥ 100 mA", 3, func(p *catalog.Part) bool { return typ(p.Iout) >= 0.1 }},
 		{"not recommended for new designs", 3, func(p *catalog.Part) bool { return p.Lifecycle == catalog.LifecycleNRND }},
 		{"obsolete", 3, func(p *catalog.Part) bool { return p.Lifecycle == catalog.LifecycleObsolete }},
 		{"slew read off a graph", 3, func(p *catalog.Part) bool { return p.Slew.Source == catalog.SourceGraph }},
-		{"slew known only as typical", 3, func(p *catalog.Part) bool { return !p.Slew.Min.Set && !p.Slew.MinOT.Set }},
-		{"offset limit over temperature", 10, func(p *catalog.Part) bool { return p.Vos.MaxOT.Set }},
-		{"bias-current limit over temperature", 10, func(p *catalog.Part) bool { return p.Ib.MaxOT.Set }},
+		{"slew known only as typical", 3, func(p *catalog.Part) bool { return !p.Slew.Min.Known() && !p.Slew.MinOT.Known() }},
+		{"offset limit over temperature", 10, func(p *catalog.Part) bool { return p.Vos.MaxOT.Known() }},
+		{"bias-current limit over temperature", 10, func(p *catalog.Part) bool { return p.Ib.MaxOT.Known() }},
 	}
 	for _, tt := range tests {
 		t.Run(tt.class, func(t *testing.T) {
@@ -196,14 +196,14 @@ func TestDropInPairs(t *testing.T) {
 					t.Errorf("%s comes in %s, %s does not", slow.ID, pkg, fast.ID)
 				}
 			}
-			if r := fast.Slew.Typ.V / slow.Slew.Typ.V; r < 5 {
+			if r := fast.Slew.Typ.V() / slow.Slew.Typ.V(); r < 5 {
 				t.Errorf("typical slew ratio %.2f, want ≥ 5", r)
 			}
-			if fast.Supply.Max.V >= slow.Supply.Max.V {
-				t.Errorf("supply max %g V vs %g V, want the CMOS part lower", fast.Supply.Max.V, slow.Supply.Max.V)
+			if fast.Supply.Max.V() >= slow.Supply.Max.V() {
+				t.Errorf("supply max %g V vs %g V, want the CMOS part lower", fast.Supply.Max.V(), slow.Supply.Max.V())
 			}
-			if slow.Slew.Source != catalog.SourceGraph || slow.Slew.Min.Set {
-				t.Errorf("slow part's slew: source %q, min set %v; want typical from a graph", slow.Slew.Source, slow.Slew.Min.Set)
+			if slow.Slew.Source != catalog.SourceGraph || slow.Slew.Min.Known() {
+				t.Errorf("slow part's slew: source %q, min set %v; want typical from a graph", slow.Slew.Source, slow.Slew.Min.Known())
 			}
 		})
 	}
@@ -246,17 +246,17 @@ func TestDefaultDesignSlewStory(t *testing.T) {
 			p := part(t, parts, tt.id)
 			// The worst-case figure: the guaranteed minimum, else the typical
 			// × derate_typ (0.7, the documented default).
-			slew := 0.7 * p.Slew.Typ.V
-			if p.Slew.Min.Set {
-				slew = p.Slew.Min.V
+			slew := 0.7 * p.Slew.Typ.V()
+			if p.Slew.Min.Known() {
+				slew = p.Slew.Min.V()
 			}
 			if ok := slew >= want; ok != tt.slewOK {
 				t.Errorf("slew %g V/s ≥ %g V/s is %v, want %v", slew, want, ok, tt.slewOK)
 			}
-			ok := p.Supply.Min.V <= plan.Rails.SpanMin && p.Supply.Max.V >= plan.Rails.SpanMax
+			ok := p.Supply.Min.V() <= plan.Rails.SpanMin && p.Supply.Max.V() >= plan.Rails.SpanMax
 			if ok != tt.supplyOK {
 				t.Errorf("supply %g…%g V covers %g…%g V is %v, want %v",
-					p.Supply.Min.V, p.Supply.Max.V, plan.Rails.SpanMin, plan.Rails.SpanMax, ok, tt.supplyOK)
+					p.Supply.Min.V(), p.Supply.Max.V(), plan.Rails.SpanMin, plan.Rails.SpanMax, ok, tt.supplyOK)
 			}
 		})
 	}
@@ -317,7 +317,7 @@ func TestNoPastedFigureSets(t *testing.T) {
 	slices.Sort(ids)
 	for _, id := range ids {
 		p := parts[id]
-		k := tuple{p.Vos.Typ.V, p.Vos.Max.V, p.Ib.Typ.V, p.Ib.Max.V, p.Aol.Min.V, p.GBW.Typ.V, p.Slew.Typ.V}
+		k := tuple{p.Vos.Typ.V(), p.Vos.Max.V(), p.Ib.Typ.V(), p.Ib.Max.V(), p.Aol.Min.V(), p.GBW.Typ.V(), p.Slew.Typ.V()}
 		if other, dup := seen[k]; dup && family(other) != family(id) {
 			t.Errorf("%s and %s (families %q, %q) share vos, ib, aol, gbw and slew figures", other, id, family(other), family(id))
 		}

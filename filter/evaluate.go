@@ -116,8 +116,8 @@ func (ev *evaluator) totals(r *Result, f *PartFigures) {
 	n := len(ev.plan.Stages)
 	r.Packages = (n + ch - 1) / ch
 	r.Cost = math.NaN()
-	if p.UnitCost.Set {
-		r.Cost = float64(r.Packages) * p.UnitCost.V
+	if p.UnitCost.Known() {
+		r.Cost = float64(r.Packages) * p.UnitCost.V()
 	}
 	r.SupplyCurrent = math.NaN()
 	if f.Iq.Known {
@@ -233,8 +233,8 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 	case KeyInputRange:
 		w := f.Input
 		c.Basis = w.Basis
-		ev.window(c, catalog.Opt{V: rails.NegWorst + w.Low, Set: w.LowKnown},
-			catalog.Opt{V: rails.PosWorst + w.High, Set: w.HighKnown}, rails.SpanMin)
+		ev.window(c, optIf(rails.NegWorst+w.Low, w.LowKnown),
+			optIf(rails.PosWorst+w.High, w.HighKnown), rails.SpanMin)
 	case KeyOutputRange:
 		load := 0.0
 		if sp != nil {
@@ -242,8 +242,8 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 		}
 		w, scaled := f.OutputAt(load)
 		c.Basis = w.Basis
-		ev.window(c, catalog.Opt{V: rails.NegWorst + w.Low, Set: w.LowKnown},
-			catalog.Opt{V: rails.PosWorst + w.High, Set: w.HighKnown}, rails.SpanMin)
+		ev.window(c, optIf(rails.NegWorst+w.Low, w.LowKnown),
+			optIf(rails.PosWorst+w.High, w.HighKnown), rails.SpanMin)
 		if c.Note == "" {
 			if scaled {
 				c.Note = noteScaled
@@ -264,9 +264,9 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 	case KeyIb:
 		ev.numeric(c, q.Bound, f.Ib)
 	case KeyVdiff:
-		ev.numeric(c, q.Bound, Figure{V: p.VdiffMax.V, Known: p.VdiffMax.Set, Basis: BasisGuaranteed})
+		ev.numeric(c, q.Bound, Figure{V: p.VdiffMax.V(), Known: p.VdiffMax.Known(), Basis: BasisGuaranteed})
 	case KeyCLoad:
-		ev.numeric(c, q.Bound, Figure{V: p.CLoad.V, Known: p.CLoad.Set, Basis: BasisGuaranteed})
+		ev.numeric(c, q.Bound, Figure{V: p.CLoad.V(), Known: p.CLoad.Known(), Basis: BasisGuaranteed})
 	case KeyDCError:
 		ev.numeric(c, q.Bound, dcError(sp, f))
 	case KeySupplyCurrent:
@@ -285,12 +285,12 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 func (ev *evaluator) hardCheck(c *Check, q *Requirement, p *catalog.Part) {
 	switch q.Key {
 	case KeyTemperature:
-		if !p.Temp[0].Set || !p.Temp[1].Set {
+		if !p.Temp[0].Known() || !p.Temp[1].Known() {
 			ev.unknown(c, noteNoTemp)
 			return
 		}
-		c.AvailLow, c.AvailHigh = p.Temp[0].V, p.Temp[1].V
-		ev.hard(c, p.Temp[0].V <= q.Low && q.High <= p.Temp[1].V)
+		c.AvailLow, c.AvailHigh = p.Temp[0].V(), p.Temp[1].V()
+		ev.hard(c, p.Temp[0].V() <= q.Low && q.High <= p.Temp[1].V())
 	case KeyPackage:
 		ok := false
 		for _, pk := range q.Allowed {
@@ -309,12 +309,12 @@ func (ev *evaluator) hardCheck(c *Check, q *Requirement, p *catalog.Part) {
 		}
 		ev.hard(c, contains(q.Allowed, string(p.Lifecycle)))
 	case KeyCost:
-		if !p.UnitCost.Set {
+		if !p.UnitCost.Known() {
 			ev.unknown(c, noteNoCost)
 			return
 		}
-		c.Available = p.UnitCost.V
-		ev.hard(c, p.UnitCost.V <= q.Value)
+		c.Available = p.UnitCost.V()
+		ev.hard(c, p.UnitCost.V() <= q.Value)
 	}
 }
 
@@ -395,19 +395,27 @@ func (ev *evaluator) settle(c *Check) {
 // requirement's [Low, High]. Margin is the smaller spare in volts over span.
 // With one side unknown the check fails if the known side fails, else is
 // unknown.
+// optIf is v as a figure when known is true, else the unset figure.
+func optIf(v float64, known bool) catalog.Opt {
+	if !known {
+		return catalog.Opt{}
+	}
+	return catalog.Some(v)
+}
+
 func (ev *evaluator) window(c *Check, lo, hi catalog.Opt, span float64) {
 	q := c.Req
 	spare := math.Inf(1)
-	if lo.Set {
-		c.AvailLow = lo.V
-		spare = math.Min(spare, q.Low-lo.V)
+	if lo.Known() {
+		c.AvailLow = lo.V()
+		spare = math.Min(spare, q.Low-lo.V())
 	}
-	if hi.Set {
-		c.AvailHigh = hi.V
-		spare = math.Min(spare, hi.V-q.High)
+	if hi.Known() {
+		c.AvailHigh = hi.V()
+		spare = math.Min(spare, hi.V()-q.High)
 	}
-	if !lo.Set || !hi.Set {
-		if (lo.Set || hi.Set) && spare/span <= -TieMargin {
+	if !lo.Known() || !hi.Known() {
+		if (lo.Known() || hi.Known()) && spare/span <= -TieMargin {
 			c.Margin = spare / span
 			c.Status, c.Note = StatusFail, noteUnknownSide
 			return

@@ -64,15 +64,15 @@ func Figures(p *catalog.Part, plan *Plan) PartFigures {
 		f.Ib = w.cold(f.Ib, plan.IbColdTempco, dtCold)
 		f.Ios = w.cold(f.Ios, plan.IbColdTempco, dtCold)
 	}
-	if p.GBW.Typ.Set {
-		f.GBWHigh = Figure{p.GBW.Typ.V, true, typBasis(p.GBW.Source), "typical, not derated (noise bandwidth)"}
+	if p.GBW.Typ.Known() {
+		f.GBWHigh = Figure{p.GBW.Typ.V(), true, typBasis(p.GBW.Source), "typical, not derated (noise bandwidth)"}
 	}
-	f.Input = Window{Low: p.InputCM.Low.V, High: p.InputCM.High.V,
-		LowKnown: p.InputCM.Low.Set, HighKnown: p.InputCM.High.Set, Basis: sourceBasis(p.InputCM.Source)}
-	f.Output = Window{Low: p.Output.Low.V, High: p.Output.High.V,
-		LowKnown: p.Output.Low.Set, HighKnown: p.Output.High.Set, Basis: sourceBasis(p.Output.Source)}
-	if p.Output.Load.Set {
-		f.OutputLoad = p.Output.Load.V
+	f.Input = Window{Low: p.InputCM.Low.V(), High: p.InputCM.High.V(),
+		LowKnown: p.InputCM.Low.Known(), HighKnown: p.InputCM.High.Known(), Basis: sourceBasis(p.InputCM.Source)}
+	f.Output = Window{Low: p.Output.Low.V(), High: p.Output.High.V(),
+		LowKnown: p.Output.Low.Known(), HighKnown: p.Output.High.Known(), Basis: sourceBasis(p.Output.Source)}
+	if p.Output.Load.Known() {
+		f.OutputLoad = p.Output.Load.V()
 	}
 	return f
 }
@@ -190,7 +190,7 @@ func (f *PartFigures) byKey(key string) (Figure, bool) {
 // is no figure.
 func FigureFor(p *catalog.Part, f *PartFigures, plan *Plan, key string, b Bound) (fig Figure, ok bool) {
 	if v, ok := p.Scalar(key); ok {
-		return Figure{V: v.V, Known: v.Set, Basis: BasisGuaranteed}, true
+		return Figure{V: v.V(), Known: v.Known(), Basis: BasisGuaranteed}, true
 	}
 	s, ok := p.Spec(key)
 	if !ok {
@@ -207,21 +207,21 @@ func FigureFor(p *catalog.Part, f *PartFigures, plan *Plan, key string, b Bound)
 	}
 	fig = w.smaller(s)
 	if key == "aol" && fig.Known && fig.Basis != BasisGuaranteed {
-		fig.V = s.Typ.V + circuit.DB(w.inflate)
+		fig.V = s.Typ.V() + circuit.DB(w.inflate)
 	}
 	return fig, true
 }
 
 func (w worst) bigger(s catalog.Spec) Figure {
 	switch {
-	case w.leaves && s.MinOT.Set:
-		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOT}
-	case s.Min.Set:
-		return Figure{s.Min.V, true, BasisGuaranteed, roomNote(w.leaves)}
-	case s.MinOT.Set:
-		return Figure{s.MinOT.V, true, BasisGuaranteed, noteOTRoom}
-	case s.Typ.Set:
-		return Figure{s.Typ.V * w.derate, true, typBasis(s.Source), typNote(s.Source, noteDerate)}
+	case w.leaves && s.MinOT.Known():
+		return Figure{s.MinOT.V(), true, BasisGuaranteed, noteOT}
+	case s.Min.Known():
+		return Figure{s.Min.V(), true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MinOT.Known():
+		return Figure{s.MinOT.V(), true, BasisGuaranteed, noteOTRoom}
+	case s.Typ.Known():
+		return Figure{s.Typ.V() * w.derate, true, typBasis(s.Source), typNote(s.Source, noteDerate)}
 	}
 	return Figure{}
 }
@@ -231,21 +231,21 @@ func (w worst) bigger(s catalog.Spec) Figure {
 func (w worst) biggerDB(s catalog.Spec) Figure {
 	f := w.bigger(s)
 	if f.Known && f.Basis != BasisGuaranteed {
-		f.V = s.Typ.V + circuit.DB(w.derate)
+		f.V = s.Typ.V() + circuit.DB(w.derate)
 	}
 	return f
 }
 
 func (w worst) smaller(s catalog.Spec) Figure {
 	switch {
-	case w.leaves && s.MaxOT.Set:
-		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOT}
-	case s.Max.Set:
-		return Figure{s.Max.V, true, BasisGuaranteed, roomNote(w.leaves)}
-	case s.MaxOT.Set:
-		return Figure{s.MaxOT.V, true, BasisGuaranteed, noteOTRoom}
-	case s.Typ.Set:
-		return Figure{s.Typ.V * w.inflate, true, typBasis(s.Source), typNote(s.Source, noteInflate)}
+	case w.leaves && s.MaxOT.Known():
+		return Figure{s.MaxOT.V(), true, BasisGuaranteed, noteOT}
+	case s.Max.Known():
+		return Figure{s.Max.V(), true, BasisGuaranteed, roomNote(w.leaves)}
+	case s.MaxOT.Known():
+		return Figure{s.MaxOT.V(), true, BasisGuaranteed, noteOTRoom}
+	case s.Typ.Known():
+		return Figure{s.Typ.V() * w.inflate, true, typBasis(s.Source), typNote(s.Source, noteInflate)}
 	}
 	return Figure{}
 }
@@ -258,10 +258,10 @@ func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 	}
 	d := math.NaN()
 	switch {
-	case drift.Max.Set:
-		d = drift.Max.V
-	case drift.Typ.Set:
-		d = drift.Typ.V * w.inflate
+	case drift.Max.Known():
+		d = drift.Max.V()
+	case drift.Typ.Known():
+		d = drift.Typ.V() * w.inflate
 	}
 	if math.IsNaN(d) {
 		if f.Basis == BasisGuaranteed {
@@ -350,14 +350,14 @@ func (w worst) cold(f Figure, k, dtCold float64) Figure {
 // that is no figure.
 func TypicalFor(p *catalog.Part, key string) (fig Figure, ok bool) {
 	if v, ok := p.Scalar(key); ok {
-		return Figure{V: v.V, Known: v.Set, Basis: BasisGuaranteed}, true
+		return Figure{V: v.V(), Known: v.Known(), Basis: BasisGuaranteed}, true
 	}
 	s, ok := p.Spec(key)
 	if !ok {
 		return Figure{}, false
 	}
-	if !s.Typ.Set {
+	if !s.Typ.Known() {
 		return Figure{}, true
 	}
-	return Figure{V: s.Typ.V, Known: true, Basis: typBasis(s.Source)}, true
+	return Figure{V: s.Typ.V(), Known: true, Basis: typBasis(s.Source)}, true
 }

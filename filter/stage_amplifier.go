@@ -327,13 +327,13 @@ func (n noiseSetup) output(p *catalog.Part, f *PartFigures) Figure {
 		return Figure{}
 	}
 	basis := weaker(f.En.Basis, f.GBWHigh.Basis)
-	a := circuit.AmpNoise{En: f.En.V, EnCorner: p.EnCorner.V, Rs: n.rs, Rp: n.rp,
+	a := circuit.AmpNoise{En: f.En.V, EnCorner: p.EnCorner.V(), Rs: n.rs, Rp: n.rp,
 		TempK: circuit.KelvinFromCelsius(n.tempC), NG: n.ng}
 	if n.rs > 0 || n.rp > 0 {
 		if !f.In.Known {
 			return Figure{}
 		}
-		a.In, a.InCorner = f.In.V, p.InCorner.V
+		a.In, a.InCorner = f.In.V, p.InCorner.V()
 		basis = weaker(basis, f.In.Basis)
 	}
 	band := 0.0

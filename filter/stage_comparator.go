@@ -132,7 +132,7 @@ const noteVdiff = "many op-amps clamp their inputs with diodes or are damaged by
 // measureVdiff is the part's largest allowed differential input, with the
 // warning note the comparator and relaxation templates carry.
 func measureVdiff(p *catalog.Part, _ *PartFigures) Figure {
-	return Figure{V: p.VdiffMax.V, Known: p.VdiffMax.Set, Basis: BasisGuaranteed, Note: noteVdiff}
+	return Figure{V: p.VdiffMax.V(), Known: p.VdiffMax.Known(), Basis: BasisGuaranteed, Note: noteVdiff}
 }
 
 // tmplRef is the stage's ref, default the middle of the nominal rails.

@@ -186,7 +186,7 @@ func TestComparatorVdiffCheck(t *testing.T) {
 			}
 			if tt.want != filter.StatusUnknown {
 				tmplContains(t, "note", c.Note, "clamp", "damaged")
-				tmplNear(t, "margin", c.Margin, tt.vdiff.V/4-1, 1e-12)
+				tmplNear(t, "margin", c.Margin, tt.vdiff.V()/4-1, 1e-12)
 			}
 		})
 	}

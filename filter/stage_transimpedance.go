@@ -182,8 +182,8 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 
 // partCin is the part's own input capacitance, 0 when the catalog lacks it.
 func partCin(p *catalog.Part) float64 {
-	if p != nil && p.Cin.Set && p.Cin.V > 0 {
-		return p.Cin.V
+	if p != nil && p.Cin.Known() && p.Cin.V() > 0 {
+		return p.Cin.V()
 	}
 	return 0
 }
@@ -198,7 +198,7 @@ func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order
 	}
 	cin := t.cin + partCin(p)
 	g := f.GBWHigh.V
-	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V, InCorner: p.InCorner.V,
+	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V(), InCorner: p.InCorner.V(),
 		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, g), Cin: cin, Rsh: t.rsh, GBW: g,
 		TempK: circuit.KelvinFromCelsius(tempC), Band: band, Order: order}
 	basis := weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis)

@@ -88,12 +88,12 @@ func available(c *filter.Check, p *catalog.Part) string {
 	case filter.KeyLifecycle:
 		return string(p.Lifecycle)
 	case filter.KeyCost:
-		if p.UnitCost.Set {
-			return trimFloat(p.UnitCost.V)
+		if p.UnitCost.Known() {
+			return trimFloat(p.UnitCost.V())
 		}
 	case filter.KeyTemperature:
-		if p.Temp[0].Set && p.Temp[1].Set {
-			return span(p.Temp[0].V, p.Temp[1].V, catalog.Celsius)
+		if p.Temp[0].Known() && p.Temp[1].Known() {
+			return span(p.Temp[0].V(), p.Temp[1].V(), catalog.Celsius)
 		}
 	}
 	return "?"

@@ -120,10 +120,10 @@ func span(lo, hi float64, d catalog.Dim) string {
 
 // costText shows packages × unit cost, e.g. "2×0.12", or "2×?".
 func costText(r *filter.Result) string {
-	if !r.Part.UnitCost.Set {
+	if !r.Part.UnitCost.Known() {
 		return fmt.Sprintf("%d×?", r.Packages)
 	}
-	return fmt.Sprintf("%d×%s", r.Packages, trimFloat(r.Part.UnitCost.V))
+	return fmt.Sprintf("%d×%s", r.Packages, trimFloat(r.Part.UnitCost.V()))
 }
 
 // trimFloat prints a plain number with up to 3 decimals and no trailing zeros.

@@ -254,17 +254,17 @@ func designCell(f *replace.Fit) string {
 		return "—"
 	}
 	if f.Pass {
-		if !f.WorstMargin.Set {
+		if !f.WorstMargin.Known() {
 			return "✓ pass"
 		}
-		return "✓ " + present.Margin(f.WorstMargin.V) + " " + present.CheckName(f.Binding.Stage, filter.Key(f.Binding.Key))
+		return "✓ " + present.Margin(f.WorstMargin.V()) + " " + present.CheckName(f.Binding.Stage, filter.Key(f.Binding.Key))
 	}
 	if len(f.Failed) == 0 {
 		return "✗ FAIL"
 	}
 	s := "✗ " + f.Failed[0]
-	if f.WorstMargin.Set && f.WorstMargin.V < 0 {
-		s = "✗ " + present.Margin(f.WorstMargin.V) + " " + f.Failed[0]
+	if f.WorstMargin.Known() && f.WorstMargin.V() < 0 {
+		s = "✗ " + present.Margin(f.WorstMargin.V()) + " " + f.Failed[0]
 	}
 	if len(f.Failed) > 1 {
 		s += fmt.Sprintf(" +%d", len(f.Failed)-1)

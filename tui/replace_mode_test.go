@@ -79,7 +79,7 @@ func TestReplaceModeFlow(t *testing.T) {
 	if len(first.Regressions) == 0 || first.Regressions[0].Key != "supply_max" {
 		t.Errorf("first regression of %s is not the maximum supply: %v", first.Part.ID, first.Regressions)
 	}
-	if s := first.Part.Slew.Typ.V / res.Original.Slew.Typ.V; s < 5 {
+	if s := first.Part.Slew.Typ.V() / res.Original.Slew.Typ.V(); s < 5 {
 		t.Errorf("CMOS drop-in slews only %.1f× the bipolar quad, the trade fact says ≥ 5×", s)
 	}
 

@@ -122,8 +122,8 @@ func replaceCandidateJSON(c replace.Candidate) replaceCandJSON {
 	}
 	if d := c.Design; d != nil {
 		fj := &replaceFitJSON{Pass: d.Pass, Failed: replaceNonNil(d.Failed)}
-		if d.WorstMargin.Set {
-			m := d.WorstMargin.V
+		if d.WorstMargin.Known() {
+			m := d.WorstMargin.V()
 			fj.WorstMargin = &m
 			fj.Binding = &replaceBindingJSON{Stage: d.Binding.Stage, Key: d.Binding.Key}
 		}
@@ -170,7 +170,7 @@ func (v *replaceView) writeCSV(w io.Writer) error {
 		pass, margin := "", ""
 		if c.Design != nil {
 			pass = strconv.FormatBool(c.Design.Pass)
-			if c.Design.WorstMargin.Set {
+			if c.Design.WorstMargin.Known() {
 				margin = replaceSIText(c.Design.WorstMargin)
 			}
 		}
@@ -193,4 +193,4 @@ func replaceValueText(v replace.Value) string {
 	return strconv.FormatFloat(v.V, 'g', -1, 64)
 }
 
-func replaceSIText(o catalog.Opt) string { return strconv.FormatFloat(o.V, 'g', -1, 64) }
+func replaceSIText(o catalog.Opt) string { return strconv.FormatFloat(o.V(), 'g', -1, 64) }

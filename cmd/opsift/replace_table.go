@@ -193,13 +193,13 @@ func replaceDesignCell(c replace.Candidate) string {
 	if !d.Pass {
 		word = "FAIL"
 	}
-	if !d.WorstMargin.Set {
+	if !d.WorstMargin.Known() {
 		if len(d.Failed) > 0 {
 			return word + " " + d.Failed[0]
 		}
 		return word
 	}
-	return fmt.Sprintf("%s %s %s", word, present.Margin(d.WorstMargin.V), replaceBindingText(d.Binding))
+	return fmt.Sprintf("%s %s %s", word, present.Margin(d.WorstMargin.V()), replaceBindingText(d.Binding))
 }
 
 // replaceDesignLine is the detail line of a design fit.
@@ -210,12 +210,12 @@ func replaceDesignLine(d *replace.Fit) string {
 	} else {
 		b.WriteString("FAIL")
 	}
-	if d.WorstMargin.Set {
+	if d.WorstMargin.Known() {
 		what := "worst margin"
 		if !d.Pass {
 			what = "worst miss"
 		}
-		fmt.Fprintf(&b, ", %s %s at %s", what, present.Margin(d.WorstMargin.V), replaceBindingText(d.Binding))
+		fmt.Fprintf(&b, ", %s %s at %s", what, present.Margin(d.WorstMargin.V()), replaceBindingText(d.Binding))
 	}
 	if len(d.Failed) > 0 {
 		fmt.Fprintf(&b, "; fails %s", strings.Join(d.Failed, ", "))

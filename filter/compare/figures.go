@@ -18,7 +18,7 @@ type figureDef struct {
 
 // rating is a single-valued catalog rating, which counts as guaranteed.
 func rating(o catalog.Opt) filter.Figure {
-	return filter.Figure{V: o.V, Known: o.Set, Basis: filter.BasisGuaranteed}
+	return filter.Figure{V: o.V(), Known: o.Known(), Basis: filter.BasisGuaranteed}
 }
 
 // side is one side of a window relative to its rail.

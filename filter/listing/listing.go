@@ -70,10 +70,10 @@ func number(v float64, b filter.Basis) Cell { return Cell{V: v, Basis: b} }
 func unknown() Cell { return Cell{V: math.NaN()} }
 
 func optCell(o catalog.Opt, b filter.Basis) Cell {
-	if !o.Set {
+	if !o.Known() {
 		return unknown()
 	}
-	return number(o.V, b)
+	return number(o.V(), b)
 }
 
 func figCell(f filter.Figure) Cell {

@@ -60,12 +60,12 @@ func buildAmp(plan *filter.Plan, sp *filter.StagePlan, p *catalog.Part, typical 
 	b.worst = filter.Figures(p, plan)
 	f := &b.worst
 	pick := func(name string, worst filter.Figure, typ catalog.Spec, dim catalog.Dim) (Figure, bool) {
-		if typical && typ.Typ.Set {
+		if typical && typ.Typ.Known() {
 			basis := "typical"
 			if typ.Source == catalog.SourceGraph {
 				basis = "graph"
 			}
-			return Figure{Name: name, V: typ.Typ.V, Dim: dim, Basis: basis, Note: "typical, not derated"}, true
+			return Figure{Name: name, V: typ.Typ.V(), Dim: dim, Basis: basis, Note: "typical, not derated"}, true
 		}
 		if !worst.Known {
 			return Figure{}, false

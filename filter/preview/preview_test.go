@@ -89,9 +89,9 @@ func TestTypical(t *testing.T) {
 	if typ.Basis != Typical {
 		t.Errorf("basis = %q, want %q", typ.Basis, Typical)
 	}
-	near(t, "typical slew", typ.Amp.SlewRise, p.Slew.Typ.V, 1e-12)
-	near(t, "typical gbw", typ.Amp.GBW, p.GBW.Typ.V, 1e-12)
-	near(t, "typical voh", typ.Amp.VOH, plan.Rails.Pos+p.Output.High.V, 1e-12)
+	near(t, "typical slew", typ.Amp.SlewRise, p.Slew.Typ.V(), 1e-12)
+	near(t, "typical gbw", typ.Amp.GBW, p.GBW.Typ.V(), 1e-12)
+	near(t, "typical voh", typ.Amp.VOH, plan.Rails.Pos+p.Output.High.V(), 1e-12)
 	if !(typ.Metrics.OutputPP > worst.Metrics.OutputPP) || !(typ.Metrics.SlewingFraction < worst.Metrics.SlewingFraction) {
 		t.Errorf("typical output_pp %.4g V, slewing %.3g; worst case %.4g V, %.3g: want the typical run faster",
 			typ.Metrics.OutputPP, typ.Metrics.SlewingFraction, worst.Metrics.OutputPP, worst.Metrics.SlewingFraction)
@@ -225,7 +225,7 @@ func TestKinds(t *testing.T) {
 		// slew-limited. The slow bipolar quad is slew-limited over nearly
 		// all of the edge, so the closed form (which leaves out the short
 		// linear start) holds within 10 %.
-		{"check", "gp4-bip", slow.Output.High.V - slow.Output.Low.V + 24, func(t *testing.T, r *Result) {
+		{"check", "gp4-bip", slow.Output.High.V() - slow.Output.Low.V() + 24, func(t *testing.T, r *Result) {
 			tt := val(t, "transition_time", r.Metrics.TransitionTime)
 			near(t, "transition_time", tt, 0.8*20/r.Amp.SlewRise, 0.1)
 		}},

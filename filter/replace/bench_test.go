@@ -18,7 +18,7 @@ func synthetic(n int) []*catalog.Part {
 		} else {
 			p = cmosQuad(fmt.Sprintf("c%06d", i))
 		}
-		p.Slew.Typ.V *= 1 + float64(i%17)/10
+		p.Slew.Typ = catalog.Some(p.Slew.Typ.V() * (1 + float64(i%17)/10))
 		if i%3 == 0 {
 			p.Pinout = "quad-b"
 		}

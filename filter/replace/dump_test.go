@@ -38,10 +38,10 @@ func dump(res Result) string {
 }
 
 func marginStr(d *Fit) string {
-	if !d.WorstMargin.Set {
+	if !d.WorstMargin.Known() {
 		return "none"
 	}
-	return fmt.Sprintf("%.4f", d.WorstMargin.V)
+	return fmt.Sprintf("%.4f", d.WorstMargin.V())
 }
 
 // TestGolden pins the whole Result for the test catalog, with and without

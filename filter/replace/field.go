@@ -229,7 +229,7 @@ func (f figures) levels(overTemp bool) [3]level {
 func pickPair(o, c figures, overTemp bool) (ov, cv Value) {
 	ol, cl := o.levels(overTemp), c.levels(overTemp)
 	for i := range ol {
-		if ol[i].v.Set && cl[i].v.Set {
+		if ol[i].v.Known() && cl[i].v.Known() {
 			return ol[i].value(), cl[i].value()
 		}
 	}
@@ -238,13 +238,13 @@ func pickPair(o, c figures, overTemp bool) (ov, cv Value) {
 
 // value is the level as a set Value.
 func (l level) value() Value {
-	return Value{V: l.v.V, Set: true, Basis: l.basis, Limit: l.limit}
+	return Value{V: l.v.V(), Set: true, Basis: l.basis, Limit: l.limit}
 }
 
 // best returns the best-assured level that is set, or an unset Value.
 func best(ls [3]level) Value {
 	for _, l := range ls {
-		if l.v.Set {
+		if l.v.Known() {
 			return l.value()
 		}
 	}
@@ -312,9 +312,9 @@ func note(f Field, o, c *catalog.Part) string {
 	}
 	if f.Key == "output_low" || f.Key == "output_high" {
 		ol, cl := o.Output.Load, c.Output.Load
-		if ol.Set && cl.Set && !(def{tol: tolRel}).same(ol.V, cl.V) {
-			n := fmt.Sprintf("swing specified at %s against %s", catalog.Format(cl.V, catalog.Ohm), catalog.Format(ol.V, catalog.Ohm))
-			if cl.V > ol.V && f.Verdict == Better {
+		if ol.Known() && cl.Known() && !(def{tol: tolRel}).same(ol.V(), cl.V()) {
+			n := fmt.Sprintf("swing specified at %s against %s", catalog.Format(cl.V(), catalog.Ohm), catalog.Format(ol.V(), catalog.Ohm))
+			if cl.V() > ol.V() && f.Verdict == Better {
 				n += "; the lighter load flatters the candidate"
 			}
 			return n

@@ -197,11 +197,11 @@ func less(a, b *Candidate) bool {
 	}
 	if a.Design != nil && b.Design != nil {
 		am, bm := a.Design.WorstMargin, b.Design.WorstMargin
-		if am.Set != bm.Set {
-			return am.Set
+		if am.Known() != bm.Known() {
+			return am.Known()
 		}
-		if am.Set && am.V != bm.V {
-			return am.V > bm.V
+		if am.Known() && am.V() != bm.V() {
+			return am.V() > bm.V()
 		}
 	}
 	if a.Strict != b.Strict {

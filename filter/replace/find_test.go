@@ -226,7 +226,7 @@ func TestCandidateOrder(t *testing.T) {
 		if got := ids(res); !slices.Equal(got, want) {
 			t.Errorf("order %v, want %v", got, want)
 		}
-		if !res.Designed || res.Candidates[0].Design == nil || res.Candidates[0].Design.WorstMargin.V != 2 {
+		if !res.Designed || res.Candidates[0].Design == nil || res.Candidates[0].Design.WorstMargin.V() != 2 {
 			t.Errorf("design fit not carried: %+v", res.Candidates[0].Design)
 		}
 	})

@@ -111,7 +111,7 @@ func (g gen) spec(typ, typOnly float64, graphEvery int, lim, ot [2]float64, bigg
 	}
 	*limit = catalog.Some(round3(typ * g.between(lim[0], lim[1])))
 	if g.r.IntN(3) == 0 {
-		*overTemp = catalog.Some(round3(limit.V * g.between(ot[0], ot[1])))
+		*overTemp = catalog.Some(round3(limit.V() * g.between(ot[0], ot[1])))
 	}
 	return s
 }
