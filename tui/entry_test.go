@@ -307,7 +307,7 @@ func TestEntryEditsInPlace(t *testing.T) {
 		t.Errorf("the edit is not in the file:\n%s", got)
 	}
 	i := partIndex(m, "tf-dual")
-	if i < 0 || m.rank.results[i].Part.GBW.Typ.V != 1.3e6 {
+	if i < 0 || m.rank.results[i].Part.GBW.Typ.V() != 1.3e6 {
 		t.Errorf("the reloaded ranking does not hold the edited gbw")
 	}
 	if n := strings.Count(string(got), "[[part]]"); n != 2 {
