@@ -28,6 +28,7 @@ func commands() []command {
 		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
 		{"add", "enter a new part in the selector's entry form and save it into a catalog file", runAdd},
+		{"completion", "print a shell completion script (bash, zsh or fish)", runCompletion},
 	}
 }
 
@@ -41,6 +42,8 @@ func run(args []string, e *env) error {
 		case "--version", "version":
 			fmt.Fprintf(e.stdout, "opsift %s\n", version)
 			return nil
+		case candidatesCmd: // the completion scripts' callback, not listed
+			return runCandidates(e, args[1:])
 		}
 		for _, c := range commands() {
 			if c.name == args[0] {
