@@ -69,6 +69,7 @@ func mainHelp() string {
 Usage:
   opsift [--catalog PATH]... [--design FILE]    interactive selector
   opsift COMMAND [options]
+  opsift --version
 
 Commands:
 `)

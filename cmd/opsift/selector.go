@@ -28,7 +28,8 @@ Mark parts for a shortlist and export it (md, csv, json, toml); w saves
 the edited design in place, keeping its comments; q asks before unsaved
 edits are lost, and a change to the design file on disk is offered, never
 overwritten unasked. R finds replacements for a part, v shows its
-waveform. Press ? inside for every key.
+waveform; a enters a new part into a catalog file (as opsift add does), A
+edits the selected part's figures in place. Press ? inside for every key.
 
 Parts with problems are set aside (the status line counts them; opsift
 check lists them) and the rest is ranked; --strict-catalog refuses the
