@@ -99,14 +99,8 @@ func available(c *filter.Check, p *catalog.Part) string {
 	return "?"
 }
 
-// lines lays out the body of the pane for result r at width w: its
-// checks, then its headroom.
+// lines lays out the body of the pane for result r at width w.
 func (p *checksPane) lines(r *filter.Result, w int) []string {
-	return append(p.checkLines(r, w), p.headroomLines(r, w)...)
-}
-
-// checkLines are the column header and r's checks, stage by stage.
-func (p *checksPane) checkLines(r *filter.Result, w int) []string {
 	st := &p.u.st
 	cols := checkColumns()
 	widths := fitColumns(cols, w)
@@ -168,7 +162,7 @@ func (p *checksPane) checkLines(r *filter.Result, w int) []string {
 			}
 		}
 	}
-	return out
+	return append(out, p.headroomLines(r, w)...)
 }
 
 // groupLine heads one stage's checks with its own pass/fail verdict.

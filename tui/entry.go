@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -16,6 +17,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/schema"
 )
 
@@ -549,7 +551,7 @@ func (f *entryForm) scrollTo(rows int) {
 
 // Widths of the grid, in cells.
 const (
-	entryLabelW = 12 // "▸ vos_drift " and a problem mark
+	entryLabelW = 13 // "▸ vos_drift", a problem mark and a space
 	entryCols   = 6  // the widest row: a figure's six sub-keys
 )
 
@@ -584,7 +586,7 @@ func (f *entryForm) settle(w, h int) {
 			}
 		}
 	}
-	f.path.Width = max(10, w-30)
+	f.path.Width = max(10, l.fieldsW-14)
 	f.scrollTo(l.gridH)
 }
 
@@ -807,7 +809,7 @@ func (f *entryForm) evalLines(w, h int) []string {
 		r := f.result
 		if r.Pass {
 			out = append(out, fit(" "+st.Pass.Render(fmt.Sprintf("✓ would rank %d of %d passing", f.pos+1, f.nPass+1))+
-				st.Muted.Render(fmt.Sprintf(" (%s in the catalog)", plural(f.nAll+1, "part"))), w))
+				st.Muted.Render(fmt.Sprintf(" (of %s)", plural(f.nAll+1, "part"))), w))
 		} else {
 			out = append(out, fit(" "+st.Fail.Render("✗ would not pass")+
 				st.Muted.Render(fmt.Sprintf(" · %d of %d with the failing parts", f.pos+1, f.nAll+1)), w))
@@ -816,12 +818,55 @@ func (f *entryForm) evalLines(w, h int) []string {
 		for _, l := range wrap(cp.summary(r), max(10, w-1)) {
 			out = append(out, fit(" "+l, w))
 		}
-		out = append(out, cp.checkLines(r, w)...)
+		out = append(out, f.marginLines(r, w)...)
 	}
 	if len(out) > h {
 		out = out[:h]
 	}
 	return append(out, blank(w, h-len(out))...)
+}
+
+// marginLines are r's checks, one a line, tightest first: failing
+// filters, then every check with a margin from the smallest, then the
+// unknown ones (the catalog lacks the figure).
+func (f *entryForm) marginLines(r *filter.Result, w int) []string {
+	st := &f.u.st
+	var num, unknown, hard []*filter.Check
+	for i := range r.Checks {
+		c := &r.Checks[i]
+		switch {
+		case c.Status == filter.StatusUnknown:
+			unknown = append(unknown, c)
+		case c.HasMargin():
+			num = append(num, c)
+		case c.Status == filter.StatusFail:
+			hard = append(hard, c)
+		}
+	}
+	sort.SliceStable(num, func(i, j int) bool { return num[i].Margin < num[j].Margin })
+	const nameW = 21
+	out := []string{st.Header.Render(fit(" "+fit("check, tightest first", nameW+2)+fitRight("margin", 8)+"  basis", w))}
+	for _, c := range hard {
+		out = append(out, fit(" "+st.Fail.Render("✗ "+present.Reason(c)), w))
+	}
+	for _, c := range num {
+		mark, style := "✓ ", st.Pass
+		if c.Status == filter.StatusFail {
+			mark, style = "✗ ", st.Fail
+		}
+		basis := c.Basis.String()
+		if mk := basisMark(c.Basis); mk != "" {
+			basis = mk + " " + basis
+		}
+		line := " " + style.Render(mark) + fit(present.CheckName(c.Req.Stage, c.Req.Key), nameW) +
+			style.Render(fitRight(present.Margin(c.Margin), 8)) + "  " + st.Muted.Render(basis)
+		out = append(out, fit(line, w))
+	}
+	for _, c := range unknown {
+		out = append(out, fit(" "+st.Unknown.Render("? ")+fit(present.CheckName(c.Req.Stage, c.Req.Key), nameW)+
+			st.Unknown.Render(fitRight("unknown", 8)), w))
+	}
+	return out
 }
 
 // keys of the form, for the bottom line.

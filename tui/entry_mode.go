@@ -223,5 +223,6 @@ func (m *Model) adoptPartSaved(msg partSavedMsg) tea.Cmd {
 		m.list.gone = msg.id // no note that it left the list: the message says
 		why += "; it does not pass the design (f shows failing parts)"
 	}
-	return m.reload(why + "; reloaded")
+	m.partNote = why + "; reloaded"
+	return m.reload(m.partNote)
 }

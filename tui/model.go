@@ -134,8 +134,12 @@ type Model struct {
 	quitAfterSave bool       // the save was asked for at q
 	lastDir       string     // directory of the last file written
 	lastPartFile  string     // catalog file the entry form last saved into
-	designWatch   *watcher   // follows the design file
-	designSeq     int        // debounce of design file changes
+	// partNote says what the entry form saved; it stands for the reason
+	// of the reloads until the next key, so the reload the file watcher
+	// makes of the same write does not replace it.
+	partNote    string
+	designWatch *watcher // follows the design file
+	designSeq   int      // debounce of design file changes
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -267,6 +271,7 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		m.list.scrollTo(m.listRows())
 		return nil
 	case tea.KeyMsg:
+		m.partNote = ""
 		return m.followPreview(m.updateKey(msg))
 	case tea.MouseMsg:
 		return m.followPreview(m.updateMouse(msg))
