@@ -8,9 +8,11 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
+	"github.com/charmbracelet/x/exp/teatest"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
@@ -425,4 +427,67 @@ func rowOf(f *entryForm, key string) int {
 		}
 	}
 	return -1
+}
+
+// TestEntryEndToEnd runs the real program (teatest) as opsift add does:
+// the form is open from the start; a part is typed field by field with
+// tab, saved with ctrl+s and enter, and shows in the list after the
+// background write and reload, without a restart.
+func TestEntryEndToEnd(t *testing.T) {
+	file := filepath.Join(t.TempDir(), "team.toml")
+	if err := os.WriteFile(file, []byte(teamFile), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	load := func() (*catalog.Catalog, error) {
+		return catalog.Load(catalog.FSLayer("demo", data.Catalog), catalog.PathLayer(file))
+	}
+	c, err := load()
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := New(Config{Design: demoDesign(t), Catalog: c, Load: load, OnDisk: []string{file}, Renderer: asciiRenderer(),
+		StartEntry: true, SaveTo: file})
+	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
+	out := &screenLog{r: tm.Output()}
+	out.waitFor(t, "NEW PART")
+	tab := func(n int) {
+		for range n {
+			tm.Send(tea.KeyMsg{Type: tea.KeyTab})
+		}
+	}
+	tm.Type("tf-e2e")
+	tab(1)
+	tm.Type("Team test, typed end to end")
+	tab(1)
+	tm.Type("cmos")
+	tab(1)
+	tm.Type("2")
+	tab(1)
+	tm.Type("soic8")
+	tab(6) // to supply.min
+	tm.Type("2.7 V")
+	tab(1)
+	tm.Type("12 V")
+	tab(8) // to gbw.typ
+	tm.Type("5 MHz")
+	tab(6) // to slew.typ
+	tm.Type("3 V/us")
+	out.waitFor(t, "would")
+	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlS})
+	out.waitFor(t, "save into")
+	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
+	out.waitFor(t, "saved tf-e2e into team.toml")
+	tm.Type("q")
+	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	fm := tm.FinalModel(t).(*Model)
+	if partIndex(fm, "tf-e2e") < 0 {
+		t.Errorf("tf-e2e is not in the final ranking")
+	}
+	got, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.HasPrefix(got, []byte(teamFile)) || !bytes.Contains(got, []byte(`id = "tf-e2e"`)) {
+		t.Errorf("the file does not hold its old text and the new part:\n%s", got)
+	}
 }

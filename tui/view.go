@@ -286,6 +286,7 @@ func (m *Model) helpPages(w, h int) [][]string {
 		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
 		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
 		"● modified: the design has edits not saved (w saves in place, u undoes)",
+		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
 	} {
 		body = append(body, wrap(l, inner)...)
 	}
