@@ -491,3 +491,33 @@ func TestEntryEndToEnd(t *testing.T) {
 		t.Errorf("the file does not hold its old text and the new part:\n%s", got)
 	}
 }
+
+// TestWritePartRefuses: a new part is not appended to a file that is not
+// valid TOML, nor to one already holding its id, and an edit of a part
+// no longer in its file writes nothing; each file is left as it was.
+func TestWritePartRefuses(t *testing.T) {
+	dir := t.TempDir()
+	ps, err := catalog.Decode("team.toml", []byte(teamFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name, text, editing, want string
+	}{
+		{"syntax", "[[part]\nid = \"x\"\n", "", "not a catalog file that reads"},
+		{"same id", teamFile, "", `already holds a part "tf-dual"`},
+		{"gone", "# nothing here\n", "tf-dual", "no such part in the file"},
+	} {
+		file := filepath.Join(dir, tc.name+".toml")
+		if err := os.WriteFile(file, []byte(tc.text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		err := writePart(file, tc.editing, ps[0])
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: %v, want %q", tc.name, err, tc.want)
+		}
+		if got, _ := os.ReadFile(file); string(got) != tc.text {
+			t.Errorf("%s: the file changed", tc.name)
+		}
+	}
+}
