@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"slices"
+	"strings"
 
 	"github.com/BurntSushi/toml"
 
@@ -53,25 +55,31 @@ func AppendPart(data []byte, p *Part) ([]byte, error) {
 }
 
 // ReplacePart returns data with the [[part]] table of the part with id
-// replaced by p's table (as Encode writes it), every byte outside that
-// table kept. The table's keys run from the line after its [[part]]
-// header (kept as written, with its comment) to the end of the line
-// holding its last value, so the comments and blank lines before the next
-// table stay where they are; comments among the replaced keys are not
-// kept. It is an error when no valid part of data has id, or when the
-// result would not read back p.
+// made to hold p, every byte outside that table kept. Where it can, only
+// what changed is written: the value of a changed key is replaced in
+// place (its comment and alignment stay), a key p no longer has loses its
+// line, a new key gets a line after the table's last value, and keys whose
+// value did not change keep their text as written. A table written with
+// sub-table headers or dotted keys is written anew instead, from the line
+// after its [[part]] header (kept as written) to the end of the line of its
+// last value, so the comments before the next table stay. It is an error
+// when no valid part of data has id, or when the result would not read
+// back p.
 func ReplacePart(data []byte, id string, p *Part) ([]byte, error) {
-	start, end, err := partSpan(data, id)
+	pt, err := findPart(data, id)
 	if err != nil {
 		return nil, err
 	}
+	if out, ok := spliceValues(data, pt, p); ok && readsBackPart(out, p) == nil {
+		return out, nil
+	}
 	table := encodeOne(p, data)
 	table = table[bytes.IndexByte(table, '\n')+1:] // the header stays as written
-	if end == len(data) && !bytes.HasSuffix(data, []byte("\n")) {
+	if pt.end == len(data) && !bytes.HasSuffix(data, []byte("\n")) {
 		table = bytes.TrimRight(table, "\r\n")
 	}
-	out := make([]byte, 0, len(data)-(end-start)+len(table))
-	out = append(append(append(out, data[:start]...), table...), data[end:]...)
+	out := make([]byte, 0, len(data)-(pt.end-pt.start)+len(table))
+	out = append(append(append(out, data[:pt.start]...), table...), data[pt.end:]...)
 	return out, readsBackPart(out, p)
 }
 
@@ -79,55 +87,139 @@ func ReplacePart(data []byte, id string, p *Part) ([]byte, error) {
 // valid part of the id (it was removed or renamed since it was read).
 var ErrPartNotInFile = errors.New("no such part in the file")
 
-// partSpan is the byte range [start, end) of the [[part]] table of the
-// valid part id in data: from the line after its [[part]] header to the
-// end of the line of its last value (its newline included).
-func partSpan(data []byte, id string) (start, end int, err error) {
+// partPlace is where one valid part is written in a file's text.
+type partPlace struct {
+	old  *Part          // the part as the file gives it
+	ix   *tomlpos.Index // the file's position index
+	path string         // its table's key path, "part.N"
+	// start is the line after its [[part]] header, end the end of the line
+	// of its last value (its newline included).
+	start, end int
+}
+
+// findPart finds the valid part id in data.
+func findPart(data []byte, id string) (partPlace, error) {
 	parts, _ := Decode("", data)
-	line := 0
+	var pt partPlace
 	for _, q := range parts {
 		if q.ID == id {
-			line = q.Pos.Line
+			pt.old = q
 		}
 	}
-	if line == 0 {
-		return 0, 0, fmt.Errorf("part %q: %w", id, ErrPartNotInFile)
+	if pt.old == nil {
+		return pt, fmt.Errorf("part %q: %w", id, ErrPartNotInFile)
 	}
-	text := string(data)
-	ix := tomlpos.Scan(text)
+	pt.ix = tomlpos.Scan(string(data))
 	found := -1
-	ix.Elements("part", func(i int, at tomlpos.Pos, _ []tomlpos.Entry) {
-		if at.Line == line {
-			found, start = i, at.Offset
+	pt.ix.Elements("part", func(i int, at tomlpos.Pos, _ []tomlpos.Entry) {
+		if at.Line == pt.old.Pos.Line {
+			found, pt.start = i, at.Offset
 		}
 	})
 	if found < 0 {
-		return 0, 0, fmt.Errorf("part %q: its table was not found on line %d: %w", id, line, ErrPartNotInFile)
+		return pt, fmt.Errorf("part %q: its table was not found on line %d: %w", id, pt.old.Pos.Line, ErrPartNotInFile)
 	}
-	if i := bytes.IndexByte(data[start:], '\n'); i >= 0 {
-		start += i + 1
-	} else {
-		start = len(data)
-	}
-	end = start
+	pt.path = tomlpos.Element("part", found)
+	pt.start = lineAfter(data, pt.start)
+	pt.end = pt.start
 	var walk func(path string)
 	walk = func(path string) {
-		for _, k := range ix.Keys(path) {
+		for _, k := range pt.ix.Keys(path) {
 			sub := tomlpos.Join(path, k)
-			if sp, ok := ix.Value(sub); ok {
-				end = max(end, sp.End)
+			if sp, ok := pt.ix.Value(sub); ok {
+				pt.end = max(pt.end, sp.End)
 			} else {
 				walk(sub)
 			}
 		}
 	}
-	walk(tomlpos.Element("part", found))
-	if i := bytes.IndexByte(data[end:], '\n'); i >= 0 {
-		end += i + 1
-	} else {
-		end = len(data)
+	walk(pt.path)
+	pt.end = lineAfter(data, pt.end)
+	return pt, nil
+}
+
+// lineAfter is the offset just after the newline that ends the line
+// holding offset i (len(data) on the last line).
+func lineAfter(data []byte, i int) int {
+	if j := bytes.IndexByte(data[i:], '\n'); j >= 0 {
+		return i + j + 1
 	}
-	return start, end, nil
+	return len(data)
+}
+
+// lineStart is the offset of the start of the line holding offset i.
+func lineStart(data []byte, i int) int { return bytes.LastIndexByte(data[:i], '\n') + 1 }
+
+// spliceValues writes p over pt key by key (see ReplacePart); ok is false
+// when a changed key is not written as one "key = value" line of its own.
+func spliceValues(data []byte, pt partPlace, p *Part) (_ []byte, ok bool) {
+	oldKV, _ := encodedKeys(pt.old)
+	newKV, order := encodedKeys(p)
+	for _, k := range PartKeys() {
+		if _, in := newKV[k]; !in {
+			order = append(order, k) // keys p drops, after the ones it has
+		}
+	}
+	type edit struct {
+		start, end int
+		text       string
+	}
+	var edits []edit
+	nl := string(lineEnd(data))
+	var added strings.Builder
+	for _, k := range order {
+		o, inOld := oldKV[k]
+		n, inNew := newKV[k]
+		if inOld == inNew && o == n {
+			continue
+		}
+		path := tomlpos.Join(pt.path, k)
+		at, written := pt.ix.Pos(path)
+		sp, hasValue := pt.ix.Value(path)
+		switch {
+		case written && !hasValue:
+			return nil, false // a sub-table or dotted keys
+		case written && inNew:
+			edits = append(edits, edit{sp.Start, sp.End, n})
+		case written:
+			ls := lineStart(data, at.Offset)
+			if strings.TrimSpace(string(data[ls:at.Offset])) != "" {
+				return nil, false
+			}
+			edits = append(edits, edit{ls, lineAfter(data, sp.End), ""})
+		case inNew:
+			added.WriteString(k + " = " + n + nl)
+		}
+	}
+	if added.Len() > 0 {
+		text := added.String()
+		if pt.end > 0 && data[pt.end-1] != '\n' {
+			text = nl + strings.TrimSuffix(text, nl)
+		}
+		edits = append(edits, edit{pt.end, pt.end, text})
+	}
+	slices.SortStableFunc(edits, func(a, b edit) int { return b.start - a.start })
+	out := append([]byte(nil), data...)
+	for _, e := range edits {
+		out = append(out[:e.start], append([]byte(e.text), out[e.end:]...)...)
+	}
+	return out, true
+}
+
+// encodedKeys are the keys of p's table as Encode writes them, each with
+// its value text, and the keys in the order written.
+func encodedKeys(p *Part) (map[string]string, []string) {
+	var buf bytes.Buffer
+	_ = Encode(&buf, []*Part{p})
+	kv := map[string]string{}
+	var order []string
+	for _, l := range strings.Split(buf.String(), "\n") {
+		if k, v, ok := strings.Cut(l, " = "); ok {
+			kv[k] = v
+			order = append(order, k)
+		}
+	}
+	return kv, order
 }
 
 // encodeOne is p's table as Encode writes it, with the line ends of data.
