@@ -812,7 +812,7 @@ func (f *entryForm) evalLines(w, h int) []string {
 				st.Muted.Render(fmt.Sprintf(" (of %s)", plural(f.nAll+1, "part"))), w))
 		} else {
 			out = append(out, fit(" "+st.Fail.Render("✗ would not pass")+
-				st.Muted.Render(fmt.Sprintf(" · %d of %d with the failing parts", f.pos+1, f.nAll+1)), w))
+				st.Muted.Render(fmt.Sprintf(" · %d of %d in the full list", f.pos+1, f.nAll+1)), w))
 		}
 		cp := checksPane{u: f.u}
 		for _, l := range wrap(cp.summary(r), max(10, w-1)) {
