@@ -27,7 +27,7 @@ func commands() []command {
 		{"init", "write a starter catalog and design to edit", runInit},
 		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
-		{"add", "enter a new part in the selector's entry form and save it into a catalog file", runAdd},
+		{"add", "enter a part in the selector's entry form and save it into a catalog file", runAdd},
 		{"completion", "print a shell completion script (bash, zsh or fish)", runCompletion},
 	}
 }
@@ -74,7 +74,7 @@ Usage:
 Commands:
 `)
 	for _, c := range commands() {
-		fmt.Fprintf(&b, "  %-8s %s\n", c.name, c.summary)
+		fmt.Fprintf(&b, "  %-10s %s\n", c.name, c.summary)
 	}
 	b.WriteString(`
 Run "opsift COMMAND --help" for a command's options.
