@@ -180,6 +180,12 @@ func spliceValues(data []byte, pt partPlace, p *Part) (_ []byte, ok bool) {
 		case written && !hasValue:
 			return nil, false // a sub-table or dotted keys
 		case written && inNew:
+			if subs, ok := subEdits(pt.ix, path, o, n); ok {
+				for _, e := range subs {
+					edits = append(edits, edit{e.Start, e.End, e.text})
+				}
+				continue
+			}
 			edits = append(edits, edit{sp.Start, sp.End, n})
 		case written:
 			ls := lineStart(data, at.Offset)
@@ -202,6 +208,62 @@ func spliceValues(data []byte, pt partPlace, p *Part) (_ []byte, ok bool) {
 	out := append([]byte(nil), data...)
 	for _, e := range edits {
 		out = append(out[:e.start], append([]byte(e.text), out[e.end:]...)...)
+	}
+	return out, true
+}
+
+// subEdit is a new text for the byte range of a value.
+type subEdit struct {
+	tomlpos.Span
+	text string
+}
+
+// subEdits are the edits that turn the inline table at path, encoded as
+// old, into new one sub-key at a time, so the unchanged sub-values keep
+// their text ("0.8 MHz" stays, not "800 kHz"); ok is false unless both
+// are inline tables with the same sub-keys, each written in the file.
+func subEdits(ix *tomlpos.Index, path, old, new string) ([]subEdit, bool) {
+	o, ok1 := inlineSubs(old)
+	n, ok2 := inlineSubs(new)
+	if !ok1 || !ok2 || len(o) != len(n) {
+		return nil, false
+	}
+	var out []subEdit
+	for k, nv := range n {
+		ov, in := o[k]
+		if !in {
+			return nil, false
+		}
+		if ov == nv {
+			continue
+		}
+		sp, ok := ix.Value(tomlpos.Join(path, k))
+		if !ok {
+			return nil, false
+		}
+		out = append(out, subEdit{sp, nv})
+	}
+	return out, true
+}
+
+// inlineSubs reads an inline table as Encode writes one, `{ typ =
+// "1 MHz", source = "graph" }`, into its sub-keys and value texts. The
+// values Encode writes in one (quantities and sources) hold no comma.
+func inlineSubs(v string) (map[string]string, bool) {
+	body, ok := strings.CutPrefix(v, "{ ")
+	if !ok {
+		return nil, false
+	}
+	if body, ok = strings.CutSuffix(body, " }"); !ok {
+		return nil, false
+	}
+	out := map[string]string{}
+	for _, kv := range strings.Split(body, ", ") {
+		k, val, ok := strings.Cut(kv, " = ")
+		if !ok {
+			return nil, false
+		}
+		out[k] = val
 	}
 	return out, true
 }

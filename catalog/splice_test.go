@@ -110,7 +110,7 @@ func TestReplacePartKeepsTheRest(t *testing.T) {
 				}
 			case "sp-a":
 				// Key by key: a changed value's comment stays.
-				if !strings.Contains(mid, `gbw  = { typ = "10 MHz", min = "7 MHz" }     # aligned comment`) {
+				if !strings.Contains(mid, `gbw  = { typ = "10 MHz", min = "7 MHz" }     # aligned comment`) { // a sub-key added: the value whole
 					t.Errorf("the changed gbw lost its alignment or comment:\n%s", mid)
 				}
 			}
@@ -211,6 +211,33 @@ pinout = "so8-a"   # drop-in family
 `, `slew = { typ = "1.5 V/us" }
 iq = { typ = "600 uA" }
 `, 1)
+	if string(out) != want {
+		t.Errorf("got\n%s\nwant\n%s", out, want)
+	}
+	// One sub-value of an inline table changed: only its text changes,
+	// the others keep their spelling.
+	text := []byte(`[[part]]
+id = "sp-d"
+name = "Splice test part D"
+tech = "cmos"
+channels = 1
+packages = ["sot23-5"]
+supply = {min="2.70V",max = "5.5 V"}   # tight
+gbw = { typ = "0.80 MHz", min = "0.6 MHz" }
+slew = { typ = "0.3 V/us" }
+`)
+	ps, err = Decode("t.toml", text)
+	if err != nil {
+		t.Fatal(err)
+	}
+	q := *ps[0]
+	q.Supply.Max = Some(6)
+	q.GBW.Min = Some(0.65e6)
+	out, err = ReplacePart(text, "sp-d", &q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want = strings.Replace(strings.Replace(string(text), `max = "5.5 V"`, `max = "6 V"`, 1), `min = "0.6 MHz"`, `min = "650 kHz"`, 1)
 	if string(out) != want {
 		t.Errorf("got\n%s\nwant\n%s", out, want)
 	}

@@ -304,7 +304,7 @@ func TestEntryEditsInPlace(t *testing.T) {
 	// Only the changed value's text differs: the comment beside it, the
 	// alignment and every other line stay as written.
 	want := strings.Replace(teamFile, `gbw  = { typ = "1.1 MHz", min = "0.8 MHz" }   # from the table`,
-		`gbw  = { typ = "1.3 MHz", min = "800 kHz" }   # from the table`, 1)
+		`gbw  = { typ = "1.3 MHz", min = "0.8 MHz" }   # from the table`, 1)
 	if string(got) != want {
 		t.Errorf("the file after the edit:\n%s\nwant:\n%s", got, want)
 	}
