@@ -35,7 +35,7 @@ func (e *SyntaxError) Unwrap() error { return e.Err }
 // that gives no lifecycle is active.
 func Decode(file string, data []byte) ([]*Part, error) {
 	parts, probs, _ := decodeFile(file, data, runtime.GOMAXPROCS(0))
-	parts, dups := dropDuplicates(parts, map[string]*Part{}, data)
+	parts, dups := dropDuplicates(parts, map[string]Pos{}, data)
 	probs = append(probs, dups...)
 	sortProblems(probs)
 	return parts, probs.AsError()
@@ -180,7 +180,7 @@ func partTables(v any) ([]map[string]any, error) {
 // rest to seen), returning a problem for each one removed. data is the
 // file the parts were read from: the line of a duplicate id is found in it
 // again, as decoded parts keep only their header's line.
-func dropDuplicates(parts []*Part, seen map[string]*Part, data []byte) ([]*Part, Problems) {
+func dropDuplicates(parts []*Part, seen map[string]Pos, data []byte) ([]*Part, Problems) {
 	var probs Problems
 	kept := parts[:0]
 	var lines *fileLines
@@ -191,10 +191,10 @@ func dropDuplicates(parts []*Part, seen map[string]*Part, data []byte) ([]*Part,
 				lines = &fl
 			}
 			probs = append(probs, Problem{Pos: Pos{p.Pos.File, lines.keyLine(p.Pos.Line, "id")}, Part: p.ID, Field: "id",
-				Err: fmt.Errorf("duplicate id %q, first given at %s:%d", p.ID, safe.Text(first.Pos.File), first.Pos.Line)})
+				Err: fmt.Errorf("duplicate id %q, first given at %s:%d", p.ID, safe.Text(first.File), first.Line)})
 			continue
 		}
-		seen[p.ID] = p
+		seen[p.ID] = p.Pos
 		kept = append(kept, p)
 	}
 	return kept, probs

@@ -102,6 +102,13 @@ type Loader struct {
 	// after each file with the counts so far, from the goroutine that
 	// called Load; the last call has Files == TotalFiles.
 	Progress func(Progress)
+	// Only, when non-nil, keeps in the catalog only the parts whose id it
+	// accepts: the others are still read, checked and layered (so
+	// problems, duplicates, overrides, notes and file sums are those of
+	// the whole catalog) but not kept, so a command about one part does
+	// not hold the whole catalog in memory. Parts and the figure counts
+	// then cover the kept parts only.
+	Only func(id string) bool
 }
 
 // Progress is how far a Load has got.
@@ -143,11 +150,11 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 	if ld.Progress != nil {
 		ld.Progress(progress)
 	}
-	seen := map[string]*Part{}
+	seen := map[string]Pos{}
 	ld.decodeAll(srcs, jobs, func(k int, r fileResult) {
 		j := jobs[k]
 		if k == first[j.src] {
-			seen = map[string]*Part{} // duplicate ids are per source
+			seen = map[string]Pos{} // duplicate ids are per source
 		}
 		if j.err.Err != nil {
 			probs = append(probs, j.err)
@@ -176,8 +183,14 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 			if old, ok := c.byID[p.ID]; ok {
 				c.Overrides++
 				c.Notes = append(c.Notes, fmt.Sprintf("part %q from %s overrides %s", p.ID, safe.Text(at), safe.Text(where[p.ID])))
-				*old = *p // keep the part's place in Parts
+				if old != nil {
+					*old = *p // keep the part's place in Parts
+				}
 				where[p.ID] = at
+				continue
+			}
+			if ld.Only != nil && !ld.Only(p.ID) {
+				c.byID[p.ID], where[p.ID] = nil, at // layered, not kept
 				continue
 			}
 			c.byID[p.ID] = p

@@ -2,9 +2,11 @@ package catalog
 
 import (
 	"errors"
+	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 	"testing/fstest"
@@ -193,5 +195,35 @@ func TestDefaultSources(t *testing.T) {
 				t.Errorf("got %+v, want %s", got[0], tc.want)
 			}
 		})
+	}
+}
+
+// TestLoadOnly checks that a Loader with Only keeps just the parts it
+// accepts and says everything else as the full load does: notes of
+// overrides (one of them of a part it does not keep), file sums, counts,
+// problems and set-aside parts, through the cache and without it.
+func TestLoadOnly(t *testing.T) {
+	a := writeFiles(t, map[string]string{
+		"1.toml": partText("aa-1", "1 V/us") + partText("bb-1", "2 V/us"),
+		"2.toml": partText("cc-1", "3 V/us") + partText("bb-1", "5 V/us"), // a duplicate id
+		"3.toml": partText("ee-1", "1 MHz"),                               // a problem
+	})
+	b := writeFiles(t, map[string]string{"over.toml": partText("bb-1", "20 V/us") + partText("aa-1", "4 V/us")})
+	layers := []Layer{PathLayer(a), PathLayer(filepath.Join(b, "over.toml"))}
+	for _, cache := range []*Cache{nil, {Dir: t.TempDir()}} {
+		for range 2 { // builds the cache, then reads it
+			full, fullErr := Loader{Cache: cache}.Load(layers...)
+			c, err := Loader{Cache: cache, Only: func(id string) bool { return id == "bb-1" }}.Load(layers...)
+			if fmt.Sprint(err) != fmt.Sprint(fullErr) || fullErr == nil {
+				t.Fatalf("error %v, want the full load's %v", err, fullErr)
+			}
+			if len(c.Parts) != 1 || c.Parts[0].Slew.Typ.V() != 20e6 || c.ByID("bb-1") != c.Parts[0] || c.ByID("aa-1") != nil {
+				t.Fatalf("parts %v; want only bb-1 as the later layer gives it", c.Parts)
+			}
+			if !reflect.DeepEqual(c.Notes, full.Notes) || len(c.Notes) != 2 || !reflect.DeepEqual(c.FileSums, full.FileSums) ||
+				!reflect.DeepEqual(c.SetAside, full.SetAside) || c.Files != full.Files || c.Overrides != full.Overrides || c.Invalid != full.Invalid {
+				t.Errorf("only bb-1:\nnotes %q\nsums %v\nset aside %v\nwant\n%q\n%v\n%v", c.Notes, c.FileSums, c.SetAside, full.Notes, full.FileSums, full.SetAside)
+			}
+		}
 	}
 }

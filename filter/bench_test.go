@@ -134,7 +134,9 @@ func BenchmarkEvaluate(b *testing.B) {
 
 // BenchmarkIncremental measures one stage edit on the incremental path
 // (derive, Incremental.Ranked, explain the rows a screen shows) on
-// generated catalogs; compare with BenchmarkEvaluate.
+// generated catalogs; compare with BenchmarkEvaluate. The passing
+// variants rank only the passing parts (Incremental.Rank), as the
+// selector does while failing parts are hidden.
 func BenchmarkIncremental(b *testing.B) {
 	for _, n := range []int{10_000, 100_000} {
 		parts := gencat.Parts(n, 1)
@@ -148,6 +150,21 @@ func BenchmarkIncremental(b *testing.B) {
 			}
 			benchKeys(b, o, func(p *filter.Plan) ([]filter.Result, error) {
 				return in.Ranked(context.Background(), p, filter.SortMargin)
+			})
+		})
+		b.Run(fmt.Sprintf("parts=%d/passing", n), func(b *testing.B) {
+			in := filter.NewIncremental(parts, filter.Options{})
+			if p, err := filter.Derive(benchDesign(b)); err != nil {
+				b.Fatal(err)
+			} else if _, err := in.Ranked(context.Background(), p, filter.SortMargin); err != nil {
+				b.Fatal(err)
+			}
+			benchKeys(b, filter.Options{Summary: true}, func(p *filter.Plan) ([]filter.Result, error) {
+				rk, err := in.Rank(context.Background(), p, filter.SortMargin)
+				if err != nil {
+					return nil, err
+				}
+				return rk.Passing, nil
 			})
 		})
 	}

@@ -256,3 +256,34 @@ func TestErrorFields(t *testing.T) {
 		t.Errorf("Set: %#v, want stage gain, field signal.freq and the bare reason in Err", err)
 	}
 }
+
+// TestNoiseBandErrorLines: noise_band and noise_order errors name the
+// field's own line (counted by hand), not the [[stage]] header's.
+func TestNoiseBandErrorLines(t *testing.T) {
+	head := "title = \"t\"\n[supply]\npos = \"5 V\"\n[[stage]]\nname = \"g\"\nkind = \"noninverting\"\ngain = 2\n" +
+		"signal = { shape = \"sine\", peak = \"0.1 V\", freq = \"2 kHz\" }\nnoise = \"1 mV\"\n"
+	tests := []struct {
+		name, tail, field string
+		line              int
+	}{
+		{"band not positive", "noise_band = \"0 Hz\"\n", "noise_band", 10},
+		{"order not whole", "noise_band = \"1 kHz\"\nnoise_order = 2.5\n", "noise_order", 11},
+		{"order without band", "noise_order = 2\n", "noise_order", 10},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			d, err := filter.DecodeDesign("n.toml", []byte(head+tc.tail))
+			if err == nil {
+				_, err = filter.Derive(d)
+			}
+			var e *filter.Error
+			if !errors.As(err, &e) {
+				t.Fatalf("got %v, want a *filter.Error", err)
+			}
+			if e.Line != tc.line || e.Field != tc.field || e.Stage != "g" {
+				t.Errorf("error at line %d stage %q field %q, want line %d stage \"g\" field %q (%v)",
+					e.Line, e.Stage, e.Field, tc.line, tc.field, err)
+			}
+		})
+	}
+}

@@ -63,7 +63,7 @@
 // Every formula lives in filter/circuit with one test against its named
 // source; the templates call it and write the why line.
 //   - output_current: Vo/load_r + Vo/feedback_r (when given).
-//   - dc_error (when the stage sets it): NG·(Vos + Ib·source_r) ≤ allowed.
+//   - dc_error (when the stage sets it): NG·(Vos + Ib·source_r + Ios·source_r/2) ≤ allowed.
 //   - noise (when the stage sets it, allowed output rms; circuit.AmpNoise):
 //     NG·√(en²·(B + fe·ln(B/0.1 Hz)) + in²·(Rs² + Rp²)·(B + fi·ln(B/0.1 Hz)) +
 //     4kT·(Rs + Rp)·B), Rp = Rf∥Rg when the stage gives its resistors,

@@ -238,7 +238,7 @@ func (ev *evaluator) figure(c *Check, q *Requirement, sp *StagePlan, p *catalog.
 	case KeyOutputRange:
 		load := 0.0
 		if sp != nil {
-			load = sp.LoadR
+			load = sp.SwingLoad()
 		}
 		w, scaled := f.OutputAt(load)
 		c.Basis = w.Basis
@@ -318,24 +318,19 @@ func (ev *evaluator) hardCheck(c *Check, q *Requirement, p *catalog.Part) {
 	}
 }
 
-// dcError is the output-referred DC error NG·(Vos + Ib·Rs) with worst-case
-// Vos and Ib; its basis is the weaker of the two.
+// dcError is the output-referred DC error of a stage whose inverting input
+// sees no resistance, with worst-case figures: NG·(Vos + Ib·Rs + Ios·Rs/2),
+// the + input's current being up to Ib + Ios/2 (biasDCError with Rp = 0);
+// NG·(Vos + Ib·Rs) without an Ios figure, NG·Vos without a source
+// resistance. Its basis is the weakest of the figures used.
 func dcError(sp *StagePlan, f *PartFigures) Figure {
 	if sp == nil || !f.Vos.Known {
 		return Figure{}
 	}
-	v, basis, note := f.Vos.V, f.Vos.Basis, f.Vos.Note
 	if sp.SourceR > 0 {
-		if !f.Ib.Known {
-			return Figure{}
-		}
-		v += f.Ib.V * sp.SourceR
-		basis = weaker(basis, f.Ib.Basis)
-		if f.Ib.Basis > f.Vos.Basis {
-			note = f.Ib.Note
-		}
+		return biasDCError(f, sp.NoiseGain, sp.SourceR, 0)
 	}
-	return Figure{V: sp.NoiseGain * v, Known: true, Basis: basis, Note: note}
+	return Figure{V: sp.NoiseGain * f.Vos.V, Known: true, Basis: f.Vos.Basis, Note: f.Vos.Note}
 }
 
 // weaker returns the weaker of two bases (guaranteed < typical < graph).

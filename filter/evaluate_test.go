@@ -365,16 +365,37 @@ func TestFMaxIsTheEdge(t *testing.T) {
 	}
 }
 
-// dc_error with source resistance: NG·(Vos + Ib·Rs).
+// dc_error with source resistance and nothing at the inverting input:
+// NG·(Vos + (Ib + Ios/2)·Rs), the + input's current being up to Ib + Ios/2
+// (input bias and offset currents, Sedra & Smith; from memory).
 func TestDCErrorWithBias(t *testing.T) {
 	_, p := mustDesign(t, sineDesign(`pos = "5 V"`,
 		`kind = "noninverting"`+"\ngain = 5\n"+`signal = { peak = "0.1 V", freq = "1 kHz" }`+"\n"+`source_r = "1 MOhm"`+"\n"+`dc_error = "20 mV"`))
 	part := basePart("x")
 	part.Vos = catalog.Spec{Max: opt(1e-3)}
 	part.Ib = catalog.Spec{Max: opt(1e-9)}
+	part.Ios = catalog.Spec{Max: opt(0.4e-9)}
 	c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyDCError)
-	near(t, "dc error", c.Available, 5*(1e-3+1e-9*1e6), 1e-12) // 10 mV
-	near(t, "margin", c.Margin, 1, 1e-12)
+	// 5·(1 mV + 1 nA·1 MΩ + 0.2 nA·1 MΩ) = 11 mV against 20 mV.
+	near(t, "dc error", c.Available, 5*(1e-3+1e-9*1e6+0.2e-9*1e6), 1e-12)
+	near(t, "margin", c.Margin, 20.0/11-1, 1e-12)
+
+	// Right at the edge: a 10 mV budget on a part without Ios passes at
+	// 5·(1 mV + 1 nA·1 MΩ) = 10 mV; any Ios pushes the + input's current
+	// past Ib and fails it.
+	_, p10 := mustDesign(t, sineDesign(`pos = "5 V"`,
+		`kind = "noninverting"`+"\ngain = 5\n"+`signal = { peak = "0.1 V", freq = "1 kHz" }`+"\n"+`source_r = "1 MOhm"`+"\n"+`dc_error = "10 mV"`))
+	part.Ios = catalog.Spec{}
+	c = check(t, evalOne(t, p10, part, filter.Options{}), "s", filter.KeyDCError)
+	if c.Status != filter.StatusPass {
+		t.Errorf("without Ios at 10 mV: status %v, margin %g; want a pass at the limit", c.Status, c.Margin)
+	}
+	part.Ios = catalog.Spec{Max: opt(0.02e-9)}
+	c = check(t, evalOne(t, p10, part, filter.Options{}), "s", filter.KeyDCError)
+	near(t, "dc error with 20 pA Ios", c.Available, 5*(1e-3+1e-9*1e6+0.01e-9*1e6), 1e-12) // 10.05 mV
+	if c.Status != filter.StatusFail {
+		t.Errorf("with 20 pA Ios at 10 mV: status %v, margin %g; want a fail", c.Status, c.Margin)
+	}
 }
 
 // A Summary evaluation gives the same outcome as a full one, and Explain
@@ -474,4 +495,43 @@ func wantRails(t *testing.T, r filter.Rails, spanMin, spanMax, posWorst, negWors
 	near(t, "span max", r.SpanMax, spanMax, 1e-12)
 	near(t, "V+ worst", r.PosWorst, posWorst, 1e-12)
 	near(t, "V− worst", r.NegWorst, negWorst, 1e-12)
+}
+
+// The output swing is judged at the whole resistance the output drives,
+// load_r ∥ the feedback network, as the output_current check counts it. By
+// hand (the swing rule headroom × R_spec/R_load of README): ±5 V at 5 %
+// (4.75 V), a swing 0.5 V from each rail at 10 kΩ, gain 11 from Rf 10 kΩ
+// and Rg 1 kΩ, 0.18 V in (1.98 V out) into 2 kΩ: 2 kΩ ∥ 11 kΩ = 1.6923 kΩ,
+// headroom 0.5·10/1.6923 = 2.9545 V, window ±1.7955 V, margin
+// (1.7955 − 1.98)/9.5 = −1.94 %: it fails, where load_r alone (headroom
+// 2.5 V, window ±2.25 V) would pass by +2.8 %. The inverting stage with
+// Rf 10 kΩ, Rin 1 kΩ drives 2 kΩ ∥ 10 kΩ (Rf ends at the virtual ground).
+func TestOutputSwingCountsFeedbackNetwork(t *testing.T) {
+	part := basePart("x")
+	part.Output = catalog.Swing{Low: opt(0.5), High: opt(-0.5), Load: opt(10e3)}
+	tests := []struct {
+		name, stage string
+		rt          float64 // the resistance the output drives, by hand
+		vo          float64 // the output peak, V
+		pass        bool
+	}{
+		{"noninverting", `kind = "noninverting"` + "\nrf = \"10 kOhm\"\nrg = \"1 kOhm\"", 2e3 * 11e3 / 13e3, 1.98, false},
+		// Gain 10: 1.8 V out; 1.6667 kΩ, headroom 3 V, window ±1.75 V, −0.53 %.
+		{"inverting", `kind = "inverting"` + "\nrf = \"10 kOhm\"\nrin = \"1 kOhm\"", 2e3 * 10e3 / 12e3, 1.8, false},
+		{"load only", `kind = "noninverting"` + "\ngain = 11", 2e3, 1.98, true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, p := mustDesign(t, sineDesign("pos = \"5 V\"\nneg = \"-5 V\"\ntolerance = \"5 %\"",
+				tc.stage+"\nref = \"0 V\"\nsignal = { peak = \"0.18 V\", freq = \"1 kHz\" }\nload_r = \"2 kOhm\""))
+			c := check(t, evalOne(t, p, part, filter.Options{}), "s", filter.KeyOutputRange)
+			head := 0.5 * 10e3 / tc.rt
+			near(t, "high", c.AvailHigh, 4.75-head, 1e-9)
+			near(t, "low", c.AvailLow, -4.75+head, 1e-9)
+			near(t, "margin", c.Margin, (4.75-head-tc.vo)/9.5, 1e-9)
+			if (c.Status == filter.StatusPass) != tc.pass {
+				t.Errorf("status %v, margin %g; want pass = %v", c.Status, c.Margin, tc.pass)
+			}
+		})
+	}
 }

@@ -14,6 +14,7 @@ const (
 	noteRoom        = "25 °C limit (no over-temperature limit given)"
 	noteRoomNoDrift = "25 °C limit; no drift figure to move it to temperature"
 	noteDrift       = "25 °C limit + drift·ΔT"
+	noteTypDrift    = "25 °C limit + typical drift × inflate_typ·ΔT"
 	noteFET         = "25 °C limit × 2^(ΔT/10 K), FET input"
 	noteDerate      = "typical × derate_typ"
 	noteInflate     = "typical × inflate_typ"
@@ -256,12 +257,12 @@ func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 	if !f.Known || !w.leaves || isOT(f.Note) {
 		return f
 	}
-	d := math.NaN()
+	d, typDrift := math.NaN(), false
 	switch {
 	case drift.Max.Known():
 		d = drift.Max.V()
 	case drift.Typ.Known():
-		d = drift.Typ.V() * w.inflate
+		d, typDrift = drift.Typ.V()*w.inflate, true
 	}
 	if math.IsNaN(d) {
 		if f.Basis == BasisGuaranteed {
@@ -270,10 +271,19 @@ func (w worst) vos(s, drift catalog.Spec, dt float64) Figure {
 		return f
 	}
 	f.V += math.Abs(d) * dt
-	if f.Basis == BasisGuaranteed {
+	switch {
+	case f.Basis == BasisGuaranteed && typDrift:
+		// Part of the figure rests on a typical drift: it is no longer a
+		// guaranteed value, and its basis says so.
+		f.Basis = weaker(f.Basis, typBasis(drift.Source))
+		f.Note = noteTypDrift
+	case f.Basis == BasisGuaranteed:
 		f.Note = noteDrift
-	} else {
+	default:
 		f.Note = noteInflDrift
+		if typDrift {
+			f.Basis = weaker(f.Basis, typBasis(drift.Source))
+		}
 	}
 	return f
 }

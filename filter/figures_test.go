@@ -65,12 +65,12 @@ func TestFigureRules(t *testing.T) {
 				p.VosDrift = catalog.Spec{Typ: opt(2e-6), Max: opt(5e-6)}
 			},
 			func(f filter.PartFigures) filter.Figure { return f.Vos }, 1e-3 + 5e-6*65, filter.BasisGuaranteed},
-		{"Vos max + typical drift × 2 · 65 K", hot, "",
+		{"Vos max + typical drift × 2 · 65 K: typical, part of it rests on a typical", hot, "",
 			func(p *catalog.Part) {
 				p.Vos = catalog.Spec{Max: opt(1e-3)}
 				p.VosDrift = catalog.Spec{Typ: opt(2e-6)}
 			},
-			func(f filter.PartFigures) filter.Figure { return f.Vos }, 1e-3 + 2*2e-6*65, filter.BasisGuaranteed},
+			func(f filter.PartFigures) filter.Figure { return f.Vos }, 1e-3 + 2*2e-6*65, filter.BasisTypical},
 		{"Vos ΔT is the larger distance from 25 C (cold side)", `["-55 C", "30 C"]`, "",
 			func(p *catalog.Part) {
 				p.Vos = catalog.Spec{Max: opt(1e-3)}

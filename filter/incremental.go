@@ -20,14 +20,18 @@ import (
 //     the policy stay the same;
 //   - the design-level checks (supply, temperature, hard filters, cost,
 //     supply current), kept while the supply, environment, [choose],
-//     policy and number of stages stay the same;
+//     policy and number of stages stay the same; they also decide once
+//     which parts can pass at all (the candidates);
 //   - each stage's checks, kept while that stage's inputs and the
-//     design-level inputs stay the same.
+//     design-level inputs stay the same, and evaluated part by part only
+//     as far as they are asked for: Rank evaluates a stage only for the
+//     candidates that passed the stages before it, Ranked and Evaluate for
+//     every part.
 //
 // Its results are those of Evaluate with Options.Summary, bit for bit.
-// Work is split over the CPUs. Evaluate may be called from several
+// Work is split over the CPUs. Its methods may be called from several
 // goroutines; the calls run one at a time, and a call whose context is
-// cancelled stops early and leaves what it had not finished to the next.
+// cancelled stops early (what it finished is kept for the next call).
 type Incremental struct {
 	parts  []*catalog.Part
 	strict bool
@@ -36,7 +40,7 @@ type Incremental struct {
 	figKey figureKey
 	figs   []PartFigures // nil until computed
 	global cachedGroup
-	stages []cachedGroup
+	stages []stageGroup
 	// keys and keyBuf are Ranked's rank keys and merge buffer, kept from
 	// call to call (only Ranked, under mu, touches them).
 	keys, keyBuf []rankKey
@@ -60,13 +64,24 @@ func figureKeyOf(p *Plan) figureKey {
 	return figureKey{p.TempLow, p.TempHigh, p.DerateTyp, p.InflateTyp, p.SpeedTempco, p.IbColdTempco}
 }
 
-// cachedGroup is one group of checks evaluated for every part, with the
-// key of the inputs it was evaluated from.
+// cachedGroup is the design-level group of checks evaluated for every part,
+// with the key of the inputs it was evaluated from.
 type cachedGroup struct {
 	key  string
 	sums []groupSum // nil when not evaluated
-	// totals of each part (design-level group only): packages, cost, current.
+	// totals of each part: packages, cost, current.
 	totals []partTotals
+	// cand lists, in parts order, the parts whose design-level checks do
+	// not fail: the only ones a stage can still let pass.
+	cand []int
+}
+
+// stageGroup is one stage's group of checks, evaluated part by part.
+type stageGroup struct {
+	key  string
+	sums []groupSum
+	have []bool // have[k]: sums[k] is evaluated for key
+	all  bool   // every have is true
 }
 
 type partTotals struct {
@@ -114,93 +129,135 @@ const checkEvery = 512
 func (in *Incremental) Evaluate(ctx context.Context, plan *Plan) ([]Result, error) {
 	in.mu.Lock()
 	defer in.mu.Unlock()
-	return in.evaluate(ctx, plan, true)
-}
-
-// evaluate brings the kept groups up to plan and, when results is true,
-// assembles the results in parts order. The caller holds in.mu.
-func (in *Incremental) evaluate(ctx context.Context, plan *Plan, results bool) ([]Result, error) {
-	n := len(in.parts)
-	fk := figureKeyOf(plan)
-	newFigs := in.figs == nil || fk != in.figKey
-	dk := designKey(plan, in.strict)
-	newGlobal := newFigs || in.global.sums == nil || in.global.key != dk
-	skeys := make([]string, len(plan.Stages))
-	var redo []int // stages to evaluate again
-	for i := range plan.Stages {
-		st := plan.Stages[i].Stage
-		if st == nil {
-			st = &Stage{Name: plan.Stages[i].Name, Kind: plan.Stages[i].Kind}
-		}
-		skeys[i] = stageKey(dk, i, st)
-		if plan.Stages[i].Stage == nil || newFigs || i >= len(in.stages) || in.stages[i].sums == nil || in.stages[i].key != skeys[i] {
-			redo = append(redo, i)
-		}
+	if err := in.evaluate(ctx, plan, true); err != nil {
+		return nil, err
 	}
-	figs := in.figs
-	if newFigs {
-		figs = make([]PartFigures, n)
-	}
-	global := in.global
-	if newGlobal {
-		global = cachedGroup{key: dk, sums: make([]groupSum, n), totals: make([]partTotals, n)}
-	}
-	stages := make([]cachedGroup, len(plan.Stages))
-	for i := range stages {
-		if i < len(in.stages) {
-			stages[i] = in.stages[i]
-		}
-	}
-	for _, i := range redo {
-		stages[i] = cachedGroup{key: skeys[i], sums: make([]groupSum, n)}
-	}
-	ev := evaluator{plan: plan, strict: in.strict, summary: true}
-	maxReqs := len(plan.Global)
-	for i := range plan.Stages {
-		maxReqs = max(maxReqs, len(plan.Stages[i].Requirements))
-	}
-	err := inParallel(ctx, n, func(lo, hi int) {
-		scratch := make([]Check, maxReqs)
-		var r Result
-		for k := lo; k < hi; k++ {
-			f := &figs[k]
-			if newFigs {
-				*f = Figures(in.parts[k], plan)
-			}
-			r.Part = in.parts[k]
-			if newGlobal {
-				ev.totals(&r, f)
-				global.totals[k] = partTotals{r.Packages, r.Cost, r.SupplyCurrent}
-				ev.group(&global.sums[k], scratch, plan.Global, nil, &r, f)
-			} else {
-				t := global.totals[k]
-				r.Packages, r.Cost, r.SupplyCurrent = t.packages, t.cost, t.current
-			}
-			for _, i := range redo {
-				sp := &plan.Stages[i]
-				ev.group(&stages[i].sums[k], scratch, sp.Requirements, sp, &r, f)
-			}
-		}
-	})
-	if err != nil {
-		return nil, err // nothing of this call is kept
-	}
-	in.figKey, in.figs, in.global, in.stages = fk, figs, global, stages
-	if !results {
-		return nil, nil
-	}
+	n, ns := len(in.parts), len(in.stages)
 	out := make([]Result, n)
-	fmax := make([]float64, n*len(stages))
+	fmax := make([]float64, n*ns)
 	_ = inParallel(context.Background(), n, func(lo, hi int) {
 		for k := lo; k < hi; k++ {
-			in.result(&out[k], k, fmax[k*len(stages):(k+1)*len(stages):(k+1)*len(stages)])
+			in.result(&out[k], k, fmax[k*ns:(k+1)*ns:(k+1)*ns])
 		}
 	})
 	return out, nil
 }
 
+// evaluate brings the kept figures and groups up to plan: the figures and
+// the design-level group for every part, the stage groups for every part
+// when every is true, else for the candidates only and for each of them
+// only up to its first failing stage. The caller holds in.mu.
+func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) error {
+	n := len(in.parts)
+	fk := figureKeyOf(plan)
+	newFigs := in.figs == nil || fk != in.figKey
+	dk := designKey(plan, in.strict)
+	ev := evaluator{plan: plan, strict: in.strict, summary: true}
+	maxReqs := len(plan.Global)
+	for i := range plan.Stages {
+		maxReqs = max(maxReqs, len(plan.Stages[i].Requirements))
+	}
+	if newFigs || in.global.sums == nil || in.global.key != dk {
+		figs := in.figs
+		if newFigs {
+			figs = make([]PartFigures, n)
+		}
+		global := cachedGroup{key: dk, sums: make([]groupSum, n), totals: make([]partTotals, n)}
+		err := inParallel(ctx, n, func(lo, hi int) {
+			scratch := make([]Check, maxReqs)
+			var r Result
+			for k := lo; k < hi; k++ {
+				f := &figs[k]
+				if newFigs {
+					*f = Figures(in.parts[k], plan)
+				}
+				r.Part = in.parts[k]
+				ev.totals(&r, f)
+				global.totals[k] = partTotals{r.Packages, r.Cost, r.SupplyCurrent}
+				ev.group(&global.sums[k], scratch, plan.Global, nil, &r, f)
+			}
+		})
+		if err != nil {
+			return err // nothing of this step is kept
+		}
+		for k := range global.sums {
+			if !global.sums[k].fail {
+				global.cand = append(global.cand, k)
+			}
+		}
+		in.figKey, in.figs, in.global = fk, figs, global
+	}
+	stages := in.stages
+	if len(stages) != len(plan.Stages) {
+		stages = make([]stageGroup, len(plan.Stages))
+		copy(stages, in.stages)
+	}
+	var redo []int // stages with work left
+	for i := range plan.Stages {
+		st := plan.Stages[i].Stage
+		if st == nil {
+			st = &Stage{Name: plan.Stages[i].Name, Kind: plan.Stages[i].Kind}
+		}
+		g := &stages[i]
+		if key := stageKey(dk, i, st); plan.Stages[i].Stage == nil || g.sums == nil || g.key != key {
+			g.key, g.all = key, false
+			if len(g.sums) != n {
+				g.sums, g.have = make([]groupSum, n), make([]bool, n)
+			} else {
+				clear(g.have)
+			}
+		}
+		if !g.all {
+			redo = append(redo, i)
+		}
+	}
+	in.stages = stages
+	if len(redo) == 0 {
+		return nil
+	}
+	work := len(in.global.cand)
+	if every {
+		work = n
+	}
+	err := inParallel(ctx, work, func(lo, hi int) {
+		scratch := make([]Check, maxReqs)
+		var r Result
+		for j := lo; j < hi; j++ {
+			k := j
+			if !every {
+				k = in.global.cand[j]
+			}
+			if !every && in.failsKept(k) {
+				continue // a stage kept from before fails it already
+			}
+			t := in.global.totals[k]
+			r.Part, r.Packages, r.Cost, r.SupplyCurrent = in.parts[k], t.packages, t.cost, t.current
+			for _, i := range redo {
+				g := &stages[i]
+				if !g.have[k] {
+					sp := &plan.Stages[i]
+					ev.group(&g.sums[k], scratch, sp.Requirements, sp, &r, &in.figs[k])
+					g.have[k] = true
+				}
+				if !every && g.sums[k].fail {
+					break // the part fails: later stages cannot make it pass
+				}
+			}
+		}
+	})
+	if err != nil {
+		return err // what was evaluated stays, marked in have
+	}
+	if every {
+		for _, i := range redo {
+			stages[i].all = true
+		}
+	}
+	return nil
+}
+
 // result assembles the summary result of part k from the kept groups,
-// with fmax (one per stage) as its FMax.
+// with fmax (one per stage) as its FMax. Every stage group must have k.
 func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	t := in.global.totals[k]
 	*r = Result{Part: in.parts[k], Pass: true, WorstMargin: math.NaN(),
@@ -213,13 +270,93 @@ func (in *Incremental) result(r *Result, k int, fmax []float64) {
 	}
 }
 
+// failsKept reports whether a stage group already evaluated for part k
+// fails it.
+func (in *Incremental) failsKept(k int) bool {
+	for i := range in.stages {
+		if g := &in.stages[i]; g.have[k] && g.sums[k].fail {
+			return true
+		}
+	}
+	return false
+}
+
+// passes reports whether candidate k passes every stage evaluated so far
+// (after a candidates-only evaluate: every stage).
+func (in *Incremental) passes(k int) bool {
+	for i := range in.stages {
+		if g := &in.stages[i]; !g.have[k] || g.sums[k].fail {
+			return false
+		}
+	}
+	return true
+}
+
+// Ranking is one plan's ranked evaluation: the passing candidates at
+// once, in rank order, and every part in rank order on demand (All). It
+// is what a front end shows on a keystroke when failing parts are hidden.
+type Ranking struct {
+	// Passing holds the results of the parts that pass, in rank order:
+	// the first results of All, the same in every field.
+	Passing []Result
+	// Parts is the number of parts evaluated (passing or not).
+	Parts int
+
+	in   *Incremental
+	plan *Plan
+	key  SortKey
+}
+
+// All returns every part's result in rank order, failing parts included,
+// as Ranked(ctx, plan, key) does for the Ranking's plan and key.
+func (rk *Ranking) All(ctx context.Context) ([]Result, error) {
+	return rk.in.Ranked(ctx, rk.plan, rk.key)
+}
+
+// Rank evaluates plan as far as the passing parts need (the design-level
+// checks decide the candidates; a stage is evaluated only for candidates
+// that passed the stages before it) and returns them ranked by key. Its
+// Passing are the passing prefix of Ranked(ctx, plan, key).
+func (in *Incremental) Rank(ctx context.Context, plan *Plan, key SortKey) (*Ranking, error) {
+	in.mu.Lock()
+	defer in.mu.Unlock()
+	if err := in.evaluate(ctx, plan, false); err != nil {
+		return nil, err
+	}
+	var pass []int
+	for _, k := range in.global.cand {
+		if in.passes(k) {
+			pass = append(pass, k)
+		}
+	}
+	// The passing results in parts order, then ranked: Rank's order is
+	// total with the input order last, which here is the parts order, so
+	// this is the passing prefix of Ranked.
+	results := in.assemble(pass)
+	Rank(results, key)
+	return &Ranking{Passing: results, Parts: len(in.parts), in: in, plan: plan, key: key}, nil
+}
+
+// assemble returns the results of the parts idx names, in idx order.
+func (in *Incremental) assemble(idx []int) []Result {
+	ns := len(in.stages)
+	results := make([]Result, len(idx))
+	fmax := make([]float64, len(idx)*ns)
+	_ = inParallel(context.Background(), len(idx), func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			in.result(&results[i], idx[i], fmax[i*ns:(i+1)*ns:(i+1)*ns])
+		}
+	})
+	return results
+}
+
 // Ranked is Evaluate followed by Rank(results, key), the same results in
 // the same order, without moving results: the rank keys are made from the
 // kept groups and the results assembled in rank order.
 func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]Result, error) {
 	in.mu.Lock()
 	defer in.mu.Unlock()
-	if _, err := in.evaluate(ctx, plan, false); err != nil {
+	if err := in.evaluate(ctx, plan, true); err != nil {
 		return nil, err
 	}
 	n, ns := len(in.parts), len(in.stages)
@@ -238,14 +375,14 @@ func (in *Incremental) Ranked(ctx context.Context, plan *Plan, key SortKey) ([]R
 		return nil, err
 	}
 	sortParallelIn(keys, in.keyBuf, rankOrder(key))
-	results := make([]Result, n)
-	fmax := make([]float64, n*ns)
-	_ = inParallel(context.Background(), n, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			in.result(&results[i], keys[i].idx, fmax[i*ns:(i+1)*ns:(i+1)*ns])
-		}
-	})
-	return results, nil
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	idx := make([]int, n)
+	for i := range keys {
+		idx[i] = keys[i].idx
+	}
+	return in.assemble(idx), nil
 }
 
 // inParallel runs work over [0, n) in ranges on up to GOMAXPROCS

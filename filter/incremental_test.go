@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"strconv"
+	"sync/atomic"
 	"testing"
 
 	"github.com/opsift/opsift/catalog"
@@ -108,20 +109,41 @@ func TestIncrementalMatchesFull(t *testing.T) {
 						d = before // an edit the design refuses: the front end keeps the last plan
 						continue
 					}
-					got, err := in.Evaluate(context.Background(), plan)
+					t.Log(what)
+					full := filter.Evaluate(plan, parts, o)
+					key := filter.SortKeys()[r.IntN(len(filter.SortKeys()))]
+					// The calls in a random order, sometimes one cut short
+					// part way first, so each may find the stage groups
+					// evaluated for every part, for the candidates only
+					// (Rank), or part of the way (a cancelled call).
+					if r.IntN(3) == 0 {
+						in.Rank(cutShort(r.IntN(6)), plan, key)
+					}
+					ranking, err := in.Rank(context.Background(), plan, key)
 					if err != nil {
 						t.Fatal(err)
 					}
-					t.Log(what)
-					full := filter.Evaluate(plan, parts, o)
-					sameResults(t, step, got, full)
-					key := filter.SortKeys()[r.IntN(len(filter.SortKeys()))]
-					ranked, err := in.Ranked(context.Background(), plan, key)
+					if r.IntN(2) == 0 {
+						got, err := in.Evaluate(context.Background(), plan)
+						if err != nil {
+							t.Fatal(err)
+						}
+						sameResults(t, step, got, full)
+					}
+					ranked, err := ranking.All(context.Background())
 					if err != nil {
 						t.Fatal(err)
 					}
 					filter.Rank(full, key)
 					sameResults(t, step, ranked, full)
+					pass := 0
+					for pass < len(full) && full[pass].Pass {
+						pass++
+					}
+					sameResults(t, step, ranking.Passing, full[:pass])
+					if ranking.Parts != len(parts) {
+						t.Fatalf("step %d: Ranking.Parts %d, want %d", step, ranking.Parts, len(parts))
+					}
 					steps++
 				}
 				if steps < 10 {
@@ -130,6 +152,27 @@ func TestIncrementalMatchesFull(t *testing.T) {
 			})
 		}
 	}
+}
+
+// cutShort returns a context that is cancelled after its Err has been
+// asked n times: the workers look at it once per chunk of parts, so a call
+// with it stops part way, after a fixed share of the work.
+func cutShort(n int) context.Context {
+	c := &countdown{Context: context.Background()}
+	c.left.Store(int32(n))
+	return c
+}
+
+type countdown struct {
+	context.Context
+	left atomic.Int32
+}
+
+func (c *countdown) Err() error {
+	if c.left.Add(-1) < 0 {
+		return context.Canceled
+	}
+	return nil
 }
 
 // TestIncrementalCancelled checks that a cancelled evaluation returns an

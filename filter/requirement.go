@@ -179,6 +179,12 @@ type StagePlan struct {
 	GainError float64 // allowed gain error ε, fraction
 	SourceR   float64 // Ω, 0 when not given
 	LoadR     float64 // Ω, 0 when not given (no resistive load)
+	// DriveR is the resistance the output effectively drives, Vo over the
+	// worst output current the stage draws (load_r ∥ the feedback network
+	// for the amplifiers, load_r ∥ Rf for a transimpedance stage); 0 when
+	// the stage sets none, and then LoadR stands. The output_range check
+	// scales a part's swing to it (SwingLoad).
+	DriveR float64
 	// Ref is the node the stage is centred on, V, resolved: the stage's
 	// ref or its default, the middle of the nominal rails (0 for kinds
 	// without one: direct, comparator).
@@ -243,4 +249,22 @@ func (p *Plan) Requirements() []Requirement {
 		out = append(out, s.Requirements...)
 	}
 	return out
+}
+
+// SwingLoad is the resistance at which a part's output swing is judged:
+// DriveR when the stage sets it, else LoadR (0: no resistive load).
+func (sp *StagePlan) SwingLoad() float64 {
+	if sp.DriveR > 0 {
+		return sp.DriveR
+	}
+	return sp.LoadR
+}
+
+// driveR is Vo/i, the resistance a stage's output drives when it delivers
+// current i at output peak vo; 0 when either is not positive.
+func driveR(vo, i float64) float64 {
+	if !(vo > 0) || !(i > 0) {
+		return 0
+	}
+	return vo / i
 }

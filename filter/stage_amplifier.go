@@ -64,14 +64,14 @@ const maxNoiseOrder = 8
 func readNoiseBand(in *StageInput) (band float64, order int, err error) {
 	band, _ = in.Num("noise_band")
 	if v, ok := in.Num("noise_band"); ok && !(v > 0) {
-		return 0, 0, fmt.Errorf("field \"noise_band\": %q is not positive, want a frequency such as \"20 kHz\"", in.Raw("noise_band"))
+		return 0, 0, fieldErrorf("noise_band", "%q is not positive, want a frequency such as \"20 kHz\"", in.Raw("noise_band"))
 	}
 	if v, ok := in.Num("noise_order"); ok {
 		if v != math.Trunc(v) || v < 0 || v > maxNoiseOrder {
-			return 0, 0, fmt.Errorf("field \"noise_order\": %q is out of range, want a whole number 0 … %d", in.Raw("noise_order"), maxNoiseOrder)
+			return 0, 0, fieldErrorf("noise_order", "%q is out of range, want a whole number 0 … %d", in.Raw("noise_order"), maxNoiseOrder)
 		}
 		if band == 0 {
-			return 0, 0, fmt.Errorf("field \"noise_order\": given without noise_band, want noise_band as well")
+			return 0, 0, fieldErrorf("noise_order", "given without noise_band, want noise_band as well")
 		}
 		order = int(v)
 	}
@@ -236,6 +236,7 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 			}
 			why += fmt.Sprintf("Vo/feedback_r = %s/%s", V(vo), catalog.Format(a.feedbackR, catalog.Ohm))
 		}
+		sp.DriveR = driveR(vo, i)
 		add(Requirement{Key: KeyOutputCurrent, Bound: BoundMin, Value: i, Dim: catalog.Ampere, Why: why})
 	}
 	if c, ok := in.Num("cload"); ok {
@@ -287,7 +288,7 @@ func appendErrorBudgets(in *StageInput, sp *StagePlan, p *Plan, rp float64) erro
 	rs := catalog.Format(sp.SourceR, catalog.Ohm)
 	if v, ok := in.Num("dc_error"); ok {
 		sp.Requirements = append(sp.Requirements, Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
-			Why: fmt.Sprintf("NG·(Vos + Ib·Rs) ≤ %s with NG = %s, Rs = %s", catalog.Format(v, catalog.Volt), ng, rs)})
+			Why: fmt.Sprintf("NG·(Vos + Ib·Rs + Ios·Rs/2) ≤ %s with NG = %s, Rs = %s", catalog.Format(v, catalog.Volt), ng, rs)})
 	}
 	v, ok := in.Num("noise")
 	if !ok {

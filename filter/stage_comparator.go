@@ -121,7 +121,7 @@ func (comparatorTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	}
 	if v, ok := in.Num("dc_error"); ok {
 		add(Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
-			Why: fmt.Sprintf("threshold error Vos + Ib·Rs ≤ %s with Rs = %s", V(v), catalog.Format(sp.SourceR, catalog.Ohm))})
+			Why: fmt.Sprintf("threshold error Vos + Ib·Rs + Ios·Rs/2 ≤ %s with Rs = %s", V(v), catalog.Format(sp.SourceR, catalog.Ohm))})
 	}
 	return sp, nil
 }

@@ -120,7 +120,7 @@ func (railSplitterTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	}
 	if v, ok := in.Num("dc_error"); ok {
 		add(Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
-			Why: fmt.Sprintf("mid-rail error Vos + Ib·Rs ≤ %s with Rs = %s", V(v), catalog.Format(sp.SourceR, catalog.Ohm))})
+			Why: fmt.Sprintf("mid-rail error Vos + Ib·Rs + Ios·Rs/2 ≤ %s with Rs = %s", V(v), catalog.Format(sp.SourceR, catalog.Ohm))})
 	}
 	return sp, nil
 }

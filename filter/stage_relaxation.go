@@ -89,6 +89,9 @@ func (relaxationTemplate) Params() []Param {
 type astable struct {
 	r, c, r1, r2, ref, vol, voh, share, loadR float64
 	levelsGiven                               bool
+	// driveR is the resistance the output drives just after a switch
+	// (Vo over the output current then), at which its swing is judged.
+	driveR float64
 }
 
 // readAstable reads and checks a relaxation stage's inputs.
@@ -146,6 +149,14 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 	sp.Freq = 1 / period
 	sp.Vo = math.Max(a.voh-a.ref, a.ref-a.vol)
 	sp.LoadR = a.loadR
+	// The output current peaks just after a switch, with the output at
+	// its level: the swing is judged at that current (SwingLoad).
+	iOut := circuit.AstableOutputCurrent(a.r, a.r1, a.r2, a.ref, a.vol, a.voh)
+	if a.loadR > 0 {
+		iOut += sp.Vo / a.loadR
+	}
+	a.driveR = driveR(sp.Vo, iOut)
+	sp.DriveR = a.driveR
 	sp.Ref = a.ref
 	sp.Values = map[string]float64{"r": a.r, "c": a.c, "r1": a.r1, "r2": a.r2}
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
@@ -185,14 +196,12 @@ func (relaxationTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 			catalog.Format(a.share, catalog.Ratio), b, s(circuit.RegenerationTimeConstant(gbw, beta)), catalog.Format(sp.Freq, catalog.Hertz))})
 	add(Requirement{Key: KeyVdiff, Bound: BoundMin, Value: circuit.AstableVdiff(beta, a.vol, a.voh), Dim: catalog.Volt, Measure: measureVdiff,
 		Why: fmt.Sprintf("β·(VOH − VOL) = %s·(%s − %s), the step at each switching instant", b, W(a.voh), W(a.vol))})
-	i := circuit.AstableOutputCurrent(a.r, a.r1, a.r2, a.ref, a.vol, a.voh)
 	why := fmt.Sprintf("just after a switch: max((VOH − VTL)/R + (VOH − ref)/(R1+R2), (VTH − VOL)/R + (ref − VOL)/(R1+R2)), R = %s, R1+R2 = %s",
 		catalog.Format(a.r, catalog.Ohm), catalog.Format(a.r1+a.r2, catalog.Ohm))
 	if a.loadR > 0 {
-		i += sp.Vo / a.loadR
 		why += fmt.Sprintf(", + %s/load_r %s", V(sp.Vo), catalog.Format(a.loadR, catalog.Ohm))
 	}
-	add(Requirement{Key: KeyOutputCurrent, Bound: BoundMin, Value: i, Dim: catalog.Ampere, Why: why})
+	add(Requirement{Key: KeyOutputCurrent, Bound: BoundMin, Value: iOut, Dim: catalog.Ampere, Why: why})
 	return sp, nil
 }
 
@@ -212,7 +221,7 @@ func (a astable) predicted(p *Plan, f *PartFigures) (freq float64, ok bool) {
 	if !f.Slew.Known || !(f.Slew.V > 0) {
 		return 0, false
 	}
-	w, _ := f.OutputAt(a.loadR)
+	w, _ := f.OutputAt(a.driveR)
 	if !w.LowKnown || !w.HighKnown {
 		return 0, false
 	}

@@ -158,12 +158,13 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		i += vo / sp.LoadR
 		why = fmt.Sprintf("i_max + i_max·Rf/load_r = %s + %s/%s", I, V(vo), Ohm(sp.LoadR))
 	}
+	sp.DriveR = driveR(vo, i)
 	add(Requirement{Key: KeyOutputCurrent, Bound: BoundMin, Value: i, Dim: catalog.Ampere, Why: why})
 	if v, ok := in.Num("dc_error"); ok {
 		rf, ng := t.rf, t.ng
 		add(Requirement{Key: KeyDCError, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Measure: func(_ *catalog.Part, f *PartFigures) Figure { return tiaDCError(f, rf, ng) },
-			Why: fmt.Sprintf("Vos·(1 + Rf/shunt_r) + Ib·Rf ≤ %s with 1 + Rf/shunt_r = %s, Rf = %s",
+			Why: fmt.Sprintf("Vos·(1 + Rf/shunt_r) + (Ib + Ios/2)·Rf ≤ %s with 1 + Rf/shunt_r = %s, Rf = %s",
 				V(v), catalog.Format(ng, catalog.Dimensionless), Ohm(rf))})
 	}
 	if v, ok := in.Num("noise"); ok {
@@ -223,8 +224,10 @@ func tiaGBW(p *catalog.Part, f *PartFigures, t tia, need float64) Figure {
 	return g
 }
 
-// tiaDCError is Vos·NG + Ib·Rf with worst-case Vos and Ib: the bias current
-// flows through Rf, the offset is amplified by the DC noise gain.
+// tiaDCError is Vos·NG + (Ib + Ios/2)·Rf with worst-case figures: the
+// inverting input's bias current, up to Ib + Ios/2 (Ib alone without an
+// Ios figure), flows through Rf; the offset is amplified by the DC noise
+// gain.
 func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 	if !f.Vos.Known || !f.Ib.Known {
 		return Figure{}
@@ -233,7 +236,12 @@ func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 	if f.Ib.Basis > f.Vos.Basis {
 		note = f.Ib.Note
 	}
-	return Figure{V: ng*f.Vos.V + f.Ib.V*rf, Known: true, Basis: weaker(f.Vos.Basis, f.Ib.Basis), Note: note}
+	basis, ib := weaker(f.Vos.Basis, f.Ib.Basis), f.Ib.V
+	if f.Ios.Known {
+		ib += f.Ios.V / 2
+		basis = weaker(basis, f.Ios.Basis)
+	}
+	return Figure{V: ng*f.Vos.V + ib*rf, Known: true, Basis: basis, Note: note}
 }
 
 // tiaFeedbackCap returns the feedback capacitor that makes a

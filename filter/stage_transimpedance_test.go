@@ -128,7 +128,7 @@ func TestTransimpedancePartCin(t *testing.T) {
 
 // The other needs, worked by hand for 10 µA into 100 kΩ from a 1 V ref:
 // a 1 V output step; slew 0.8·1 V/(0.35/1 MHz) = 2.286 V/µs; output current
-// 10 µA + 1 V/10 kΩ; dc_error Vos·(1 + Rf/Rsh) + Ib·Rf.
+// 10 µA + 1 V/10 kΩ; dc_error Vos·(1 + Rf/Rsh) + (Ib + Ios/2)·Rf.
 func TestTransimpedanceRequirements(t *testing.T) {
 	p := tmplPlan(t, rails12, tiaStage+"\nload_r = \"10 kOhm\"\nshunt_r = \"1 MOhm\"\ndc_error = \"5 mV\"")
 	out := tmplMust(t, p, filter.KeyOutputRange)
@@ -140,10 +140,10 @@ func TestTransimpedanceRequirements(t *testing.T) {
 	}
 	tmplNear(t, "slew", tmplMust(t, p, filter.KeySlew).Value, 0.8*1/(0.35/1e6), 1e-12)
 	tmplNear(t, "output current", tmplMust(t, p, filter.KeyOutputCurrent).Value, 10e-6+1/10e3, 1e-12)
-	// Vos 1 mV × 1.1 + Ib 10 nA × 100 kΩ = 1.1 mV + 1 mV.
+	// Vos 1 mV × 1.1 + (Ib 10 nA + Ios 1 nA/2) × 100 kΩ = 1.1 mV + 1.05 mV.
 	c := tmplCheck(t, p, tmplPart("t"), filter.KeyDCError)
-	tmplNear(t, "dc error", c.Available, 1.1e-3+1e-3, 1e-9)
-	tmplNear(t, "dc error margin", c.Margin, 5e-3/2.1e-3-1, 1e-9)
+	tmplNear(t, "dc error", c.Available, 1.1e-3+1.05e-3, 1e-9)
+	tmplNear(t, "dc error margin", c.Margin, 5e-3/2.15e-3-1, 1e-9)
 
 	t.Run("negative polarity", func(t *testing.T) {
 		p := tmplPlan(t, rails12, strings.Replace(tiaStage, `ref = "1 V"`, `ref = "11 V"`, 1)+"\npolarity = \"negative\"")

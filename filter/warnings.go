@@ -40,6 +40,9 @@ func (p *Plan) designWarnings(d *Design) []Warning {
 	}
 	V := func(x float64) string { return catalog.Format(x, catalog.Volt) }
 	for _, sp := range p.Stages {
+		if w, ok := gainOnlyWarning(&sp); ok {
+			out = append(out, w)
+		}
 		for _, q := range sp.Requirements {
 			if q.Key != KeyOutputRange || q.Bound != BoundRange {
 				continue
@@ -164,4 +167,38 @@ func nearestKey(s string, names []string) string {
 		return back[k]
 	}
 	return ""
+}
+
+// gainOnlyWarning says when an amplifier given by its gain alone carries a
+// dc_error or noise budget: without rf (and rg or rin) the checks take no
+// resistance at the inverting input, so Ib·(Rf∥Rg) and the resistors'
+// noise are left out and a real network may need more than they show.
+func gainOnlyWarning(sp *StagePlan) (Warning, bool) {
+	if sp.Kind != "noninverting" && sp.Kind != "inverting" {
+		return Warning{}, false
+	}
+	if _, ok := sp.Values["rf"]; ok {
+		return Warning{}, false
+	}
+	var keys []string
+	for _, q := range sp.Requirements {
+		if q.Key == KeyDCError || q.Key == KeyNoise {
+			keys = append(keys, string(q.Key))
+		}
+	}
+	if len(keys) == 0 {
+		return Warning{}, false
+	}
+	pair := "rf and rg"
+	if sp.Kind == "inverting" {
+		pair = "rf and rin"
+	}
+	verb := "assumes"
+	if len(keys) > 1 {
+		verb = "assume"
+	}
+	return Warning{Stage: sp.Name, Field: "gain", Text: fmt.Sprintf(
+		"%s %s no resistance at the inverting input (the stage gives gain, not its resistors): "+
+			"the bias current through the feedback network and its resistors' noise are not counted; "+
+			"give %s to include them", strings.Join(keys, " and "), verb, pair)}, true
 }

@@ -120,3 +120,32 @@ func TestTechChoiceCaseInsensitive(t *testing.T) {
 		t.Errorf("Set tech cmso: %v, want a did-you-mean", err)
 	}
 }
+
+// An amplifier given by its gain with a dc_error or noise budget is
+// warned that the checks take no resistance at the inverting input; the
+// same stage with its resistors, and a follower, are not.
+func TestWarningGainOnlyErrorBudgets(t *testing.T) {
+	env := "pos = \"5 V\"\nneg = \"-5 V\"\n[environment]\ntemp = [\"0 C\", \"50 C\"]"
+	sig := "\nref = \"0 V\"\nsignal = { peak = \"0.1 V\", freq = \"1 kHz\" }\n"
+	tests := []struct{ name, stage, want string }{
+		{"inverting gain, dc_error", `kind = "inverting"` + "\ngain = 10" + sig + `dc_error = "15 mV"`,
+			`stage "s": dc_error assumes no resistance at the inverting input` + " (the stage gives gain, not its resistors): the bias current through the feedback network and its resistors' noise are not counted; give rf and rin to include them"},
+		{"noninverting gain, both", `kind = "noninverting"` + "\ngain = 10" + sig + "dc_error = \"15 mV\"\nnoise = \"1 mV\"",
+			"dc_error and noise assume no resistance at the inverting input"},
+		{"resistors given", `kind = "inverting"` + "\nrf = \"100 kOhm\"\nrin = \"10 kOhm\"" + sig + `dc_error = "15 mV"`, ""},
+		{"no budget", `kind = "inverting"` + "\ngain = 10" + sig, ""},
+		{"follower", `kind = "follower"` + sig + `dc_error = "15 mV"`, ""},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, p := mustDesign(t, sineDesign(env, tc.stage))
+			got := warningTexts(p.Warnings)
+			if tc.want == "" && got != "" {
+				t.Errorf("warnings %q, want none", got)
+			}
+			if tc.want != "" && !strings.Contains(got, tc.want) {
+				t.Errorf("warnings %q, want one containing %q", got, tc.want)
+			}
+		})
+	}
+}

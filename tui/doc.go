@@ -5,8 +5,10 @@
 //	key in a design field ─► Design.Clone + Set ─► Derive (at once, in Update)
 //	      │ parse or derive error: shown inline, the design in force stays
 //	      ▼
-//	plan in force ─► rankJob{gen} (tea.Cmd: Evaluate + Rank, off the UI path)
-//	      ─► rankedMsg{gen} ─► dropped unless gen is the newest
+//	plan in force ─► rankJob{gen} (tea.Cmd off the UI path: the passing parts
+//	      ranked first, then every part in a second job) ─► rankedMsg{gen}
+//	      ─► dropped unless gen is the newest; the passing parts alone are
+//	      shown only while nothing on screen needs a failing one
 //	      ─► results ─► narrowing (failing, find, tech, package, shortlist)
 //	      ─► list rows (only visible ones drawn), selection kept by part id
 //	      ─► checks pane for the selected part

@@ -25,6 +25,9 @@ type rankedMsg struct {
 	gen     uint64
 	plan    *filter.Plan
 	results []filter.Result
+	// rest is set when results hold only the passing parts: the ranking
+	// whose All gives every part, which a second job fetches next.
+	rest *filter.Ranking
 	// warnings are the plan's own and those about its filters against the
 	// catalog (a package no part comes in, filters that leave no part).
 	warnings []filter.Warning
@@ -41,16 +44,32 @@ func explain(plan *filter.Plan, r *filter.Result, strict bool) {
 	}
 }
 
-// run evaluates and ranks. The plan and parts are never written after the
-// job is made (an edit derives a new plan from a clone of the design), so
-// the job shares them with the model safely. A job cancelled by a newer
-// one stops inside the evaluation and reports nothing.
+// run evaluates and ranks in two steps: first the passing parts
+// (filter.Incremental.Rank, the part a keystroke waits for while failing
+// parts are hidden), then, in a second job that Update starts on the
+// first one's arrival, every part (rest). The plan and parts are never
+// written after the job is made (an edit derives a new plan from a clone
+// of the design), so the job shares them with the model safely. A job
+// cancelled by a newer one stops inside the evaluation and reports nothing.
 func (j rankJob) run() tea.Msg {
 	start := time.Now()
-	res, err := j.eval.Ranked(j.ctx, j.plan, j.sort)
+	rk, err := j.eval.Rank(j.ctx, j.plan, j.sort)
 	if err != nil {
 		return nil
 	}
 	warns := append(append([]filter.Warning(nil), j.plan.Warnings...), filter.FilterWarnings(j.plan, j.eval.Parts())...)
-	return rankedMsg{gen: j.gen, plan: j.plan, results: res, warnings: warns, took: time.Since(start)}
+	return rankedMsg{gen: j.gen, plan: j.plan, results: rk.Passing, rest: rk, warnings: warns, took: time.Since(start)}
+}
+
+// rest is the second step of the job: every part ranked, failing ones
+// included, with the warnings the first step found.
+func (j rankJob) rest(first rankedMsg) tea.Cmd {
+	return func() tea.Msg {
+		start := time.Now()
+		res, err := first.rest.All(j.ctx)
+		if err != nil {
+			return nil
+		}
+		return rankedMsg{gen: j.gen, plan: first.plan, results: res, warnings: first.warnings, took: first.took + time.Since(start)}
+	}
 }

@@ -372,6 +372,9 @@ func (e *explorer) draw(plan *filter.Plan, idW, w, h int, marked func(string) bo
 		out = append(out, strings.Repeat(" ", w))
 	}
 	foot := "~ typical (derated or inflated) · g read from a graph · — not given"
+	if e.typical {
+		foot = "typical figures as the catalog gives them (T: worst case) · g read from a graph · — not given"
+	}
 	if e.find != "" || e.finding {
 		foot = "find: " + e.find
 		if e.finding {

@@ -259,3 +259,18 @@ func TestExplorerMarginOfFailingParts(t *testing.T) {
 		t.Error("no failing part in the demo: the test covers nothing")
 	}
 }
+
+// TestExplorerTypicalLegend: the legend under the rows says what the
+// figures are: worst case with ~ marks, or the catalog's typicals after T.
+func TestExplorerTypicalLegend(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	press(t, m, "E")
+	if s := m.View(); !strings.Contains(s, "~ typical (derated or inflated)") {
+		t.Fatalf("worst-case legend missing:\n%s", s)
+	}
+	press(t, m, "T")
+	s := m.View()
+	if strings.Contains(s, "derated or inflated") || !strings.Contains(s, "typical figures as the catalog gives them") {
+		t.Errorf("after T the legend still reads as worst case:\n%s", s)
+	}
+}

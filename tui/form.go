@@ -105,7 +105,7 @@ func (f *form) end() (kept string) {
 		if shown == "" {
 			shown = "(" + fl.Default + ")"
 		}
-		kept = fmt.Sprintf("%s: kept %s; %q was not accepted", fl.Label, shown, f.input.Value())
+		kept = fmt.Sprintf("%s: kept %s; %q was not accepted: %s", fl.Label, shown, f.input.Value(), f.editErr)
 	}
 	f.editing, f.editErr = false, ""
 	f.input.Blur()

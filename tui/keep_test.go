@@ -115,7 +115,7 @@ func TestSaveInPlaceKeepsComments(t *testing.T) {
 	m, path := newOnFile(t, 120, 40)
 	orig, _ := os.ReadFile(path)
 	editField(t, m, "supply.pos", "15 V")
-	editField(t, m, "stage.gain.gain", "20")
+	editField(t, m, "stage.gain.rf", "190 kOhm")
 	editField(t, m, "choose.limit.vos", "max 6 mV")
 	press(t, m, "w")
 	if m.mode != modePrompt || m.prompt.input.Value() != path {
@@ -129,7 +129,7 @@ func TestSaveInPlaceKeepsComments(t *testing.T) {
 	if c0, c1 := commentLines(string(orig)), commentLines(string(got)); strings.Join(c0, "\n") != strings.Join(c1, "\n") {
 		t.Errorf("comments changed:\nbefore %q\nafter  %q", c0, c1)
 	}
-	for _, want := range []string{`pos = "15 V"         # charge-pump rails`, "gain = 20", "[choose.limit]\nvos = { max = \"6 mV\" }"} {
+	for _, want := range []string{`pos = "15 V"         # charge-pump rails`, `rf = "190 kOhm"`, "[choose.limit]\nvos = { max = \"6 mV\" }"} {
 		if !strings.Contains(string(got), want) {
 			t.Errorf("saved file lacks %q:\n%s", want, got)
 		}
@@ -298,7 +298,7 @@ func TestUndoPerField(t *testing.T) {
 	m, _ := newOnFile(t, 120, 40)
 	editField(t, m, "supply.pos", "6 V")
 	editField(t, m, "supply.pos", "7 V")
-	editField(t, m, "stage.gain.gain", "8")
+	editField(t, m, "stage.gain.rf", "70 kOhm")
 	raw := func(path string) string {
 		for _, f := range m.design.Fields() {
 			if f.Path == path {
@@ -308,7 +308,7 @@ func TestUndoPerField(t *testing.T) {
 		return "?"
 	}
 	steps := []struct{ path, want string }{
-		{"stage.gain.gain", "6.2"},
+		{"stage.gain.rf", "52 kOhm"},
 		{"supply.pos", "6 V"},
 		{"supply.pos", "5 V"},
 	}
@@ -378,7 +378,8 @@ func TestEveryKeyDiscoverable(t *testing.T) {
 	}
 }
 
-// TestWarningsShown: an edit that makes the design impossible (gain 20 on
+// TestWarningsShown: an edit that makes the design impossible (gain
+// 1 + 190 kΩ/10 kΩ = 20 on
 // the 0.45 V peak: Vo = G·Vp = 9 V, beyond the ±5 V rails) and a package
 // the catalog does not hold each show as a warning atop the design pane
 // (wrapped, not cut) and are counted on the status line; a package typed
@@ -389,7 +390,7 @@ func TestWarningsShown(t *testing.T) {
 	if strings.Contains(m.View(), "⚠") {
 		t.Fatalf("the demo design warns:\n%s", m.View())
 	}
-	editField(t, m, "stage.gain.gain", "20") // Vo = 20 × 0.45 V = 9 V > 4.75 V
+	editField(t, m, "stage.gain.rf", "190 kOhm") // G = 20: Vo = 20 × 0.45 V = 9 V > 4.75 V
 	editField(t, m, "choose.packages", "soic-8, sop99")
 	m.focus = paneDesign
 	m.form.cursor, m.form.offset = 0, 0

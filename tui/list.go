@@ -182,7 +182,7 @@ func (l *list) title(rs *ranking, n *narrowing, marks *shortlist) string {
 	if n.shortlist {
 		fmt.Fprintf(&b, "SHORTLIST %d marked", marks.len())
 	} else {
-		fmt.Fprintf(&b, "CANDIDATES %d of %d pass", rs.nPass, len(rs.results))
+		fmt.Fprintf(&b, "CANDIDATES %d of %d pass", rs.nPass, rs.parts)
 	}
 	fmt.Fprintf(&b, " · sort %s", n.sortKey())
 	if n.failing && !n.shortlist {

@@ -158,6 +158,12 @@ type ranking struct {
 	// cancel stops the newest rankJob; a new edit calls it before starting
 	// the next, so a typing burst does not queue evaluations.
 	cancel context.CancelFunc
+	// job is the newest rankJob, whose second step (every part) Update
+	// starts when its first (the passing parts) arrives.
+	job rankJob
+	// parts is the number of parts the results were ranked from (results
+	// may hold only the passing ones).
+	parts int
 	// loading is the progress line of the first catalog read, shown in
 	// place of the candidates; "" once the catalog is in.
 	loading string
@@ -276,8 +282,7 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 	case tea.MouseMsg:
 		return m.followPreview(m.updateMouse(msg))
 	case rankedMsg:
-		m.adoptRanking(msg)
-		return m.followPreview(nil)
+		return m.followPreview(m.adoptRanking(msg))
 	case previewMsg:
 		m.prev.adopt(msg)
 		return nil
@@ -332,17 +337,28 @@ func (m *Model) rerank() tea.Cmd {
 	}
 	var ctx context.Context
 	ctx, m.rank.cancel = context.WithCancel(context.Background())
-	j := rankJob{gen: m.rank.gen, ctx: ctx, plan: m.rank.plan, eval: m.cat.eval, sort: m.narrow.sortKey()}
-	return j.run
+	m.rank.job = rankJob{gen: m.rank.gen, ctx: ctx, plan: m.rank.plan, eval: m.cat.eval, sort: m.narrow.sortKey()}
+	return m.rank.job.run
 }
 
 // adoptRanking takes a finished ranking unless a newer one was started.
-func (m *Model) adoptRanking(r rankedMsg) {
+// A ranking of the passing parts only is shown at once when nothing on
+// screen needs a failing part (see passingSuffice); the job for every
+// part is started either way and its ranking replaces it.
+func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 	if r.gen != m.rank.gen {
-		return // stale: an edit came after this job started
+		return nil // stale: an edit came after this job started
+	}
+	var next tea.Cmd
+	if r.rest != nil {
+		next = m.rank.job.rest(r)
+		if !m.passingSuffice(r.results) {
+			return next
+		}
 	}
 	m.rank.running = false
 	m.rank.results, m.rank.resPlan, m.rank.warnings = r.results, r.plan, r.warnings
+	m.rank.parts = len(m.cat.Parts)
 	m.rank.nPass = 0
 	for i := range m.rank.results {
 		if m.rank.results[i].Pass {
@@ -356,6 +372,30 @@ func (m *Model) adoptRanking(r rankedMsg) {
 	if m.mode == modeEntry {
 		m.checkEntry()
 	}
+	return next
+}
+
+// passingSuffice reports whether a ranking of the passing parts alone
+// draws the same screen as one of every part: failing parts are hidden,
+// no shortlist, explorer or entry form (which places a failing part among
+// every part) is shown, and the selected and marked parts
+// are all among the passing (else the list would explain a vanished
+// selection or export a shortlist without its failing parts).
+func (m *Model) passingSuffice(passing []filter.Result) bool {
+	if m.narrow.failing || m.narrow.shortlist || m.mode == modeExplore || m.mode == modeEntry {
+		return false
+	}
+	sel, marked := m.list.selID == "", 0
+	for i := range passing {
+		id := passing[i].Part.ID
+		if id == m.list.selID {
+			sel = true
+		}
+		if m.marks.has(id) {
+			marked++
+		}
+	}
+	return sel && marked == m.marks.len()
 }
 
 // setCatalog installs a (re)loaded catalog and the values the quick

@@ -187,9 +187,13 @@ func TestInlineError(t *testing.T) {
 			if got := topIDs(m, 1000); !slices.Equal(got, before) {
 				t.Errorf("ranking changed on an invalid value: %v, want %v", got, before)
 			}
+			reason := m.form.editErr
 			press(t, m, "enter")
 			if !strings.Contains(m.message, "kept 24 kHz") {
 				t.Errorf("message = %q, want it to say the value kept", m.message)
+			}
+			if !strings.Contains(m.message, reason) {
+				t.Errorf("message = %q, want it to keep the reason %q", m.message, reason)
 			}
 			if m.mode != modeBrowse || m.form.editErr != "" {
 				t.Errorf("after enter: mode %v, error %q", m.mode, m.form.editErr)

@@ -94,7 +94,7 @@ func runPreview(e *env, args []string) error {
 		f.width = min(max(e.columns(previewDefaultWidth), 20), previewMaxWidth)
 	}
 
-	cat, err := loadCatalog(e, f.catalogs, f.strictCatalog)
+	cat, err := loadPart(e, f.catalogs, f.strictCatalog, pos[0])
 	if err != nil {
 		return err // already an input error (exit status 2)
 	}

@@ -60,7 +60,14 @@ func (e *env) loader() catalog.Loader {
 // the read takes longer than progressDelay, it shows how far it has got
 // there on one line, cleared when done.
 func (e *env) readCatalog(layers []catalog.Layer) (*catalog.Catalog, error) {
+	return e.readCatalogOnly(layers, nil)
+}
+
+// readCatalogOnly is readCatalog keeping only the parts only accepts
+// (catalog.Loader.Only; nil keeps every part).
+func (e *env) readCatalogOnly(layers []catalog.Layer, only func(id string) bool) (*catalog.Catalog, error) {
 	ld := e.loader()
+	ld.Only = only
 	var pr *stderrProgress
 	if e.errTTY {
 		pr = &stderrProgress{w: e.stderr, start: time.Now()}
@@ -129,6 +136,25 @@ func loadCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) 
 	if err != nil {
 		return nil, err
 	}
+	return c, tellNotes(e, c, paths)
+}
+
+// loadPart is loadCatalog for a command about the one part id: the whole
+// catalog is read and layered (through the cache when it exists) but only
+// that part is kept. When the catalog has any problem or lacks the part,
+// it is read again whole, so that what is said (set-aside counts, ids
+// near a mistyped one) is exactly what loadCatalog says.
+func loadPart(e *env, paths []string, strict bool, id string) (*catalog.Catalog, error) {
+	c, err := e.readCatalogOnly(catalogLayers(e, paths), func(s string) bool { return s == id })
+	if err != nil || len(c.Parts) != 1 {
+		return loadCatalog(e, paths, strict)
+	}
+	return c, tellNotes(e, c, paths)
+}
+
+// tellNotes writes the catalog's notes and what it set aside to stderr
+// (see loadCatalog); it returns nil.
+func tellNotes(e *env, c *catalog.Catalog, paths []string) error {
 	for i, n := range c.Notes {
 		if i == maxShown {
 			fmt.Fprintf(e.stderr, "opsift: note: … and %d more notes (see %s)\n", len(c.Notes)-maxShown, checkHint(paths))
@@ -137,7 +163,7 @@ func loadCatalog(e *env, paths []string, strict bool) (*catalog.Catalog, error) 
 		fmt.Fprintf(e.stderr, "opsift: note: %s\n", n)
 	}
 	warnSetAside(e.stderr, c, paths)
-	return c, nil
+	return nil
 }
 
 // openCatalog is loadCatalog without the notes and the warning, for the
