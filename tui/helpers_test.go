@@ -114,7 +114,7 @@ func keyMsg(k string) tea.KeyMsg {
 	names := map[string]tea.KeyType{
 		"enter": tea.KeyEnter, "esc": tea.KeyEsc, "up": tea.KeyUp, "down": tea.KeyDown,
 		"tab": tea.KeyTab, "shift+tab": tea.KeyShiftTab, "backspace": tea.KeyBackspace,
-		"ctrl+u": tea.KeyCtrlU, "ctrl+c": tea.KeyCtrlC, "space": tea.KeySpace,
+		"ctrl+u": tea.KeyCtrlU, "ctrl+c": tea.KeyCtrlC, "ctrl+s": tea.KeyCtrlS, "space": tea.KeySpace,
 		"pgdown": tea.KeyPgDown, "pgup": tea.KeyPgUp, "home": tea.KeyHome, "end": tea.KeyEnd,
 	}
 	if kt, ok := names[k]; ok {

@@ -37,6 +37,9 @@ type KeyMap struct {
 	ColumnRight    key.Binding // explorer: column cursor right
 	ExploreColumns key.Binding // explorer: choose the columns
 	Typical        key.Binding // explorer: typical figures instead of the worst case
+	AddPart        key.Binding // the entry form, for a new part
+	EditPart       key.Binding // the entry form on the selected part's figures
+	SavePart       key.Binding // entry form: save the part into its catalog file
 	Help           key.Binding
 	Quit           key.Binding
 }
@@ -46,7 +49,7 @@ func DefaultKeyMap() KeyMap {
 	b := func(keys []string, help, desc string) key.Binding {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
-	return withExplorerKeys(KeyMap{
+	return withEntryKeys(withExplorerKeys(KeyMap{
 		Up:        b([]string{"up", "k"}, "↑/k", "up"),
 		Down:      b([]string{"down", "j"}, "↓/j", "down"),
 		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
@@ -79,7 +82,20 @@ func DefaultKeyMap() KeyMap {
 		StageNext: b([]string{"]"}, "]", "next stage"),
 		Help:      b([]string{"?"}, "?", "keys"),
 		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
-	})
+	}))
+}
+
+// withEntryKeys adds the entry form's keys to k: a opens it for a new
+// part, A on the selected part's figures; inside it ctrl+s saves (every
+// printable key is text there).
+func withEntryKeys(k KeyMap) KeyMap {
+	b := func(keys []string, help, desc string) key.Binding {
+		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
+	}
+	k.AddPart = b([]string{"a"}, "a", "add part")
+	k.EditPart = b([]string{"A"}, "A", "edit part figures")
+	k.SavePart = b([]string{"ctrl+s"}, "ctrl+s", "save part")
+	return k
 }
 
 // withExplorerKeys adds explorer mode's keys to k: E opens it; inside it
@@ -107,7 +123,7 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
-		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.Help, k.Quit},
+		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.AddPart, k.EditPart, k.Help, k.Quit},
 		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore, k.Versus},
 	}
 }

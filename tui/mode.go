@@ -15,6 +15,7 @@ const (
 	modeReplace             // replacement finder for the selected part (replace_mode.go)
 	modeExplore             // every part with chosen figure columns (explorer.go)
 	modeAsk                 // a one-key question: unsaved edits at q, the design changed on disk (keep.go)
+	modeEntry               // the entry form of a new or edited part (entry.go, entry_mode.go)
 )
 
 // pane names a focusable area of the main screen, in tab order.

@@ -57,6 +57,15 @@ type Config struct {
 	Renderer *lipgloss.Renderer
 	// Getenv reads EDITOR and VISUAL.
 	Getenv func(string) string
+	// StartEntry opens the entry form for a new part at once (opsift add).
+	// SaveTo is the catalog file the form offers to save a new part into
+	// (opsift add --to); "" lets the selector suggest one.
+	StartEntry bool
+	SaveTo     string
+	// AddSource makes a catalog file the entry form saved into, which is
+	// not among the sources, one of those Load reads; nil: such a file is
+	// written but not read until the next start with --catalog.
+	AddSource func(path string)
 	// Settings are the remembered choices (the explorer's columns), read
 	// from SettingsFile, where changes are written back; "" keeps them for
 	// the session. SettingsErr is why the file could not be read.
@@ -98,6 +107,7 @@ type Model struct {
 	prev   previewPane // waveform preview detail (preview_detail.go)
 	expl   explorer    // explorer mode (explorer.go)
 	cmp    comparePane // compare detail (compare_view.go)
+	entry  entryForm   // the entry form of a new or edited part (entry.go)
 
 	helpPage int // the help overlay's page
 
@@ -123,8 +133,13 @@ type Model struct {
 	ask           ask        // the open question (modeAsk)
 	quitAfterSave bool       // the save was asked for at q
 	lastDir       string     // directory of the last file written
-	designWatch   *watcher   // follows the design file
-	designSeq     int        // debounce of design file changes
+	lastPartFile  string     // catalog file the entry form last saved into
+	// partNote says what the entry form saved; it stands for the reason
+	// of the reloads until the next key, so the reload the file watcher
+	// makes of the same write does not replace it.
+	partNote    string
+	designWatch *watcher // follows the design file
+	designSeq   int      // debounce of design file changes
 }
 
 // ranking is the shared state of the evaluation: the plan in force and the
@@ -196,6 +211,9 @@ func New(cfg Config) *Model {
 	m.rank.plan, m.planErr = filter.Derive(m.design)
 	m.setCatalog(cfg.Catalog)
 	m.form.refresh(m.design)
+	if cfg.StartEntry {
+		m.openEntry(false)
+	}
 	if cfg.CatalogErr != nil {
 		m.setError(fmt.Errorf("catalog: %w (parts with problems are set aside; see opsift check)", firstProblem(cfg.CatalogErr)))
 	} else if m.planErr != nil {
@@ -259,6 +277,7 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		m.list.scrollTo(m.listRows())
 		return nil
 	case tea.KeyMsg:
+		m.partNote = ""
 		return m.followPreview(m.updateKey(msg))
 	case tea.MouseMsg:
 		return m.followPreview(m.updateMouse(msg))
@@ -272,6 +291,8 @@ func (m *Model) route(msg tea.Msg) tea.Cmd {
 		return nil
 	case writtenMsg:
 		return m.adoptWritten(msg)
+	case partSavedMsg:
+		return m.adoptPartSaved(msg)
 	}
 	if cmd, ok := m.updateDesignJobs(msg); ok {
 		return cmd
@@ -296,6 +317,8 @@ func (m *Model) updateKey(k tea.KeyMsg) tea.Cmd {
 		return m.updateExplore(k)
 	case modeAsk:
 		return m.updateAsk(k)
+	case modeEntry:
+		return m.updateEntry(k)
 	}
 	return m.updateBrowse(k)
 }
@@ -346,16 +369,20 @@ func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 	if m.mode == modeExplore {
 		m.expl.refresh(&m.rank, m.cat.Parts)
 	}
+	if m.mode == modeEntry {
+		m.checkEntry()
+	}
 	return next
 }
 
 // passingSuffice reports whether a ranking of the passing parts alone
 // draws the same screen as one of every part: failing parts are hidden,
-// no shortlist or explorer is shown, and the selected and marked parts
+// no shortlist, explorer or entry form (which places a failing part among
+// every part) is shown, and the selected and marked parts
 // are all among the passing (else the list would explain a vanished
 // selection or export a shortlist without its failing parts).
 func (m *Model) passingSuffice(passing []filter.Result) bool {
-	if m.narrow.failing || m.narrow.shortlist || m.mode == modeExplore {
+	if m.narrow.failing || m.narrow.shortlist || m.mode == modeExplore || m.mode == modeEntry {
 		return false
 	}
 	sel, marked := m.list.selID == "", 0

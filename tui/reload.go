@@ -203,7 +203,11 @@ func (m *Model) adoptCatalog(r reloadedMsg) tea.Cmd {
 		ids[p.ID] = true
 	}
 	gone := m.marks.prune(func(id string) bool { return ids[id] })
-	msg := fmt.Sprintf("%s: %s", r.why, plural(len(r.cat.Parts), "part"))
+	why := r.why
+	if m.partNote != "" {
+		why = m.partNote // the watcher's reload of the entry form's own write
+	}
+	msg := fmt.Sprintf("%s: %s", why, plural(len(r.cat.Parts), "part"))
 	if b := setAsideBanner(r.cat); b != "" {
 		msg += fmt.Sprintf(" (%s for problems; see opsift check)", b)
 	}

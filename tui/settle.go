@@ -29,6 +29,8 @@ func (m *Model) settle() {
 		m.repl.settle(m.ui.width, m.bodyH())
 	case modeExplore:
 		m.expl.settle(m.cat.idW, m.ui.width, m.bodyH())
+	case modeEntry:
+		m.entry.settle(m.ui.width, m.bodyH())
 	case modePrompt:
 		m.prompt.settle(m.marks.len(), m.ui.width)
 	}

@@ -84,6 +84,10 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openEditor()
 	case key.Matches(k, keys.Replace):
 		return m.openReplace()
+	case key.Matches(k, keys.AddPart):
+		return m.openEntry(false)
+	case key.Matches(k, keys.EditPart):
+		return m.openEntry(true)
 	case key.Matches(k, keys.Explore):
 		return m.openExplorer()
 	case key.Matches(k, keys.Versus):

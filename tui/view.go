@@ -50,6 +50,8 @@ func (m *Model) View() string {
 		body = m.repl.draw(u.width, len(body), m.marks.has)
 	case modeExplore:
 		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
+	case modeEntry:
+		body = m.entry.draw(u.width, len(body))
 	}
 	var bottom []string
 	switch m.mode {
@@ -164,6 +166,8 @@ func (m *Model) footLines() []string {
 		bs = append(k.replaceKeys(), k.Quit)
 	case modeExplore:
 		bs = k.explorerKeys()
+	case modeEntry:
+		bs = k.entryKeys()
 	case modeEdit:
 		bs = k.editKeys()
 		tail = "↑/↓ next field · units: 20 kHz, 4.7 kOhm, 0.5 V/us"
@@ -283,6 +287,7 @@ func (m *Model) helpPages(w, h int) [][]string {
 		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
 		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
 		"● modified: the design has edits not saved (w saves in place, u undoes)",
+		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
 	} {
 		body = append(body, wrap(l, inner)...)
 	}

@@ -25,8 +25,6 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/BurntSushi/toml"
-
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 )
@@ -290,11 +288,7 @@ func (r *Result) row(file string, row int, rec []string) (*catalog.Part, []Probl
 	if len(probs) > 0 {
 		return nil, probs
 	}
-	var buf bytes.Buffer
-	if err := toml.NewEncoder(&buf).Encode(map[string]any{"part": []map[string]any{tbl}}); err != nil {
-		return nil, []Problem{{File: file, Row: row, Err: err}}
-	}
-	parts, err := catalog.Decode(file, buf.Bytes())
+	p, err := catalog.DecodeTable(file, tbl)
 	var ps catalog.Problems
 	if errors.As(err, &ps) {
 		for _, p := range ps {
@@ -307,12 +301,10 @@ func (r *Result) row(file string, row int, rec []string) (*catalog.Part, []Probl
 		}
 		return nil, probs
 	}
-	if err != nil || len(parts) != 1 {
-		return nil, []Problem{{File: file, Row: row, Err: fmt.Errorf("row did not make one part: %v", err)}}
+	if err != nil {
+		return nil, []Problem{{File: file, Row: row, Err: fmt.Errorf("row did not make one part: %w", err)}}
 	}
-	p := parts[0]
 	p.Pos = catalog.Pos{File: file, Line: row}
-	p.Lines = nil
 	return p, nil
 }
 

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"flag"
 	"io"
 	"os"
 	"strconv"
@@ -27,6 +28,9 @@ type env struct {
 	noCache bool
 	// now is the clock outputs are dated with; tests fix it.
 	now func() time.Time
+	// flagSets, when set, is shown every flag set a command makes (shell
+	// completion reads the flags from it).
+	flagSets func(*flag.FlagSet)
 }
 
 // newEnv returns the process's real environment.

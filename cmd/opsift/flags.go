@@ -16,6 +16,9 @@ const catalogHelp = "catalog file or directory of *.toml (repeatable; later over
 func newFlagSet(e *env, name, usage string) *flag.FlagSet {
 	fset := flag.NewFlagSet(name, flag.ContinueOnError)
 	fset.SetOutput(e.stderr)
+	if e.flagSets != nil {
+		e.flagSets(fset)
+	}
 	fset.Usage = func() {
 		fmt.Fprint(fset.Output(), usage)
 		fset.PrintDefaults()

@@ -27,6 +27,8 @@ func commands() []command {
 		{"init", "write a starter catalog and design to edit", runInit},
 		{"import", "turn a spreadsheet of parts (CSV) into a catalog file", runImport},
 		{"schema", "print the JSON Schema of catalog or design files, for editors", runSchema},
+		{"add", "enter a part in the selector's entry form and save it into a catalog file", runAdd},
+		{"completion", "print a shell completion script (bash, zsh or fish)", runCompletion},
 	}
 }
 
@@ -40,6 +42,8 @@ func run(args []string, e *env) error {
 		case "--version", "version":
 			fmt.Fprintf(e.stdout, "opsift %s\n", version)
 			return nil
+		case candidatesCmd: // the completion scripts' callback, not listed
+			return runCandidates(e, args[1:])
 		}
 		for _, c := range commands() {
 			if c.name == args[0] {
@@ -65,11 +69,12 @@ func mainHelp() string {
 Usage:
   opsift [--catalog PATH]... [--design FILE]    interactive selector
   opsift COMMAND [options]
+  opsift --version
 
 Commands:
 `)
 	for _, c := range commands() {
-		fmt.Fprintf(&b, "  %-8s %s\n", c.name, c.summary)
+		fmt.Fprintf(&b, "  %-10s %s\n", c.name, c.summary)
 	}
 	b.WriteString(`
 Run "opsift COMMAND --help" for a command's options.

@@ -4,6 +4,10 @@ import (
 	"fmt"
 	"io"
 	"log"
+	"os"
+	"path/filepath"
+	"slices"
+	"sync"
 	"sync/atomic"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -24,7 +28,8 @@ Mark parts for a shortlist and export it (md, csv, json, toml); w saves
 the edited design in place, keeping its comments; q asks before unsaved
 edits are lost, and a change to the design file on disk is offered, never
 overwritten unasked. R finds replacements for a part, v shows its
-waveform. Press ? inside for every key.
+waveform; a enters a new part into a catalog file (as opsift add does), A
+edits the selected part's figures in place. Press ? inside for every key.
 
 Parts with problems are set aside (the status line counts them; opsift
 check lists them) and the rest is ranked; --strict-catalog refuses the
@@ -35,16 +40,49 @@ Set NO_COLOR for a screen without colour, OPSIFT_LOG=FILE to log to FILE.
 Options:
 `
 
+const addUsage = `Usage: opsift add [--to FILE] [--catalog PATH]... [--design FILE] [--strict] [--strict-catalog] [--no-cache]
+
+The interactive selector, opened at once in its entry form for a new part
+(the a key inside the selector opens the same form; A edits the selected
+part's figures). Every catalog key is a field with its unit hint; each is
+checked as you type, with the messages of opsift check; the part is
+evaluated in the design as you go, with the place it would take in the
+ranking and its margins. ctrl+s saves it: appended to the catalog file,
+whose comments and layout are kept, written atomically; the catalog is read
+again and the part is ranked. The embedded demo catalog is never written.
+
+--to FILE is the catalog file offered to save into (it need not exist
+yet); when it is not among the catalog sources it joins them for the
+session, so the new part is ranked with the rest.
+
+Options:
+`
+
 // runSelector starts the interactive selector on the catalog and design.
-func runSelector(e *env, args []string) error {
+func runSelector(e *env, args []string) error { return selector(e, args, false) }
+
+// runAdd starts the selector in its entry form for a new part (opsift add).
+func runAdd(e *env, args []string) error { return selector(e, args, true) }
+
+// selector runs the interactive selector; add opens it in the entry form
+// and takes --to.
+func selector(e *env, args []string, add bool) error {
 	var (
 		catalogs pathList
 		design   string
 		strict   bool
 		// strictCatalog refuses the catalog on any problem.
 		strictCatalog bool
+		to            string
 	)
-	fset := newFlagSet(e, "opsift", selectorUsage)
+	name, usage := "opsift", selectorUsage
+	if add {
+		name, usage = "opsift add", addUsage
+	}
+	fset := newFlagSet(e, name, usage)
+	if add {
+		fset.StringVar(&to, "to", "", "catalog file to save the new part into (default: one the selector suggests)")
+	}
 	catalogFlags(fset, e, &catalogs)
 	fset.StringVar(&design, "design", "", "design TOML file (default: the embedded demo design)")
 	fset.BoolVar(&strict, "strict", false, "a check whose figure the catalog lacks fails")
@@ -63,6 +101,11 @@ func runSelector(e *env, args []string) error {
 		return inputError(err)
 	}
 	layers := catalogLayers(e, catalogs)
+	if to != "" {
+		if st, err := os.Stat(to); err == nil && !st.IsDir() && !coveredBy(layers, to) {
+			layers = append(layers, catalog.PathLayer(to))
+		}
+	}
 	if !e.isTTY {
 		if _, err := openCatalog(e, catalogs, strictCatalog); err != nil {
 			return err // a bad catalog is named first, as with a terminal
@@ -98,6 +141,7 @@ func runSelector(e *env, args []string) error {
 	for _, l := range layers {
 		empty.Sources = append(empty.Sources, safe.Text(l.Name))
 	}
+	var mu sync.Mutex // guards layers: the entry form may add a file to them
 	settingsFile := tui.SettingsPath(e.getenv)
 	settings, settingsErr := tui.LoadSettings(settingsFile)
 	m := tui.New(tui.Config{
@@ -114,8 +158,20 @@ func runSelector(e *env, args []string) error {
 			return catalog.Progress{}
 		},
 		Load: func() (*catalog.Catalog, error) {
-			c, err := loader.Load(layers...)
+			mu.Lock()
+			ls := slices.Clone(layers)
+			mu.Unlock()
+			c, err := loader.Load(ls...)
 			return c, acceptCatalog(c, err, strictCatalog)
+		},
+		StartEntry: add,
+		SaveTo:     to,
+		AddSource: func(path string) {
+			mu.Lock()
+			defer mu.Unlock()
+			if !coveredBy(layers, path) {
+				layers = append(layers, catalog.PathLayer(path))
+			}
 		},
 		OnDisk:   onDisk,
 		Watch:    true,
@@ -137,4 +193,27 @@ func runSelector(e *env, args []string) error {
 		return inputError(newCatalogError(err, catalogs))
 	}
 	return nil
+}
+
+// coveredBy reports whether the catalog file path is read by one of the
+// on-disk layers: it is a layer's file, or a *.toml file directly in a
+// layer's directory.
+func coveredBy(layers []catalog.Layer, path string) bool {
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return false
+	}
+	for _, l := range layers {
+		if l.FS != nil {
+			continue
+		}
+		src, err := filepath.Abs(l.Path)
+		if err != nil {
+			continue
+		}
+		if abs == src || (filepath.Dir(abs) == src && catalog.IsCatalogName(filepath.Base(abs))) {
+			return true
+		}
+	}
+	return false
 }

@@ -140,3 +140,24 @@ func partKey(k string) obj {
 	}
 	return closed(props, doc)
 }
+
+// KeyDoc returns the description the catalog schema gives a part key
+// (sub "") or a sub-key of a table-valued key ("gbw", "typ"), "" for a
+// key it does not know. The selector's entry form shows it beside a field.
+func KeyDoc(key, sub string) string {
+	if sub == "" {
+		return catalogDocs[key]
+	}
+	if key == "supply" {
+		return spanDocs[sub]
+	}
+	if key == "temp" {
+		switch sub {
+		case "low":
+			return "low end of the rated ambient range"
+		case "high":
+			return "high end of the rated ambient range"
+		}
+	}
+	return subDocs[sub]
+}
