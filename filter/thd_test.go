@@ -234,3 +234,56 @@ func TestIncrementalTHD(t *testing.T) {
 		sameResults(t, step, got, filter.Evaluate(plan, parts, filter.Options{Summary: true}))
 	}
 }
+
+// TestIncrementalRankTHD: the passing-first Rank runs the simulated pass
+// over the candidates that pass every stage, so its Passing equals the
+// passing prefix of the full ranking on thd designs too (a part the thd
+// check rejects is not among them), whether Rank runs first on a fresh
+// stage or after Evaluate filled every part in.
+func TestIncrementalRankTHD(t *testing.T) {
+	parts := []*catalog.Part{fastPart("slow", 1e6, 0.5), fastPart("fast", 1e9, 0.5), fastPart("clip", 1e9, 3)}
+	noswing := fastPart("noswing", 1e9, 0)
+	noswing.Output, noswing.InputCM = catalog.Swing{}, catalog.Headroom{}
+	parts = append(parts, noswing)
+	in := filter.NewIncremental(parts, filter.Options{})
+	key := filter.SortKeys()[0]
+	for step, text := range []string{
+		thdDesign("6 V", "1 kHz", "5 V", `thd = "1 %"`),
+		thdDesign("6 V", "1 kHz", "5 V", `thd = "10 %"`),
+		thdDesign("4 V", "1 kHz", "5 V", `thd = "1 %"`),
+		thdDesign("4 V", "1 kHz", "15 V", ""),
+	} {
+		_, plan := mustDesign(t, text)
+		full := filter.Evaluate(plan, parts, filter.Options{Summary: true})
+		filter.Rank(full, key)
+		pass := 0
+		for pass < len(full) && full[pass].Pass {
+			pass++
+		}
+		for round := range 2 {
+			ranking, err := in.Rank(context.Background(), plan, key)
+			if err != nil {
+				t.Fatal(err)
+			}
+			sameResults(t, step*2+round, ranking.Passing, full[:pass])
+			if round == 0 {
+				if _, err := in.Evaluate(context.Background(), plan); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+	}
+	// The first design rejects the part without swing figures on thd
+	// alone (clipped at the rails, 8.95 %, TestTHDRejects): it must not
+	// be among the passing parts.
+	_, plan := mustDesign(t, thdDesign("6 V", "1 kHz", "5 V", `thd = "1 %"`))
+	ranking, err := in.Rank(context.Background(), plan, key)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range ranking.Passing {
+		if r.Part.ID == "noswing" {
+			t.Errorf("noswing passes Rank though its simulated THD exceeds 1 %%")
+		}
+	}
+}
