@@ -223,9 +223,29 @@ func writeSynth(tb testing.TB, n int) string {
 	return f
 }
 
+// writeSynthDir writes an n-part catalog as files of at most perFile parts
+// in a directory (one file of 10k parts is past the 4 MiB cap) and returns
+// the directory.
+func writeSynthDir(tb testing.TB, n, perFile int) string {
+	tb.Helper()
+	dir := tb.TempDir()
+	parts := synthParts(n, 7)
+	for i := 0; i < len(parts); i += perFile {
+		var buf bytes.Buffer
+		if err := Encode(&buf, parts[i:min(i+perFile, len(parts))]); err != nil {
+			tb.Fatal(err)
+		}
+		f := filepath.Join(dir, fmt.Sprintf("synth-%03d.toml", i/perFile))
+		if err := os.WriteFile(f, buf.Bytes(), 0o644); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	return dir
+}
+
 func BenchmarkLoad(b *testing.B) {
 	for _, n := range []int{1000, 10000} {
-		f := writeSynth(b, n)
+		f := writeSynthDir(b, n, 2500)
 		b.Run(fmt.Sprint(n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
