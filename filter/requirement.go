@@ -203,6 +203,11 @@ type StagePlan struct {
 	// Front ends build the stage's circuit from them (StagePlan.Circuit)
 	// instead of re-reading the inputs.
 	Values map[string]float64
+	// Resistors names the keys that would give an amplifier's feedback
+	// network ("rf and rg", "rf and rin") when the stage gives only its
+	// gain, so its dc_error and noise checks count no resistance at the
+	// inverting input (a design warning says so); "" otherwise.
+	Resistors string
 	// Texts are the resolved choice inputs by stage key ("polarity"),
 	// defaults applied, for the kinds whose circuit depends on one.
 	Texts map[string]string

@@ -118,12 +118,16 @@ type amplifier struct {
 	// then counts each input's bias current (useInvertingInputR).
 	invR    float64
 	invName string
+	// resistors names the keys that would give the stage's feedback
+	// network ("rf and rg") when the stage gives only its gain; "" when
+	// it gives them or has none (StagePlan.Resistors).
+	resistors string
 }
 
 // deriveAmplifier derives the requirements shared by the follower,
 // non-inverting and inverting templates (DESIGN.md "Baseline derivations").
 func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
-	sp := StagePlan{Gain: a.gain, NoiseGain: a.noiseGain}
+	sp := StagePlan{Gain: a.gain, NoiseGain: a.noiseGain, Resistors: a.resistors}
 	ref := (p.Rails.Pos + p.Rails.Neg) / 2
 	if v, ok := in.Num("ref"); ok {
 		ref = v

@@ -54,7 +54,8 @@ func (invertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return StagePlan{}, fieldErrorf("gain", "%q is not positive, want the gain magnitude such as \"10\"", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
-	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainInverting(g), inputAtRef: true, feedbackR: fb})
+	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainInverting(g), inputAtRef: true, feedbackR: fb,
+		resistors: "rf and rin"})
 }
 
 // circuit is the stage's resistors (Rf, Rin as given, else Rin = previewR

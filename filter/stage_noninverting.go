@@ -53,7 +53,8 @@ func (noninvertingTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error) {
 		return StagePlan{}, fieldErrorf("gain", "%q is below 1, want a non-inverting gain ≥ 1 V/V", in.Raw("gain"))
 	}
 	fb, _ := in.Num("feedback_r")
-	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb})
+	return deriveAmplifier(in, p, amplifier{gain: g, noiseGain: circuit.NoiseGainNonInverting(g), feedbackR: fb,
+		resistors: "rf and rg"})
 }
 
 // circuit is the stage's divider (Rf, Rg as given, else Rg = previewR and

@@ -170,14 +170,12 @@ func nearestKey(s string, names []string) string {
 }
 
 // gainOnlyWarning says when an amplifier given by its gain alone carries a
-// dc_error or noise budget: without rf (and rg or rin) the checks take no
-// resistance at the inverting input, so Ib·(Rf∥Rg) and the resistors'
-// noise are left out and a real network may need more than they show.
+// dc_error or noise budget: without its resistors (StagePlan.Resistors)
+// the checks take no resistance at the inverting input, so Ib·(Rf∥Rg) and
+// the resistors' noise are left out and a real network may need more than
+// they show.
 func gainOnlyWarning(sp *StagePlan) (Warning, bool) {
-	if sp.Kind != "noninverting" && sp.Kind != "inverting" {
-		return Warning{}, false
-	}
-	if _, ok := sp.Values["rf"]; ok {
+	if sp.Resistors == "" {
 		return Warning{}, false
 	}
 	var keys []string
@@ -189,10 +187,6 @@ func gainOnlyWarning(sp *StagePlan) (Warning, bool) {
 	if len(keys) == 0 {
 		return Warning{}, false
 	}
-	pair := "rf and rg"
-	if sp.Kind == "inverting" {
-		pair = "rf and rin"
-	}
 	verb := "assumes"
 	if len(keys) > 1 {
 		verb = "assume"
@@ -200,5 +194,5 @@ func gainOnlyWarning(sp *StagePlan) (Warning, bool) {
 	return Warning{Stage: sp.Name, Field: "gain", Text: fmt.Sprintf(
 		"%s %s no resistance at the inverting input (the stage gives gain, not its resistors): "+
 			"the bias current through the feedback network and its resistors' noise are not counted; "+
-			"give %s to include them", strings.Join(keys, " and "), verb, pair)}, true
+			"give %s to include them", strings.Join(keys, " and "), verb, sp.Resistors)}, true
 }
