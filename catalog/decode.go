@@ -91,7 +91,7 @@ func decodeFile(file string, data []byte, workers int, sem chan struct{}) ([]*Pa
 	if !plain {
 		lines = scanLines(text)
 	}
-	if parts, ok := decodeInPieces(file, text, lines, workers, sem); ok {
+	if parts, ok := decodeInPieces(file, text, lines, pieceParts, workers, sem); ok {
 		return parts, nil, 0
 	}
 	if plain {

@@ -5,6 +5,7 @@ import (
 	"github.com/opsift/opsift/internal/golden"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 )
@@ -288,6 +289,21 @@ func FuzzDecode(f *testing.F) {
 		for _, p := range parts {
 			if ps := validate(p, 0, nil); len(ps) > 0 {
 				t.Fatalf("accepted part fails Validate: %v", ps)
+			}
+		}
+		// Pieces of one and two parts read a file exactly as one piece does.
+		text := string(data)
+		if Prescan(text) != nil {
+			return
+		}
+		lines, plain := scanHeaders(text)
+		if !plain {
+			lines = scanLines(text)
+		}
+		want, _, _ := decodeText("fuzz.toml", text, scanLines(text))
+		for _, per := range []int{1, 2} {
+			if got, ok := decodeInPieces("fuzz.toml", text, lines, per, 2, nil); ok && !reflect.DeepEqual(got, want) {
+				t.Fatalf("pieces of %d: %d parts, one piece: %d, or they differ", per, len(got), len(want))
 			}
 		}
 	})

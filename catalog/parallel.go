@@ -15,7 +15,7 @@ import (
 const pieceParts = 128
 
 // decodeInPieces decodes a catalog file whose [[part]] headers are at
-// lines.parts, cut at those headers into pieces of pieceParts tables. A
+// lines.parts, cut at those headers into pieces of per tables. A
 // piece from one [[part]] header to the next is a TOML document of its
 // own holding just those parts' keys and sub-tables, so the pieces decode
 // to the same tables as the whole file. Each piece is decoded and turned
@@ -26,12 +26,12 @@ const pieceParts = 128
 // parts, or has a part with a problem: the caller then decodes the whole
 // file, so errors and odd files read exactly as without the split, and
 // problems are placed and capped for the file as a whole.
-func decodeInPieces(file, text string, lines fileLines, workers int, sem chan struct{}) ([]*Part, bool) {
+func decodeInPieces(file, text string, lines fileLines, per, workers int, sem chan struct{}) ([]*Part, bool) {
 	n := len(lines.parts)
-	if n == 0 {
+	if n == 0 || per < 1 {
 		return nil, false // nothing to split: let the whole file speak
 	}
-	pieces := (n + pieceParts - 1) / pieceParts
+	pieces := (n + per - 1) / per
 	out := make([][]*Part, pieces)
 	var next atomic.Int64
 	var failed atomic.Bool
@@ -43,7 +43,7 @@ func decodeInPieces(file, text string, lines fileLines, workers int, sem chan st
 				return
 			}
 			holding(sem, func() {
-				parts, ok := f.piece(file, text, lines, i*pieceParts, min((i+1)*pieceParts, n))
+				parts, ok := f.piece(file, text, lines, i*per, min((i+1)*per, n))
 				out[i] = parts
 				if !ok {
 					failed.Store(true)

@@ -53,7 +53,7 @@ func TestDecodePieces(t *testing.T) {
 			if (len(wantProbs) > 0) != tc.errs {
 				t.Fatalf("whole-file problems %v, want problems %v", wantProbs, tc.errs)
 			}
-			if _, ok := decodeInPieces("f.toml", tc.text, lines, 3, nil); ok != tc.pieces {
+			if _, ok := decodeInPieces("f.toml", tc.text, lines, pieceParts, 3, nil); ok != tc.pieces {
 				t.Fatalf("read by the pieces %v, want %v", ok, tc.pieces)
 			}
 			for _, workers := range []int{1, 4} {

@@ -2,6 +2,7 @@ package catalog
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -304,6 +305,16 @@ func FuzzParse(f *testing.F) {
 	f.Fuzz(func(t *testing.T, text string, d int) {
 		dim := Dim(((d % 14) + 14) % 14)
 		v, err := Parse(text, dim)
+		// The memo and the exact fast path give the bits and the message of
+		// the previous Parse, kept as slowParse (unitmemo_test.go).
+		var memo unitMemo
+		for range 2 {
+			got, gotErr := (&memo).parse(text, dim)
+			want, wantErr := slowParse(text, dim)
+			if math.Float64bits(got) != math.Float64bits(want) || fmt.Sprint(gotErr) != fmt.Sprint(wantErr) {
+				t.Fatalf("Parse(%q, %s) = %v, %v; before the fast path %v, %v", text, dim, got, gotErr, want, wantErr)
+			}
+		}
 		if err != nil {
 			var ue *UnitError
 			if !errors.As(err, &ue) {
