@@ -16,15 +16,7 @@ import (
 // parts with their checks. The second's time over the first's is the
 // load's own overhead on one core.
 func BenchmarkConvert(b *testing.B) {
-	files, err := gencat.Write(b.TempDir(), 2000, 2000, 1)
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := os.ReadFile(files[0])
-	if err != nil {
-		b.Fatal(err)
-	}
-	text := string(data)
+	text := generatedFile(b, 2000)
 	doc, err := catalog.DecodeMaps(text)
 	if err != nil {
 		b.Fatal(err)
@@ -52,15 +44,7 @@ func BenchmarkConvert(b *testing.B) {
 // decoder's speed per part against the size of the document it reads,
 // which is what the pieces of a load are sized by.
 func BenchmarkPieceSize(b *testing.B) {
-	files, err := gencat.Write(b.TempDir(), 2000, 2000, 1)
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := os.ReadFile(files[0])
-	if err != nil {
-		b.Fatal(err)
-	}
-	text := string(data)
+	text := generatedFile(b, 2000)
 	var offs []int
 	for i := 0; ; {
 		j := strings.Index(text[i:], "[[part]]")
@@ -85,4 +69,18 @@ func BenchmarkPieceSize(b *testing.B) {
 			}
 		})
 	}
+}
+
+// generatedFile returns the text of a catalog file of n parts from the
+// generator the scale benchmark uses.
+func generatedFile(b *testing.B, n int) string {
+	files, err := gencat.Write(b.TempDir(), n, n, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
+	data, err := os.ReadFile(files[0])
+	if err != nil {
+		b.Fatal(err)
+	}
+	return string(data)
 }
