@@ -56,7 +56,11 @@ func scanHeaders(text string) (fl fileLines, ok bool) {
 		if end < 0 {
 			end = len(text) - off
 		}
-		l := strings.TrimLeft(text[off:off+end], " \t")
+		l := text[off : off+end]
+		if off == 0 {
+			l = strings.TrimPrefix(l, "\ufeff") // a byte-order mark the decoder skips
+		}
+		l = strings.TrimLeft(l, " \t")
 		if strings.HasPrefix(l, "[") {
 			if !isPartHeader(l) {
 				return fileLines{}, false

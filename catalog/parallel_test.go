@@ -36,6 +36,9 @@ func TestDecodePieces(t *testing.T) {
 	}{
 		{"plain", base, true, false},
 		{"multi-line string", withString, true, false},
+		{"CRLF line ends", strings.ReplaceAll(base, "\n", "\r\n"), true, false},
+		{"byte-order mark", "\ufeff" + base, true, false},
+		{"indented headers with comments", strings.ReplaceAll(base, "[[part]]\n", "  [[ part ]]  # next\n"), true, false},
 		{"top-level key first", "currency = \"EUR\"\n" + base, false, true},
 		{"table at the end", base + "[extra]\na = 1\n", false, true},
 		{"sub-table", withSub, false, true},
