@@ -64,9 +64,17 @@ func Scan(text string) *Index {
 	// elements (a catalog's lists are short). A guess: append grows it.
 	n := 1 + strings.Count(text, "=") + 3*strings.Count(text, "[")
 	s := &scanner{text: text, line: 1, ix: &Index{nodes: make([]node, 1, n)}}
+	if strings.HasPrefix(text, bom) {
+		// A byte-order mark (editors on some systems write one) is not
+		// part of the document: the decoder skips it, and so do we.
+		s.i, s.lineStart = len(bom), len(bom)
+	}
 	s.document()
 	return s.ix
 }
+
+// bom is the UTF-8 byte-order mark.
+const bom = "\ufeff"
 
 // find returns the node at path, or as far along it as is written: the
 // node reached and whether it is the whole path.

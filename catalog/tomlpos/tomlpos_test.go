@@ -215,3 +215,21 @@ func posOf(ix *Index, path string) (Pos, bool) {
 	}
 	return ix.nodes[n].pos(), true
 }
+
+// TestScanByteOrderMark: a document that starts with a UTF-8 byte-order
+// mark (which the TOML decoder skips) has every key on the same line and
+// column as without it, three bytes further on.
+func TestScanByteOrderMark(t *testing.T) {
+	const doc = "[[part]]\nid = \"a1\"\nslew = { typ = \"5 V/us\" }\n\n[[part]]\nid = \"b2\"\n"
+	plain, marked := Scan(doc), Scan("\ufeff"+doc)
+	for _, path := range []string{"part.0", "part.0.id", "part.0.slew.typ", "part.1", "part.1.id"} {
+		want, ok := plain.Pos(path)
+		if !ok {
+			t.Fatalf("%s not found without the mark", path)
+		}
+		got, ok := marked.Pos(path)
+		if !ok || got.Line != want.Line || got.Col != want.Col || got.Offset != want.Offset+3 {
+			t.Errorf("%s with the mark at %+v (found %v), want %+v three bytes on", path, got, ok, want)
+		}
+	}
+}
