@@ -36,12 +36,15 @@ func init() { register(transimpedanceTemplate{}) }
 //
 //	input_range     the point ref (the inputs sit at ref)
 //	output_range    ref … ref ± i_max·Rf
-//	gbw             the GBW at which the maximally flat response (Q = 1/√2, Butterworth)
-//	                with its Cf = circuit.FeedbackCapForTIAFlat in the loop reaches f
-//	                (circuit.GBWForTIA; Cin including the part's own cin); each
-//	                candidate's check carries its own Cf (Aside "cf")
+//	gbw             the worst-case GBW at which the maximally flat response (Q = 1/√2,
+//	                Butterworth) with its Cf = circuit.FeedbackCapForTIAFlat in the loop
+//	                reaches f, and keeps f with that same Cf up to the part's
+//	                typical GBW (circuit.GBWForTIAFitted; Cin including the part's own
+//	                cin): a per-part need (Requirement.Need), as the amplifier's gbw
+//	                with its Aol. Each candidate's check carries that Cf (Aside "cf")
 //	noise           with noise: output noise of en (gain peaking 1 + Cin/Cf), in and
-//	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed
+//	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed,
+//	                with the same Cf on the part's typical (fastest credible) GBW
 //	slew            0.8·i_max·Rf/(0.35/f): the full step within the rise time the
 //	                bandwidth sets
 //	output_current  i_max + i_max·Rf/load_r
@@ -78,8 +81,11 @@ func (transimpedanceTemplate) Params() []Param {
 
 // Notes of the transimpedance gbw check.
 const (
-	noteTIACin   = "GBW scaled by the need at cin/the need at cin + part cin: the part's own input capacitance adds to the detector's"
+	noteTIACin   = "the need counts the part cin beside the stage's: the part's own input capacitance adds to the detector's"
 	noteTIANoCin = "the catalog gives no input capacitance; only the stage's cin is counted"
+	// noteTIAFitted says which Cf the check judges and why the need can
+	// exceed the derived floor.
+	noteTIAFitted = "Cf is fitted maximally flat at the worst-case GBW; the bandwidth holds only near that GBW (with the same Cf a faster part is overdamped and slower, up to −29 %), so the need covers the part's GBW up to its typical"
 )
 
 // tia is a transimpedance stage's circuit values.
@@ -139,11 +145,11 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		Why: fmt.Sprintf("ref … ref %s i_max·Rf = %s … %s %s %s·%s", sign, V(ref), V(ref), sign, I, Ohm(t.rf))})
 	gbw := circuit.GBWForTIA(t.rf, t.cin, t.f)
 	cf := circuit.FeedbackCapForTIAFlat(t.rf, t.cin, gbw)
-	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out",
+	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out; per part more, when its typical GBW is above the worst case (the Cf fitted there is slower on it)",
 		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(circuit.GBWForTIANoCf(t.rf, t.cin, t.f), catalog.Hertz))
 	tc := t
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, tc, gbw) },
+		Need: func(part *catalog.Part, f *PartFigures) (float64, string) { return tiaGBWNeed(part, f, tc) },
 		Aside: func(part *catalog.Part, f *PartFigures) Aside {
 			if !f.GBW.Known || !(f.GBW.V > 0) {
 				return Aside{}
@@ -175,7 +181,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		temp := p.TempHigh
 		add(Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaNoise(part, f, tc, temp, band, order) },
-			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), flat Cf per part, T = %.4g K, %s",
+			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), Cf fitted flat at the part's worst-case GBW on its typical GBW, T = %.4g K, %s",
 				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), tiaBandText(band, order))})
 	}
 	return sp, nil
@@ -190,38 +196,40 @@ func partCin(p *catalog.Part) float64 {
 }
 
 // tiaNoise is the transimpedance output noise on a part: its worst-case en
-// and in (with their 1/f corners when given), its largest credible GBW
-// (GBWHigh: more GBW widens the band and, with a smaller flat Cf, the
-// gain peaking) and the flat Cf that GBW needs.
+// and in (with their 1/f corners when given), on the circuit the user is
+// told to build — the Cf fitted flat at the worst-case GBW (the gbw
+// check's "cf") — with the op-amp at its largest credible GBW (GBWHigh:
+// with Cf fixed, more GBW carries the en·Cin gain peaking further up, so
+// more noise).
 func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order int) Figure {
-	if !f.En.Known || !f.In.Known || !f.GBWHigh.Known || !(f.GBWHigh.V > 0) {
+	if !f.En.Known || !f.In.Known || !f.GBW.Known || !(f.GBW.V > 0) || !f.GBWHigh.Known || !(f.GBWHigh.V > 0) {
 		return Figure{}
 	}
 	cin := t.cin + partCin(p)
-	g := f.GBWHigh.V
+	g := math.Max(f.GBWHigh.V, f.GBW.V)
 	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V(), InCorner: p.InCorner.V(),
-		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, g), Cin: cin, Rsh: t.rsh, GBW: g,
+		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, f.GBW.V), Cin: cin, Rsh: t.rsh, GBW: g,
 		TempK: circuit.KelvinFromCelsius(tempC), Band: band, Order: order}
-	basis := weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis)
+	basis := weaker(weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis), f.GBW.Basis)
 	return Figure{V: n.OutputRMS(), Known: true, Basis: basis, Note: f.En.Note}
 }
 
-// tiaGBW is the part's GBW scaled by need/need', need the stage's
-// requirement at the stage's cin and need' the requirement with the
-// part's own cin added (circuit.GBWForTIA both), so that the check's margin
-// is GBW/need' − 1.
-func tiaGBW(p *catalog.Part, f *PartFigures, t tia, need float64) Figure {
-	g := f.GBW
-	if !g.Known {
-		return g
+// tiaGBWNeed is the worst-case GBW the part needs
+// (circuit.GBWForTIAFitted): the flat response with its fitted Cf
+// reaches the bandwidth at the stage's cin plus the part's own, on any GBW
+// from the worst case up to the typical (the spread GBWHigh/GBW). Without
+// a GBW figure the spread is 1 and the check is unknown anyway.
+func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia) (float64, string) {
+	spread := 1.0
+	if f.GBW.Known && f.GBWHigh.Known && f.GBW.V > 0 && f.GBWHigh.V > f.GBW.V {
+		spread = f.GBWHigh.V / f.GBW.V
 	}
-	if c := partCin(p); c > 0 {
-		g.V *= need / circuit.GBWForTIA(t.rf, t.cin+c, t.f)
-		g.Note = noteTIACin
-	} else {
-		g.Note = noteTIANoCin
+	c := partCin(p)
+	need := circuit.GBWForTIAFitted(t.rf, t.cin+c, t.f, spread)
+	if c > 0 {
+		return need, noteTIAFitted + "; " + noteTIACin
 	}
-	return g
+	return need, noteTIAFitted + "; " + noteTIANoCin
 }
 
 // tiaDCError is Vos·NG + (Ib + Ios/2)·Rf with worst-case figures: the
@@ -282,7 +290,7 @@ func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *Part
 	}
 	rf, cin, imax := v[0], v[1], v[2]
 	bw := sp.Freq
-	cf, _, ok := tiaFeedbackCap(sp, part, f)
+	cf, fit, ok := tiaFeedbackCap(sp, part, f)
 	if !ok {
 		return StageCircuit{}, fmt.Errorf("stage %q: part %q: no feedback capacitor can be chosen without a gbw figure", sp.Name, part.ID)
 	}
@@ -300,6 +308,24 @@ func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *Part
 			fmt.Sprintf("driven by a light step 0 … %s at %s, shown over %d rise times of the %s bandwidth; \"in\" is the photocurrent, A",
 				catalog.Format(imax, catalog.Ampere), catalog.Format(tiaStepAt*dur, catalog.Second), tiaStepRises, catalog.Format(bw, catalog.Hertz)),
 			fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw with Cin = %s", catalog.Format(cf, catalog.Farad), catalog.Format(cin, catalog.Farad)),
+			tiaFitNote(rf, cin, cf, fit, f),
 		},
 	}, nil
+}
+
+// tiaFitNote says that the bandwidth of the fitted Cf holds only near the
+// GBW it was fitted at, with the bandwidth there (fit) and, when the
+// part's typical GBW is higher, the bandwidth the same Cf gives on it.
+func tiaFitNote(rf, cin, cf, fit float64, f *PartFigures) string {
+	Hz := func(x float64) string { return catalog.Format(x, catalog.Hertz) }
+	s := fmt.Sprintf("the bandwidth %s holds only near the gbw %s Cf was fitted at: with the same Cf a faster part is overdamped and slower", Hz(fit), Hz(f.GBW.V))
+	if f.GBWHigh.Known && f.GBWHigh.V > f.GBW.V {
+		fast := circuit.LowPass2Bandwidth(circuit.TIAResponse(rf, cin, cf, f.GBWHigh.V))
+		sign := "+"
+		if fast < fit {
+			sign = "−"
+		}
+		s += fmt.Sprintf(" (%s at the typical %s, %s%.1f %%)", Hz(fast), Hz(f.GBWHigh.V), sign, math.Abs(100*(fast/fit-1)))
+	}
+	return s
 }

@@ -124,3 +124,71 @@ func TestGBWForTIANoCf(t *testing.T) {
 		t.Error("need with Cf not above the shortcut")
 	}
 }
+
+// nodalF3 is the −3 dB bandwidth of the stage by nodal analysis
+// (tiaNodal), independent of TIAResponse and LowPass2Bandwidth; the
+// responses swept here have no peaking, so |Z| falls monotonically.
+func nodalF3(rf, cin, cf, gbw float64) float64 {
+	return bisectDown(func(x float64) float64 { return cmplx.Abs(tiaNodal(rf, cin, cf, gbw, x)) }, rf/math.Sqrt2, 1, 1e10)
+}
+
+// A Cf fitted flat at one GBW holds the bandwidth only near that GBW.
+// Rf 1 MΩ, Cin 10 pF, Cf fitted at 1 MHz (flat f3 116.25 kHz): on a part
+// 2× faster the nodal bandwidth is 3.42 % lower, 5× faster 14.71 % lower,
+// and far above it tends to the feedback pole 1/(2π·Rf·Cf) (by hand in
+// python from the transfer function of Graeme, Photodiode Amplifiers,
+// from memory; the sweep here is the independent nodal one).
+func TestBandwidthTIAFitted(t *testing.T) {
+	const rf, cin, g = 1e6, 10e-12, 1e6
+	cf := FeedbackCapForTIAFlat(rf, cin, g)
+	flat := nodalF3(rf, cin, cf, g)
+	assertRel(t, "flat f3 (python 116.2499 kHz)", flat, 116249.88, 1e-6)
+	for _, tc := range []struct {
+		k, loss float64
+	}{{1.5, -0.0010}, {2, -0.0342}, {5, -0.1471}} {
+		got := nodalF3(rf, cin, cf, tc.k*g)/flat - 1
+		if math.Abs(got-tc.loss) > 5e-4 {
+			t.Errorf("%g× faster: bandwidth %+.4f, want %+.4f", tc.k, got, tc.loss)
+		}
+		assertRel(t, "BandwidthTIAFitted", BandwidthTIAFitted(rf, cin, g, tc.k), nodalF3(rf, cin, cf, tc.k*g), 1e-6)
+	}
+	far := nodalF3(rf, cin, cf, 1e4*g)
+	assertRel(t, "far above: the feedback pole", far, 1/(2*math.Pi*rf*cf), 1e-3)
+
+	// The least bandwidth over a GBW span is at one of its ends: a dense
+	// nodal scan of [g, 8g] finds nothing lower.
+	for _, base := range []float64{2e5, 1e6, 3e7} {
+		cf := FeedbackCapForTIAFlat(rf, cin, base)
+		least := math.Inf(1)
+		for k := 1.0; k <= 8; k += 0.05 {
+			least = math.Min(least, nodalF3(rf, cin, cf, k*base))
+		}
+		got := BandwidthTIAFitted(rf, cin, base, 8)
+		if got > least*(1+1e-6) {
+			t.Errorf("GBW %g: BandwidthTIAFitted %g above the scanned least %g", base, got, least)
+		}
+	}
+}
+
+// GBWForTIAFitted is the edge: at the need, Cf fitted there, the nodal
+// bandwidth at the span's slow and fast ends is ≥ f and one of them is f;
+// 0.5 % below the need the fast end misses f.
+func TestGBWForTIAFitted(t *testing.T) {
+	const rf, cin, f, spread = 1e6, 10e-12, 100e3, 2
+	g := GBWForTIAFitted(rf, cin, f, spread)
+	if flat := GBWForTIA(rf, cin, f); !(g > flat) {
+		t.Errorf("need with a 2× spread %g Hz, want above the flat need %g Hz", g, flat)
+	}
+	cf := FeedbackCapForTIAFlat(rf, cin, g)
+	slow, fast := nodalF3(rf, cin, cf, g), nodalF3(rf, cin, cf, spread*g)
+	assertRel(t, "least nodal f3 at the need", math.Min(slow, fast), f, 1e-6)
+	if slow < f*(1-1e-6) {
+		t.Errorf("slow end %g Hz below f", slow)
+	}
+	g2 := 0.995 * g
+	cf2 := FeedbackCapForTIAFlat(rf, cin, g2)
+	if b := nodalF3(rf, cin, cf2, spread*g2); !(b < f) {
+		t.Errorf("0.5 %% below the need the fast end reaches %g Hz, want < %g", b, f)
+	}
+	assertRel(t, "spread 1 is the flat need", GBWForTIAFitted(rf, cin, f, 1), GBWForTIA(rf, cin, f), 1e-12)
+}
