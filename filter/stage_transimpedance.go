@@ -149,7 +149,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(circuit.GBWForTIANoCf(t.rf, t.cin, t.f), catalog.Hertz))
 	tc := t
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-		Need: func(part *catalog.Part, f *PartFigures) (float64, string) { return tiaGBWNeed(part, f, tc) },
+		Need: func(part *catalog.Part, f *PartFigures) (float64, string) { return tiaGBWNeed(part, f, tc, gbw) },
 		Aside: func(part *catalog.Part, f *PartFigures) Aside {
 			if !f.GBW.Known || !(f.GBW.V > 0) {
 				return Aside{}
@@ -218,18 +218,22 @@ func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order
 // (circuit.GBWForTIAFitted): the flat response with its fitted Cf
 // reaches the bandwidth at the stage's cin plus the part's own, on any GBW
 // from the worst case up to the typical (the spread GBWHigh/GBW). Without
-// a GBW figure the spread is 1 and the check is unknown anyway.
-func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia) (float64, string) {
+// a GBW figure the spread is 1 and the check is unknown anyway. floor is
+// the need at the stage's cin with no spread (the requirement's Value),
+// which a part without cin and spread needs, unsolved again.
+func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia, floor float64) (float64, string) {
 	spread := 1.0
 	if f.GBW.Known && f.GBWHigh.Known && f.GBW.V > 0 && f.GBWHigh.V > f.GBW.V {
 		spread = f.GBWHigh.V / f.GBW.V
 	}
 	c := partCin(p)
-	need := circuit.GBWForTIAFitted(t.rf, t.cin+c, t.f, spread)
 	if c > 0 {
-		return need, noteTIAFitted + "; " + noteTIACin
+		return circuit.GBWForTIAFitted(t.rf, t.cin+c, t.f, spread), noteTIAFitted + "; " + noteTIACin
 	}
-	return need, noteTIAFitted + "; " + noteTIANoCin
+	if spread == 1 {
+		return floor, noteTIAFitted + "; " + noteTIANoCin
+	}
+	return circuit.GBWForTIAFitted(t.rf, t.cin, t.f, spread), noteTIAFitted + "; " + noteTIANoCin
 }
 
 // tiaDCError is Vos·NG + (Ib + Ios/2)·Rf with worst-case figures: the
