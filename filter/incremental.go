@@ -128,16 +128,24 @@ func designKey(p *Plan, strict bool) string {
 func stageKey(design string, i int, s *Stage) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s|%d|%s|%s", design, i, s.Name, s.Kind)
+	writeValues(&b, s, "")
+	return b.String()
+}
+
+// writeValues renders the stage's inputs as written, in key order, all
+// but the one named skip.
+func writeValues(b *strings.Builder, s *Stage, skip string) {
 	keys := make([]string, 0, len(s.Values))
 	for k := range s.Values {
-		keys = append(keys, k)
+		if k != skip {
+			keys = append(keys, k)
+		}
 	}
 	sort.Strings(keys)
 	for _, k := range keys {
 		v := s.Values[k]
-		fmt.Fprintf(&b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
+		fmt.Fprintf(b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
 	}
-	return b.String()
 }
 
 // simKeyOf renders everything a stage's simulations read (simulatedTHD:
@@ -149,17 +157,7 @@ func stageKey(design string, i int, s *Stage) string {
 func simKeyOf(p *Plan, s *Stage) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%v|%v|%s", figureKeyOf(p), p.Rails, s.Kind)
-	keys := make([]string, 0, len(s.Values))
-	for k := range s.Values {
-		if k != "thd" {
-			keys = append(keys, k)
-		}
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		v := s.Values[k]
-		fmt.Fprintf(&b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
-	}
+	writeValues(&b, s, "thd")
 	return b.String()
 }
 

@@ -1,20 +1,15 @@
 package filter_test
 
 import (
-	"context"
 	"fmt"
 	"math"
-	"os"
-	"os/exec"
-	"path/filepath"
 	"regexp"
-	"strconv"
 	"testing"
-	"time"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/circuit"
+	"github.com/opsift/opsift/internal/spicerun"
 )
 
 // tiaFitStage is a photodiode stage of our own: 500 kΩ, 30 pF, 100 kHz.
@@ -72,30 +67,6 @@ quit
 
 var onoiseTotal = regexp.MustCompile(`onoise_total = (\S+)`)
 
-// runNoiseDeck runs deck in ngspice and returns onoise_total, V rms.
-func runNoiseDeck(t *testing.T, bin, deck string) float64 {
-	t.Helper()
-	path := filepath.Join(t.TempDir(), "tia.cir")
-	if err := os.WriteFile(path, []byte(deck), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
-	defer cancel()
-	out, err := exec.CommandContext(ctx, bin, "-b", path).CombinedOutput()
-	if err != nil {
-		t.Fatalf("ngspice: %v\n%s", err, out)
-	}
-	m := onoiseTotal.FindSubmatch(out)
-	if m == nil {
-		t.Fatalf("no onoise_total in ngspice output:\n%s", out)
-	}
-	v, err := strconv.ParseFloat(string(m[1]), 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
-}
-
 // The noise check judges the circuit the user is told to build: the Cf
 // the gbw check reports (fitted flat at the worst-case GBW 2 MHz), on the
 // op-amp at its typical 4 MHz (with Cf fixed, more GBW is more noise).
@@ -118,11 +89,11 @@ func TestTransimpedanceNoiseFittedCf(t *testing.T) {
 	c := tmplCheck(t, p, part, filter.KeyNoise)
 
 	want := recorded
-	if bin, err := exec.LookPath("ngspice"); err == nil {
-		live := runNoiseDeck(t, bin, tiaNoiseDeck(rf, cin, cf, 4e6, 12e-9, 0.5e-12))
+	if spicerun.Installed() {
+		live := spicerun.Value(t, tiaNoiseDeck(rf, cin, cf, 4e6, 12e-9, 0.5e-12), onoiseTotal)
 		t.Logf("ngspice onoise_total %.10g V", live)
 		tmplNear(t, "live ngspice vs recorded", live, recorded, 1e-6)
-		other := runNoiseDeck(t, bin, tiaNoiseDeck(rf, cin, circuit.FeedbackCapForTIAFlat(rf, cin, 4e6), 4e6, 12e-9, 0.5e-12))
+		other := spicerun.Value(t, tiaNoiseDeck(rf, cin, circuit.FeedbackCapForTIAFlat(rf, cin, 4e6), 4e6, 12e-9, 0.5e-12), onoiseTotal)
 		tmplNear(t, "ngspice with Cf fitted at 4 MHz", other, 168.891062e-6, 1e-6)
 	}
 	tmplNear(t, "noise check vs ngspice on the told circuit", c.Available, want, 2e-4)
