@@ -36,12 +36,15 @@ func init() { register(transimpedanceTemplate{}) }
 //
 //	input_range     the point ref (the inputs sit at ref)
 //	output_range    ref … ref ± i_max·Rf
-//	gbw             the worst-case GBW at which the maximally flat response (Q = 1/√2,
-//	                Butterworth) with its Cf = circuit.FeedbackCapForTIAFlat in the loop
-//	                reaches f, and keeps f with that same Cf up to the part's
-//	                typical GBW (circuit.GBWForTIAFitted; Cin including the part's own
-//	                cin): a per-part need (Requirement.Need), as the amplifier's gbw
-//	                with its Aol. Each candidate's check carries that Cf (Aside "cf")
+//	gbw             the worst-case GBW at which the response with its Cf in the loop
+//	                reaches f on every GBW from that worst case up to the part's
+//	                typical (circuit.GBWForTIAFitted; Cin including the part's own
+//	                cin), Cf the smallest without peaking over that span
+//	                (circuit.FeedbackCapForTIASpan: in the usual stage the maximally
+//	                flat Cf, Q = 1/√2, at the worst case): a per-part need
+//	                (Requirement.Need), as the amplifier's gbw with its Aol. Each
+//	                candidate's check carries that Cf (Aside "cf"); the floor with no
+//	                spread is circuit.GBWForTIA
 //	noise           with noise: output noise of en (gain peaking 1 + Cin/Cf), in and
 //	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed,
 //	                with the same Cf on the part's typical (fastest credible) GBW
@@ -85,7 +88,7 @@ const (
 	noteTIANoCin = "the catalog gives no input capacitance; only the stage's cin is counted"
 	// noteTIAFitted says which Cf the check judges and why the need can
 	// exceed the derived floor.
-	noteTIAFitted = "Cf is fitted maximally flat at the worst-case GBW; the bandwidth holds only near that GBW (with the same Cf a faster part is overdamped and slower, up to −29 %), so the need covers the part's GBW up to its typical"
+	noteTIAFitted = "Cf is fitted maximally flat at the worst-case GBW (or, where a faster part would then peak, to the smallest Cf without peaking up to the typical GBW); the bandwidth holds only near the GBW it was fitted at (with the same Cf a faster part is overdamped and slower, up to −29 %), so the need covers the part's GBW up to its typical"
 )
 
 // tia is a transimpedance stage's circuit values.
@@ -151,10 +154,11 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
 		Need: func(part *catalog.Part, f *PartFigures) (float64, string) { return tiaGBWNeed(part, f, tc, gbw) },
 		Aside: func(part *catalog.Part, f *PartFigures) Aside {
-			if !f.GBW.Known || !(f.GBW.V > 0) {
+			cf, _, ok := tiaFitCf(tc.rf, tc.cin, part, f)
+			if !ok {
 				return Aside{}
 			}
-			return Aside{Kind: AsideCf, V: circuit.FeedbackCapForTIAFlat(tc.rf, tc.cin+partCin(part), f.GBW.V)}
+			return Aside{Kind: AsideCf, V: cf}
 		},
 		Why: gwhy})
 	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(vo, sp.Rise), Dim: catalog.VoltPerSecond,
@@ -197,34 +201,32 @@ func partCin(p *catalog.Part) float64 {
 
 // tiaNoise is the transimpedance output noise on a part: its worst-case en
 // and in (with their 1/f corners when given), on the circuit the user is
-// told to build — the Cf fitted flat at the worst-case GBW (the gbw
-// check's "cf") — with the op-amp at its largest credible GBW (GBWHigh:
-// with Cf fixed, more GBW carries the en·Cin gain peaking further up, so
-// more noise).
+// told to build — tiaFitCf, the gbw check's "cf" — with the op-amp at its
+// largest credible GBW (tiaFastGBW: with Cf fixed, more GBW carries the
+// en·Cin gain peaking further up, so more noise).
 func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order int) Figure {
-	if !f.En.Known || !f.In.Known || !f.GBW.Known || !(f.GBW.V > 0) || !f.GBWHigh.Known || !(f.GBWHigh.V > 0) {
+	cf, cin, ok := tiaFitCf(t.rf, t.cin, p, f)
+	if !f.En.Known || !f.In.Known || !ok {
 		return Figure{}
 	}
-	cin := t.cin + partCin(p)
-	g := math.Max(f.GBWHigh.V, f.GBW.V)
 	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V(), InCorner: p.InCorner.V(),
-		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, f.GBW.V), Cin: cin, Rsh: t.rsh, GBW: g,
+		Rf: t.rf, Cf: cf, Cin: cin, Rsh: t.rsh, GBW: tiaFastGBW(f),
 		TempK: circuit.KelvinFromCelsius(tempC), Band: band, Order: order}
 	basis := weaker(weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis), f.GBW.Basis)
 	return Figure{V: n.OutputRMS(), Known: true, Basis: basis, Note: f.En.Note}
 }
 
 // tiaGBWNeed is the worst-case GBW the part needs
-// (circuit.GBWForTIAFitted): the flat response with its fitted Cf
-// reaches the bandwidth at the stage's cin plus the part's own, on any GBW
-// from the worst case up to the typical (the spread GBWHigh/GBW). Without
+// (circuit.GBWForTIAFitted): the response with the Cf fitted as tiaFitCf
+// fits it reaches the bandwidth at the stage's cin plus the part's own, on
+// any GBW from the worst case up to the typical (the spread GBWHigh/GBW). Without
 // a GBW figure the spread is 1 and the check is unknown anyway. floor is
 // the need at the stage's cin with no spread (the requirement's Value),
 // which a part without cin and spread needs, unsolved again.
 func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia, floor float64) (float64, string) {
 	spread := 1.0
-	if f.GBW.Known && f.GBWHigh.Known && f.GBW.V > 0 && f.GBWHigh.V > f.GBW.V {
-		spread = f.GBWHigh.V / f.GBW.V
+	if f.GBW.Known && f.GBW.V > 0 {
+		spread = tiaFastGBW(f) / f.GBW.V
 	}
 	c := partCin(p)
 	if c > 0 {
@@ -256,24 +258,49 @@ func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 	return Figure{V: ng*f.Vos.V + ib*rf, Known: true, Basis: basis, Note: note}
 }
 
-// tiaFeedbackCap returns the feedback capacitor that makes a
-// transimpedance stage maximally flat on a part with worst-case figures f:
-// circuit.FeedbackCapForTIAFlat with the stage's cin plus the part's own
-// input capacitance (when the catalog gives it) and the part's worst-case
-// GBW; bw is the −3 dB bandwidth it then reaches (circuit.TIAResponse and
-// LowPass2Bandwidth, = circuit.BandwidthTIA).
-// ok is false when sp is not a derived transimpedance stage or the GBW is
-// unknown.
+// tiaFitCf is the feedback capacitor the user is told to fit on part p
+// with worst-case figures f (the gbw check's "cf"), and the total input
+// capacitance it was fitted with (the stage's cin plus the part's own):
+// the smallest Cf that keeps the response free of peaking on every GBW
+// from the part's worst case up to its typical
+// (circuit.FeedbackCapForTIASpan) — in the usual stage the maximally flat
+// Cf at the worst-case GBW. ok is false without a GBW figure.
+func tiaFitCf(rf, cin float64, p *catalog.Part, f *PartFigures) (cf, cinTotal float64, ok bool) {
+	if !f.GBW.Known || !(f.GBW.V > 0) {
+		return 0, 0, false
+	}
+	cinTotal = cin + partCin(p)
+	return circuit.FeedbackCapForTIASpan(rf, cinTotal, f.GBW.V, tiaFastGBW(f)), cinTotal, true
+}
+
+// tiaFastGBW is the part's largest credible GBW: the typical (GBWHigh)
+// when it is above the worst case, else the worst case.
+func tiaFastGBW(f *PartFigures) float64 {
+	if f.GBWHigh.Known && f.GBWHigh.V > f.GBW.V {
+		return f.GBWHigh.V
+	}
+	return f.GBW.V
+}
+
+// tiaFeedbackCap returns the feedback capacitor the user is told to fit on
+// a part with worst-case figures f (tiaFitCf) and the −3 dB bandwidth it
+// gives at the part's worst-case GBW (circuit.TIAResponse and
+// LowPass2Bandwidth; = circuit.BandwidthTIA where that Cf is the flat
+// one). ok is false when sp is not a derived transimpedance stage or the
+// GBW is unknown.
 func tiaFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
-	if sp == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
+	if sp == nil || sp.Kind != "transimpedance" {
 		return 0, 0, false
 	}
 	v, err := sp.values("rf", "cin")
 	if err != nil {
 		return 0, 0, false
 	}
-	rf, cin := v[0], v[1]+partCin(part)
-	cf = circuit.FeedbackCapForTIAFlat(rf, cin, f.GBW.V)
+	rf := v[0]
+	cf, cin, ok := tiaFitCf(rf, v[1], part, f)
+	if !ok {
+		return 0, 0, false
+	}
 	f0, q := circuit.TIAResponse(rf, cin, cf, f.GBW.V)
 	bw = circuit.LowPass2Bandwidth(f0, q)
 	if math.IsNaN(bw) {
@@ -282,9 +309,9 @@ func tiaFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw f
 	return cf, bw, true
 }
 
-// circuit is the stage with the Cf a maximally flat response needs on the
-// part's worst-case GBW (tiaFeedbackCap: the circuit as it would be built
-// for the part; a typical run keeps it), driven by a light step of i_max
+// circuit is the stage with the Cf the user is told to fit
+// (tiaFeedbackCap: the circuit as it would be built for the part; a
+// typical run keeps it), driven by a light step of i_max
 // shown over tiaStepRises rise times of the stage's bandwidth, so that
 // parts share one time axis and a slow part is seen not to settle in time.
 func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *PartFigures) (StageCircuit, error) {
@@ -311,25 +338,28 @@ func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *Part
 		Notes: []string{
 			fmt.Sprintf("driven by a light step 0 … %s at %s, shown over %d rise times of the %s bandwidth; \"in\" is the photocurrent, A",
 				catalog.Format(imax, catalog.Ampere), catalog.Format(tiaStepAt*dur, catalog.Second), tiaStepRises, catalog.Format(bw, catalog.Hertz)),
-			fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw with Cin = %s", catalog.Format(cf, catalog.Farad), catalog.Format(cin, catalog.Farad)),
 			tiaFitNote(rf, cin, cf, fit, f),
 		},
 	}, nil
 }
 
-// tiaFitNote says that the bandwidth of the fitted Cf holds only near the
-// GBW it was fitted at, with the bandwidth there (fit) and, when the
-// part's typical GBW is higher, the bandwidth the same Cf gives on it.
+// tiaFitNote says which Cf the stage is built with and that its bandwidth
+// (fit, at the worst-case GBW) holds only near the GBW it was fitted at,
+// with the bandwidth the same Cf gives at the typical GBW when that is
+// higher.
 func tiaFitNote(rf, cin, cf, fit float64, f *PartFigures) string {
 	Hz := func(x float64) string { return catalog.Format(x, catalog.Hertz) }
-	s := fmt.Sprintf("the bandwidth %s holds only near the gbw %s Cf was fitted at: with the same Cf a faster part is overdamped and slower", Hz(fit), Hz(f.GBW.V))
-	if f.GBWHigh.Known && f.GBWHigh.V > f.GBW.V {
-		fast := circuit.LowPass2Bandwidth(circuit.TIAResponse(rf, cin, cf, f.GBWHigh.V))
-		sign := "+"
-		if fast < fit {
-			sign = "−"
-		}
-		s += fmt.Sprintf(" (%s at the typical %s, %s%.1f %%)", Hz(fast), Hz(f.GBWHigh.V), sign, math.Abs(100*(fast/fit-1)))
+	F := func(x float64) string { return catalog.Format(x, catalog.Farad) }
+	fast := tiaFastGBW(f)
+	if !(fast > f.GBW.V) {
+		return fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw %s with Cin = %s: bandwidth %s; it holds only near that gbw (with the same Cf a faster part is overdamped and slower)",
+			F(cf), Hz(f.GBW.V), F(cin), Hz(fit))
 	}
-	return s
+	at := circuit.LowPass2Bandwidth(circuit.TIAResponse(rf, cin, cf, fast))
+	sign := "+"
+	if at < fit {
+		sign = "−"
+	}
+	return fmt.Sprintf("Cf = %s, the smallest without peaking from the part's worst-case gbw %s to its typical %s, with Cin = %s: bandwidth %s at the worst case, %s at the typical (%s%.1f %%); it holds only near the gbw Cf was fitted at",
+		F(cf), Hz(f.GBW.V), Hz(fast), F(cin), Hz(fit), Hz(at), sign, math.Abs(100*(at/fit-1)))
 }

@@ -142,7 +142,7 @@ func TestTransimpedanceGBWFittedCf(t *testing.T) {
 	if c.Available != 2e6 {
 		t.Errorf("available %g Hz, want the part's worst-case 2 MHz", c.Available)
 	}
-	tmplContains(t, "note", c.Note, "holds only near that GBW")
+	tmplContains(t, "note", c.Note, "holds only near the GBW it was fitted at")
 	need := c.Required
 	if !(need > floor) {
 		t.Fatalf("need %g Hz with a 2× spread, want above the flat floor %g Hz", need, floor)
@@ -174,5 +174,48 @@ func TestTransimpedanceGBWFittedCf(t *testing.T) {
 				t.Errorf("fast end reaches %g Hz, want below %g", fast, f)
 			}
 		})
+	}
+}
+
+// In a low-gain fast stage (Rf 1 kΩ, Cin 10 pF) on a part of worst-case
+// GBW 9.55 MHz and typical 14.3 MHz (2π·Rf·Cin·GBW = 0.6 and 0.9), the flat
+// Cf of the worst case would peak on the typical part. The Cf the check
+// reports is the smallest that peaks on neither (0.994·Cin, by hand from
+// √(2/u − 1/u²) at u = 0.9), by the nodal sweep at both ends, and the
+// noise check integrates that Cf on the typical GBW, the worst end (a
+// dense scan of circuit.TIANoise over the span with that Cf).
+func TestTransimpedanceLowGainCf(t *testing.T) {
+	const rf, cin = 1e3, 10e-12
+	lo, hi := 0.6/(2*math.Pi*rf*cin), 0.9/(2*math.Pi*rf*cin)
+	p := tmplPlan(t, rails12, `kind = "transimpedance"
+rf = "1 kOhm"
+cin = "10 pF"
+bandwidth = "1 MHz"
+i_max = "1 mA"
+ref = "1 V"
+noise = "1 mV"`)
+	part := tiaFitPart()
+	part.GBW = catalog.Spec{Min: catalog.Some(lo), Typ: catalog.Some(hi)}
+	c := tmplCheck(t, p, part, filter.KeyGBW)
+	tmplNear(t, "cf/cin", c.Aside.V/cin, math.Sqrt(2/0.9-1/0.81), 1e-9)
+	for _, g := range []float64{lo, hi} {
+		if _, peak := tiaBandwidth(rf, cin, c.Aside.V, g); peak > 1+1e-6 {
+			t.Errorf("GBW %g: the reported Cf peaks at %.7f × Rf", g, peak)
+		}
+	}
+	if _, peak := tiaBandwidth(rf, cin, circuit.FeedbackCapForTIAFlat(rf, cin, lo), hi); !(peak > 1+1e-6) {
+		t.Errorf("the worst case's flat Cf on the typical part: peak %.7f × Rf, want peaking (the case this guards)", peak)
+	}
+	noise := tmplCheck(t, p, part, filter.KeyNoise)
+	n := circuit.TIANoise{En: 12e-9, In: 0.5e-12, Rf: rf, Cf: c.Aside.V, Cin: cin, GBW: hi, TempK: 298.15}
+	tmplNear(t, "noise on the typical GBW with the reported Cf", noise.Available, n.OutputRMS(), 1e-12)
+	prev := 0.0
+	for k := 0; k <= 20; k++ {
+		n.GBW = lo * math.Pow(hi/lo, float64(k)/20)
+		v := n.OutputRMS()
+		if v < prev {
+			t.Errorf("noise falls from %g to %g V at GBW %g Hz", prev, v, n.GBW)
+		}
+		prev = v
 	}
 }

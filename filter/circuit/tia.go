@@ -24,11 +24,12 @@ import "math"
 func GBWForTIA(rf, cin, f float64) float64 { return GBWForTIAFitted(rf, cin, f, 1) }
 
 // GBWForTIAFitted returns the smallest worst-case gain-bandwidth g for
-// which a transimpedance stage with Cf fitted maximally flat at g
-// (FeedbackCapForTIAFlat) reaches the −3 dB bandwidth f on every op-amp
-// whose GBW lies in [g, spread·g] (BandwidthTIAFitted), found by Newton's
-// method on ln(bandwidth) against ln(g) inside a bisection bracket (the
-// bandwidth rises monotonically with g). spread below 1 counts as 1.
+// which a transimpedance stage with the feedback capacitor fitted to the
+// GBW span [g, spread·g] (FeedbackCapForTIASpan) reaches the −3 dB
+// bandwidth f on every op-amp whose GBW lies in that span
+// (BandwidthTIAFitted), found by Newton's method on ln(bandwidth) against
+// ln(g) inside a bisection bracket (the bandwidth rises monotonically with
+// g). spread below 1 counts as 1.
 func GBWForTIAFitted(rf, cin, f, spread float64) float64 {
 	bw := func(g float64) float64 { return BandwidthTIAFitted(rf, cin, g, spread) }
 	// The bandwidth grows as g^0.5…0.75, so a few steps reach full
@@ -66,21 +67,37 @@ func GBWForTIAFitted(rf, cin, f, spread float64) float64 {
 }
 
 // BandwidthTIAFitted returns the least −3 dB bandwidth of a
-// transimpedance stage whose Cf was fitted maximally flat at gbw
-// (FeedbackCapForTIAFlat) when the op-amp's actual gain-bandwidth lies
-// anywhere in [gbw, spread·gbw] (spread below 1 counts as 1). The fitted
-// Cf keeps a faster op-amp stable — Q falls below 1/√2, no peaking — but
-// its bandwidth holds only near gbw: it rises a little, then falls toward
-// the feedback pole 1/(2π·Rf·Cf), up to about 29 % lower (1 MΩ, 10 pF,
-// 1 MHz: −3.4 % at 2×, −15 % at 5×). The bandwidth has a single maximum
-// over the GBW, so the least value over the span is at one of its ends.
+// transimpedance stage whose Cf is fitted to the GBW span [gbw,
+// spread·gbw] (FeedbackCapForTIASpan; spread below 1 counts as 1) when the
+// op-amp's actual gain-bandwidth lies anywhere in that span. With Cf fixed
+// the bandwidth holds only near the GBW it was fitted at: on a faster
+// op-amp it rises a little, then falls toward the feedback pole
+// 1/(2π·Rf·Cf), up to about 29 % lower (1 MΩ, 10 pF, Cf flat at 1 MHz:
+// −3.4 % at 2×, −15 % at 5×). The bandwidth has a single maximum over the
+// GBW, so the least value over the span is at one of its ends.
 func BandwidthTIAFitted(rf, cin, gbw, spread float64) float64 {
-	cf := FeedbackCapForTIAFlat(rf, cin, gbw)
+	hi := gbw * max(spread, 1)
+	cf := FeedbackCapForTIASpan(rf, cin, gbw, hi)
 	b := LowPass2Bandwidth(TIAResponse(rf, cin, cf, gbw))
-	if spread > 1 {
-		b = math.Min(b, LowPass2Bandwidth(TIAResponse(rf, cin, cf, spread*gbw)))
+	if hi > gbw {
+		b = math.Min(b, LowPass2Bandwidth(TIAResponse(rf, cin, cf, hi)))
 	}
 	return b
+}
+
+// FeedbackCapForTIASpan returns the smallest feedback capacitor that keeps
+// the transimpedance response free of peaking (Q ≤ 1/√2) on every op-amp
+// whose gain-bandwidth lies in [lo, hi]. Q falls as Cf grows (where a Cf
+// is needed at all, 2π·Rf·Cin·GBW > 1/2), so that is the largest flat Cf
+// over the span. FeedbackCapForTIAFlat, √(2·Cin·y − y²) with
+// y = 1/(Rf·ωT), is largest at y = Cin — at the GBW 1/(2π·Rf·Cin), where
+// it equals Cin — so the answer is the flat Cf at the GBW of the span
+// nearest that one. In the usual photodiode stage (2π·Rf·Cin·lo ≥ 1) it
+// is the flat Cf at lo, the worst case: a faster op-amp is then damped
+// further, never peaking.
+func FeedbackCapForTIASpan(rf, cin, lo, hi float64) float64 {
+	g := 1 / (2 * math.Pi * rf * cin)
+	return FeedbackCapForTIAFlat(rf, cin, min(max(g, lo), max(lo, hi)))
 }
 
 // GBWForTIANoCf returns the shortcut 2π·Rf·Cin·f², the GBW that would
