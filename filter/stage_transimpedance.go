@@ -185,7 +185,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		temp := p.TempHigh
 		add(Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaNoise(part, f, tc, temp, band, order) },
-			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), Cf fitted flat at the part's worst-case GBW on its typical GBW, T = %.4g K, %s",
+			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), the gbw check's Cf per part on its typical GBW, T = %.4g K, %s",
 				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), tiaBandText(band, order))})
 	}
 	return sp, nil
@@ -219,10 +219,10 @@ func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order
 // tiaGBWNeed is the worst-case GBW the part needs
 // (circuit.GBWForTIAFitted): the response with the Cf fitted as tiaFitCf
 // fits it reaches the bandwidth at the stage's cin plus the part's own, on
-// any GBW from the worst case up to the typical (the spread GBWHigh/GBW). Without
-// a GBW figure the spread is 1 and the check is unknown anyway. floor is
-// the need at the stage's cin with no spread (the requirement's Value),
-// which a part without cin and spread needs, unsolved again.
+// any GBW from the worst case up to the typical (the spread GBWHigh/GBW).
+// Without a GBW figure the spread is 1 and the check is unknown anyway.
+// floor is the need at the stage's cin with no spread (the requirement's
+// Value), which a part without cin and spread needs, unsolved again.
 func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia, floor float64) (float64, string) {
 	spread := 1.0
 	if f.GBW.Known && f.GBW.V > 0 {
