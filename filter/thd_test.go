@@ -395,3 +395,48 @@ func TestIncrementalKeepsSimulations(t *testing.T) {
 		})
 	}
 }
+
+// TestIncrementalKeptTHDAtTheEdge: the kept THD figure of the clipping
+// part (8.95 %, TestTHDRejects) judged against an allowance of exactly that
+// figure passes (pass at the limit), and against one a millionth below it
+// fails, without simulating again; a full evaluation agrees each time.
+func TestIncrementalKeptTHDAtTheEdge(t *testing.T) {
+	noswing := fastPart("noswing", 1e9, 0)
+	noswing.Output, noswing.InputCM = catalog.Swing{}, catalog.Headroom{}
+	parts := []*catalog.Part{noswing}
+	d, plan := mustDesign(t, thdDesign("6 V", "1 kHz", "5 V", `thd = "10 %"`))
+	thd, err := filter.SimulatedTHD(plan, "amp", noswing)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := filter.NewIncremental(parts, filter.Options{})
+	if _, err := in.Rank(context.Background(), plan, filter.SortMargin); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		allowed float64
+		pass    bool
+	}{{thd, true}, {thd * (1 - 1e-6), false}} {
+		if err := d.Set("stage.amp.thd", catalog.Exact(tc.allowed, catalog.Ratio)); err != nil {
+			t.Fatal(err)
+		}
+		plan, err := filter.Derive(d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		before := filter.SimRuns()
+		ranking, err := in.Rank(context.Background(), plan, filter.SortMargin)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ran := filter.SimRuns() - before; ran != 0 {
+			t.Errorf("allowed %g: %d simulations, want none", tc.allowed, ran)
+		}
+		if got := len(ranking.Passing) == 1; got != tc.pass {
+			t.Errorf("allowed %g against %g: passes %v, want %v", tc.allowed, thd, got, tc.pass)
+		}
+		if full := filter.Evaluate(plan, parts, filter.Options{})[0]; full.Pass != tc.pass {
+			t.Errorf("allowed %g: the full evaluation passes %v, want %v", tc.allowed, full.Pass, tc.pass)
+		}
+	}
+}
