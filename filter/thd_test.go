@@ -291,6 +291,22 @@ func TestIncrementalRankTHD(t *testing.T) {
 	}
 }
 
+// rankCounting derives d, ranks it on in by margin and returns the plan,
+// the ranking and how many thd simulations the ranking ran.
+func rankCounting(t *testing.T, in *filter.Incremental, d *filter.Design) (*filter.Plan, *filter.Ranking, int64) {
+	t.Helper()
+	plan, err := filter.Derive(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before := filter.SimRuns()
+	ranking, err := in.Rank(context.Background(), plan, filter.SortMargin)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return plan, ranking, filter.SimRuns() - before
+}
+
 // TestIncrementalKeepsSimulations: an edit that cannot change a
 // simulation — another stage's field, a [choose] filter, the thd
 // allowance itself — runs no simulation again, and the results stay those
@@ -347,16 +363,7 @@ func TestIncrementalKeepsSimulations(t *testing.T) {
 						t.Fatal(err)
 					}
 				}
-				plan, err := filter.Derive(d)
-				if err != nil {
-					t.Fatal(err)
-				}
-				before := filter.SimRuns()
-				ranking, err := in.Rank(context.Background(), plan, filter.SortMargin)
-				if err != nil {
-					t.Fatal(err)
-				}
-				ran := filter.SimRuns() - before
+				plan, ranking, ran := rankCounting(t, in, d)
 				full := filter.Evaluate(plan, sc.parts, filter.Options{Summary: true})
 				// The parts that pass every closed-form check: a full
 				// evaluation with its checks kept, every check but thd
@@ -420,16 +427,8 @@ func TestIncrementalKeptTHDAtTheEdge(t *testing.T) {
 		if err := d.Set("stage.amp.thd", catalog.Exact(tc.allowed, catalog.Ratio)); err != nil {
 			t.Fatal(err)
 		}
-		plan, err := filter.Derive(d)
-		if err != nil {
-			t.Fatal(err)
-		}
-		before := filter.SimRuns()
-		ranking, err := in.Rank(context.Background(), plan, filter.SortMargin)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if ran := filter.SimRuns() - before; ran != 0 {
+		plan, ranking, ran := rankCounting(t, in, d)
+		if ran != 0 {
 			t.Errorf("allowed %g: %d simulations, want none", tc.allowed, ran)
 		}
 		if got := len(ranking.Passing) == 1; got != tc.pass {
