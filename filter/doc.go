@@ -72,13 +72,18 @@
 //     noise_band (widened to its brick-wall equivalent for noise_order n),
 //     else π/2·GBW/NG; GBW the part's largest credible figure (typical,
 //     not derated) since more bandwidth is more noise. The transimpedance
-//     stage integrates its own response (circuit.TIANoise).
+//     stage integrates its own response (circuit.TIANoise) with the Cf
+//     its gbw check reports, the op-amp at its typical GBW.
 //   - relaxation gbw: the GBW at which the single-pole period model
 //     (circuit.AstablePeriodLimited, slew unlimited) runs at
 //     (1 − freq_error)·f0, a period of T0/(1 − freq_error); relaxation
 //     slew: both transitions within that growth, T0·ε/(1 − ε);
-//     transimpedance gbw: the maximally flat response with Cf in the loop
-//     reaches the bandwidth (circuit.GBWForTIA).
+//     transimpedance gbw, per part: the worst-case GBW whose fitted Cf
+//     (the smallest without peaking from that GBW up to the typical,
+//     circuit.FeedbackCapForTIASpan; usually the flat one at the worst
+//     case) keeps the bandwidth over that span (circuit.GBWForTIAFitted;
+//     Requirement.Need, with the part's own cin); the Value is the flat
+//     floor circuit.GBWForTIA.
 //   - comparator slew: 0.8·(VOH − VOL)/transition, the 10–90 % time
 //     between the stage's levels, as the preview measures it.
 //   - supply_current (when [choose] sets it): packages × channels × Iq.

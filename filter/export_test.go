@@ -20,3 +20,6 @@ func PredictedFrequency(sp *StagePlan, part *catalog.Part, f *PartFigures) (freq
 	}
 	return 0, false
 }
+
+// SimRuns is how many thd simulations have run in this test binary.
+func SimRuns() int64 { return simRuns.Load() }

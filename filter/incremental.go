@@ -30,7 +30,12 @@ import (
 //     every part;
 //   - each part's simulated checks (thd) of a stage, with that stage's
 //     checks: run in a second pass only for the parts that pass every
-//     closed-form check, and only once per part while the stage is kept.
+//     closed-form check, and only once per part while the stage is kept;
+//   - each part's simulated figures of a stage, kept while what a
+//     simulation reads stays the same (simKey: the figures' inputs, the
+//     rails, the stage's kind and inputs other than the thd bound), so an
+//     edit elsewhere — another stage, [choose], the thd allowance itself —
+//     re-judges the kept figures instead of simulating again.
 //
 // Its results are those of Evaluate with Options.Summary, bit for bit.
 // Work is split over the CPUs. Its methods may be called from several
@@ -93,6 +98,11 @@ type stageGroup struct {
 	sims      []groupSum
 	simFigs   []Figure
 	simulated []bool
+	// simKey is what the stage's simulations were run from; figHave[k]
+	// says simFigs holds part k's figures for it. They outlive a change of
+	// key that keeps simKey, when sims are re-judged from the figures.
+	simKey  string
+	figHave []bool
 }
 
 type partTotals struct {
@@ -118,15 +128,36 @@ func designKey(p *Plan, strict bool) string {
 func stageKey(design string, i int, s *Stage) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s|%d|%s|%s", design, i, s.Name, s.Kind)
+	writeValues(&b, s, "")
+	return b.String()
+}
+
+// writeValues renders the stage's inputs as written, in key order, all
+// but the one named skip.
+func writeValues(b *strings.Builder, s *Stage, skip string) {
 	keys := make([]string, 0, len(s.Values))
 	for k := range s.Values {
-		keys = append(keys, k)
+		if k != skip {
+			keys = append(keys, k)
+		}
 	}
 	sort.Strings(keys)
 	for _, k := range keys {
 		v := s.Values[k]
-		fmt.Fprintf(&b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
+		fmt.Fprintf(b, "|%s=%q %v %t", k, v.Raw, v.V, v.Set)
 	}
+}
+
+// simKeyOf renders everything a stage's simulations read (simulatedTHD:
+// the part's figures, the rails, the stage plan its template derives from
+// the stage's inputs, the rails and the temperature): the figures' key, the
+// rails, the stage's kind and its inputs as written except thd, which is
+// only the bound the figure is held to. The stage's name and place are
+// left out: equal inputs simulate alike.
+func simKeyOf(p *Plan, s *Stage) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%v|%v|%s", figureKeyOf(p), p.Rails, s.Kind)
+	writeValues(&b, s, "thd")
 	return b.String()
 }
 
@@ -217,11 +248,7 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) err
 			} else {
 				clear(g.have)
 			}
-			g.nsim, g.sims, g.simFigs, g.simulated = 0, nil, nil, nil
-			if k := plan.Stages[i].simulatedChecks(); k > 0 {
-				g.nsim, g.sims, g.simulated = k, make([]groupSum, n), make([]bool, n)
-				g.simFigs = make([]Figure, n*k)
-			}
+			g.resetSims(plan, st, &plan.Stages[i], n)
 		}
 		if !g.all {
 			redo = append(redo, i)
@@ -270,6 +297,26 @@ func (in *Incremental) evaluate(ctx context.Context, plan *Plan, every bool) err
 		}
 	}
 	return in.simulate(ctx, plan) // the simulations finished are kept
+}
+
+// resetSims readies the group's simulated checks for a new stage key:
+// every part's sum is to be judged again, and the figures are kept when
+// the simulations they came from read the same inputs (simKeyOf) and the
+// stage has as many simulated checks, else dropped. st is the stage's
+// inputs (only its name and kind when sp.Stage is nil).
+func (g *stageGroup) resetSims(plan *Plan, st *Stage, sp *StagePlan, n int) {
+	k := sp.simulatedChecks()
+	if k == 0 {
+		g.nsim, g.sims, g.simFigs, g.simulated, g.simKey, g.figHave = 0, nil, nil, nil, "", nil
+		return
+	}
+	key := simKeyOf(plan, st)
+	if sp.Stage == nil || k != g.nsim || key != g.simKey || len(g.figHave) != n {
+		// A stage without its inputs (a plan not from Derive) keeps nothing.
+		g.simFigs, g.figHave = make([]Figure, n*k), make([]bool, n)
+	}
+	g.nsim, g.simKey = k, key
+	g.sims, g.simulated = make([]groupSum, n), make([]bool, n)
 }
 
 // result assembles the summary result of part k from the kept groups,
@@ -463,7 +510,8 @@ func inParallel(ctx context.Context, n int, work func(lo, hi int)) error {
 }
 
 // lendSims puts the figures of the simulations kept from earlier plans
-// into plan's memo, so that Explain on plan finds them.
+// into plan's memo, so that Explain on plan finds them and the second pass
+// judges them without simulating again.
 func (in *Incremental) lendSims(plan *Plan) {
 	if plan.sims == nil {
 		return
@@ -474,7 +522,7 @@ func (in *Incremental) lendSims(plan *Plan) {
 			continue
 		}
 		sp := &plan.Stages[i]
-		for k, done := range st.simulated {
+		for k, done := range st.figHave {
 			if !done {
 				continue
 			}
@@ -548,7 +596,7 @@ func (in *Incremental) simulate(ctx context.Context, plan *Plan) error {
 							j++
 						}
 					}
-					st.simulated[k] = true
+					st.simulated[k], st.figHave[k] = true, true
 				}
 			}
 		})

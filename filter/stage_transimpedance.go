@@ -36,12 +36,18 @@ func init() { register(transimpedanceTemplate{}) }
 //
 //	input_range     the point ref (the inputs sit at ref)
 //	output_range    ref … ref ± i_max·Rf
-//	gbw             the GBW at which the maximally flat response (Q = 1/√2, Butterworth)
-//	                with its Cf = circuit.FeedbackCapForTIAFlat in the loop reaches f
-//	                (circuit.GBWForTIA; Cin including the part's own cin); each
-//	                candidate's check carries its own Cf (Aside "cf")
+//	gbw             the worst-case GBW at which the response with its Cf in the loop
+//	                reaches f on every GBW from that worst case up to the part's
+//	                typical (circuit.GBWForTIAFitted; Cin including the part's own
+//	                cin), Cf the smallest without peaking over that span
+//	                (circuit.FeedbackCapForTIASpan: in the usual stage the maximally
+//	                flat Cf, Q = 1/√2, at the worst case): a per-part need
+//	                (Requirement.Need), as the amplifier's gbw with its Aol. Each
+//	                candidate's check carries that Cf (Aside "cf"); the floor with no
+//	                spread is circuit.GBWForTIA
 //	noise           with noise: output noise of en (gain peaking 1 + Cin/Cf), in and
-//	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed
+//	                the thermal noise of Rf and shunt_r (circuit.TIANoise) ≤ allowed,
+//	                with the same Cf on the part's typical (fastest credible) GBW
 //	slew            0.8·i_max·Rf/(0.35/f): the full step within the rise time the
 //	                bandwidth sets
 //	output_current  i_max + i_max·Rf/load_r
@@ -78,8 +84,11 @@ func (transimpedanceTemplate) Params() []Param {
 
 // Notes of the transimpedance gbw check.
 const (
-	noteTIACin   = "GBW scaled by the need at cin/the need at cin + part cin: the part's own input capacitance adds to the detector's"
+	noteTIACin   = "the need counts the part cin beside the stage's: the part's own input capacitance adds to the detector's"
 	noteTIANoCin = "the catalog gives no input capacitance; only the stage's cin is counted"
+	// noteTIAFitted says which Cf the check judges and why the need can
+	// exceed the derived floor.
+	noteTIAFitted = "Cf is fitted maximally flat at the worst-case GBW (or, where a faster part would then peak, to the smallest Cf without peaking up to the typical GBW); the bandwidth holds only near the GBW it was fitted at (with the same Cf a faster part is overdamped and slower, up to −29 %), so the need covers the part's GBW up to its typical"
 )
 
 // tia is a transimpedance stage's circuit values.
@@ -139,16 +148,17 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		Why: fmt.Sprintf("ref … ref %s i_max·Rf = %s … %s %s %s·%s", sign, V(ref), V(ref), sign, I, Ohm(t.rf))})
 	gbw := circuit.GBWForTIA(t.rf, t.cin, t.f)
 	cf := circuit.FeedbackCapForTIAFlat(t.rf, t.cin, gbw)
-	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out",
+	gwhy := fmt.Sprintf("maximally flat (Q = 1/√2) with Cf in the loop: f = √(GBW/(2π·Rf·(Cin + Cf))) = %s with Rf = %s, Cin = %s (+ the part's own cin), Cf = %s; the shortcut 2π·Rf·Cin·f² = %s leaves Cf out; per part more, when its typical GBW is above the worst case (the Cf fitted there is slower on it)",
 		Hz, Ohm(t.rf), F(t.cin), F(cf), catalog.Format(circuit.GBWForTIANoCf(t.rf, t.cin, t.f), catalog.Hertz))
 	tc := t
 	add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: gbw, Dim: catalog.Hertz,
-		Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaGBW(part, f, tc, gbw) },
+		Need: func(part *catalog.Part, f *PartFigures) (float64, string) { return tiaGBWNeed(part, f, tc, gbw) },
 		Aside: func(part *catalog.Part, f *PartFigures) Aside {
-			if !f.GBW.Known || !(f.GBW.V > 0) {
+			cf, _, ok := tiaFitCf(tc.rf, tc.cin, part, f)
+			if !ok {
 				return Aside{}
 			}
-			return Aside{Kind: AsideCf, V: circuit.FeedbackCapForTIAFlat(tc.rf, tc.cin+partCin(part), f.GBW.V)}
+			return Aside{Kind: AsideCf, V: cf}
 		},
 		Why: gwhy})
 	add(Requirement{Key: KeySlew, Bound: BoundMin, Value: circuit.SlewForStep(vo, sp.Rise), Dim: catalog.VoltPerSecond,
@@ -175,7 +185,7 @@ func (transimpedanceTemplate) Derive(in *StageInput, p *Plan) (StagePlan, error)
 		temp := p.TempHigh
 		add(Requirement{Key: KeyNoise, Bound: BoundMax, Value: v, Dim: catalog.Volt,
 			Measure: func(part *catalog.Part, f *PartFigures) Figure { return tiaNoise(part, f, tc, temp, band, order) },
-			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), flat Cf per part, T = %.4g K, %s",
+			Why: fmt.Sprintf("√∫(en²·|1 + Zf/Zin|² + (in² + 4kT/Rf + 4kT/shunt_r)·|Zf|²)·|loop|² df ≤ %s rms: en sees the gain peaking 1 + Cin/Cf, Rf = %s, Cin = %s (+ part cin), the gbw check's Cf per part on its typical GBW, T = %.4g K, %s",
 				V(v), Ohm(t.rf), F(t.cin), circuit.KelvinFromCelsius(temp), tiaBandText(band, order))})
 	}
 	return sp, nil
@@ -190,38 +200,42 @@ func partCin(p *catalog.Part) float64 {
 }
 
 // tiaNoise is the transimpedance output noise on a part: its worst-case en
-// and in (with their 1/f corners when given), its largest credible GBW
-// (GBWHigh: more GBW widens the band and, with a smaller flat Cf, the
-// gain peaking) and the flat Cf that GBW needs.
+// and in (with their 1/f corners when given), on the circuit the user is
+// told to build — tiaFitCf, the gbw check's "cf" — with the op-amp at its
+// largest credible GBW (tiaFastGBW: with Cf fixed, more GBW carries the
+// en·Cin gain peaking further up, so more noise).
 func tiaNoise(p *catalog.Part, f *PartFigures, t tia, tempC, band float64, order int) Figure {
-	if !f.En.Known || !f.In.Known || !f.GBWHigh.Known || !(f.GBWHigh.V > 0) {
+	cf, cin, ok := tiaFitCf(t.rf, t.cin, p, f)
+	if !f.En.Known || !f.In.Known || !ok {
 		return Figure{}
 	}
-	cin := t.cin + partCin(p)
-	g := f.GBWHigh.V
 	n := circuit.TIANoise{En: f.En.V, In: f.In.V, EnCorner: p.EnCorner.V(), InCorner: p.InCorner.V(),
-		Rf: t.rf, Cf: circuit.FeedbackCapForTIAFlat(t.rf, cin, g), Cin: cin, Rsh: t.rsh, GBW: g,
+		Rf: t.rf, Cf: cf, Cin: cin, Rsh: t.rsh, GBW: tiaFastGBW(f),
 		TempK: circuit.KelvinFromCelsius(tempC), Band: band, Order: order}
-	basis := weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis)
+	basis := weaker(weaker(weaker(f.En.Basis, f.In.Basis), f.GBWHigh.Basis), f.GBW.Basis)
 	return Figure{V: n.OutputRMS(), Known: true, Basis: basis, Note: f.En.Note}
 }
 
-// tiaGBW is the part's GBW scaled by need/need', need the stage's
-// requirement at the stage's cin and need' the requirement with the
-// part's own cin added (circuit.GBWForTIA both), so that the check's margin
-// is GBW/need' − 1.
-func tiaGBW(p *catalog.Part, f *PartFigures, t tia, need float64) Figure {
-	g := f.GBW
-	if !g.Known {
-		return g
+// tiaGBWNeed is the worst-case GBW the part needs
+// (circuit.GBWForTIAFitted): the response with the Cf fitted as tiaFitCf
+// fits it reaches the bandwidth at the stage's cin plus the part's own, on
+// any GBW from the worst case up to the typical (the spread GBWHigh/GBW).
+// Without a GBW figure the spread is 1 and the check is unknown anyway.
+// floor is the need at the stage's cin with no spread (the requirement's
+// Value), which a part without cin and spread needs, unsolved again.
+func tiaGBWNeed(p *catalog.Part, f *PartFigures, t tia, floor float64) (float64, string) {
+	spread := 1.0
+	if f.GBW.Known && f.GBW.V > 0 {
+		spread = tiaFastGBW(f) / f.GBW.V
 	}
-	if c := partCin(p); c > 0 {
-		g.V *= need / circuit.GBWForTIA(t.rf, t.cin+c, t.f)
-		g.Note = noteTIACin
-	} else {
-		g.Note = noteTIANoCin
+	c := partCin(p)
+	if c > 0 {
+		return circuit.GBWForTIAFitted(t.rf, t.cin+c, t.f, spread), noteTIAFitted + "; " + noteTIACin
 	}
-	return g
+	if spread == 1 {
+		return floor, noteTIAFitted + "; " + noteTIANoCin
+	}
+	return circuit.GBWForTIAFitted(t.rf, t.cin, t.f, spread), noteTIAFitted + "; " + noteTIANoCin
 }
 
 // tiaDCError is Vos·NG + (Ib + Ios/2)·Rf with worst-case figures: the
@@ -244,24 +258,49 @@ func tiaDCError(f *PartFigures, rf, ng float64) Figure {
 	return Figure{V: ng*f.Vos.V + ib*rf, Known: true, Basis: basis, Note: note}
 }
 
-// tiaFeedbackCap returns the feedback capacitor that makes a
-// transimpedance stage maximally flat on a part with worst-case figures f:
-// circuit.FeedbackCapForTIAFlat with the stage's cin plus the part's own
-// input capacitance (when the catalog gives it) and the part's worst-case
-// GBW; bw is the −3 dB bandwidth it then reaches (circuit.TIAResponse and
-// LowPass2Bandwidth, = circuit.BandwidthTIA).
-// ok is false when sp is not a derived transimpedance stage or the GBW is
-// unknown.
+// tiaFitCf is the feedback capacitor the user is told to fit on part p
+// with worst-case figures f (the gbw check's "cf"), and the total input
+// capacitance it was fitted with (the stage's cin plus the part's own):
+// the smallest Cf that keeps the response free of peaking on every GBW
+// from the part's worst case up to its typical
+// (circuit.FeedbackCapForTIASpan) — in the usual stage the maximally flat
+// Cf at the worst-case GBW. ok is false without a GBW figure.
+func tiaFitCf(rf, cin float64, p *catalog.Part, f *PartFigures) (cf, cinTotal float64, ok bool) {
+	if !f.GBW.Known || !(f.GBW.V > 0) {
+		return 0, 0, false
+	}
+	cinTotal = cin + partCin(p)
+	return circuit.FeedbackCapForTIASpan(rf, cinTotal, f.GBW.V, tiaFastGBW(f)), cinTotal, true
+}
+
+// tiaFastGBW is the part's largest credible GBW: the typical (GBWHigh)
+// when it is above the worst case, else the worst case.
+func tiaFastGBW(f *PartFigures) float64 {
+	if f.GBWHigh.Known && f.GBWHigh.V > f.GBW.V {
+		return f.GBWHigh.V
+	}
+	return f.GBW.V
+}
+
+// tiaFeedbackCap returns the feedback capacitor the user is told to fit on
+// a part with worst-case figures f (tiaFitCf) and the −3 dB bandwidth it
+// gives at the part's worst-case GBW (circuit.TIAResponse and
+// LowPass2Bandwidth; = circuit.BandwidthTIA where that Cf is the flat
+// one). ok is false when sp is not a derived transimpedance stage or the
+// GBW is unknown.
 func tiaFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw float64, ok bool) {
-	if sp == nil || sp.Kind != "transimpedance" || !f.GBW.Known || !(f.GBW.V > 0) {
+	if sp == nil || sp.Kind != "transimpedance" {
 		return 0, 0, false
 	}
 	v, err := sp.values("rf", "cin")
 	if err != nil {
 		return 0, 0, false
 	}
-	rf, cin := v[0], v[1]+partCin(part)
-	cf = circuit.FeedbackCapForTIAFlat(rf, cin, f.GBW.V)
+	rf := v[0]
+	cf, cin, ok := tiaFitCf(rf, v[1], part, f)
+	if !ok {
+		return 0, 0, false
+	}
 	f0, q := circuit.TIAResponse(rf, cin, cf, f.GBW.V)
 	bw = circuit.LowPass2Bandwidth(f0, q)
 	if math.IsNaN(bw) {
@@ -270,9 +309,9 @@ func tiaFeedbackCap(sp *StagePlan, part *catalog.Part, f *PartFigures) (cf, bw f
 	return cf, bw, true
 }
 
-// circuit is the stage with the Cf a maximally flat response needs on the
-// part's worst-case GBW (tiaFeedbackCap: the circuit as it would be built
-// for the part; a typical run keeps it), driven by a light step of i_max
+// circuit is the stage with the Cf the user is told to fit
+// (tiaFeedbackCap: the circuit as it would be built for the part; a
+// typical run keeps it), driven by a light step of i_max
 // shown over tiaStepRises rise times of the stage's bandwidth, so that
 // parts share one time axis and a slow part is seen not to settle in time.
 func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *PartFigures) (StageCircuit, error) {
@@ -282,7 +321,7 @@ func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *Part
 	}
 	rf, cin, imax := v[0], v[1], v[2]
 	bw := sp.Freq
-	cf, _, ok := tiaFeedbackCap(sp, part, f)
+	cf, fit, ok := tiaFeedbackCap(sp, part, f)
 	if !ok {
 		return StageCircuit{}, fmt.Errorf("stage %q: part %q: no feedback capacitor can be chosen without a gbw figure", sp.Name, part.ID)
 	}
@@ -299,7 +338,28 @@ func (transimpedanceTemplate) circuit(sp *StagePlan, part *catalog.Part, f *Part
 		Notes: []string{
 			fmt.Sprintf("driven by a light step 0 … %s at %s, shown over %d rise times of the %s bandwidth; \"in\" is the photocurrent, A",
 				catalog.Format(imax, catalog.Ampere), catalog.Format(tiaStepAt*dur, catalog.Second), tiaStepRises, catalog.Format(bw, catalog.Hertz)),
-			fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw with Cin = %s", catalog.Format(cf, catalog.Farad), catalog.Format(cin, catalog.Farad)),
+			tiaFitNote(rf, cin, cf, fit, f),
 		},
 	}, nil
+}
+
+// tiaFitNote says which Cf the stage is built with and that its bandwidth
+// (fit, at the worst-case GBW) holds only near the GBW it was fitted at,
+// with the bandwidth the same Cf gives at the typical GBW when that is
+// higher.
+func tiaFitNote(rf, cin, cf, fit float64, f *PartFigures) string {
+	Hz := func(x float64) string { return catalog.Format(x, catalog.Hertz) }
+	F := func(x float64) string { return catalog.Format(x, catalog.Farad) }
+	fast := tiaFastGBW(f)
+	if !(fast > f.GBW.V) {
+		return fmt.Sprintf("Cf = %s, maximally flat at the part's worst-case gbw %s with Cin = %s: bandwidth %s; it holds only near that gbw (with the same Cf a faster part is overdamped and slower)",
+			F(cf), Hz(f.GBW.V), F(cin), Hz(fit))
+	}
+	at := circuit.LowPass2Bandwidth(circuit.TIAResponse(rf, cin, cf, fast))
+	sign := "+"
+	if at < fit {
+		sign = "−"
+	}
+	return fmt.Sprintf("Cf = %s, the smallest without peaking from the part's worst-case gbw %s to its typical %s, with Cin = %s: bandwidth %s at the worst case, %s at the typical (%s%.1f %%); it holds only near the gbw Cf was fitted at",
+		F(cf), Hz(f.GBW.V), Hz(fast), F(cin), Hz(fit), Hz(at), sign, math.Abs(100*(at/fit-1)))
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"sync"
+	"sync/atomic"
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter/sim"
@@ -86,6 +87,7 @@ func thdRequirement(v float64) Requirement {
 // THD the model measures, basis BasisSimulated. It is not Known when the
 // part lacks a figure the model needs or the model cannot run it.
 func simulatedTHD(plan *Plan, sp *StagePlan, p *catalog.Part, f *PartFigures) Figure {
+	simRuns.Add(1)
 	if sp == nil || !f.GBW.Known || !f.Slew.Known {
 		return Figure{Note: noteTHDNoFigures}
 	}
@@ -112,6 +114,10 @@ func simulatedTHD(plan *Plan, sp *StagePlan, p *catalog.Part, f *PartFigures) Fi
 	}
 	return fig
 }
+
+// simRuns counts the calls of simulatedTHD, so that tests can tell which
+// edits simulate again.
+var simRuns atomic.Int64
 
 // SimulatedTHD is the thd check's measurement of part p in the stage of
 // plan named stage: the THD the time-domain model measures at worst-case

@@ -3,6 +3,7 @@ package filter_test
 import (
 	"context"
 	"fmt"
+	"io/fs"
 	"math"
 	"os"
 	"os/exec"
@@ -13,8 +14,10 @@ import (
 	"testing"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/internal/fourier"
+	"github.com/opsift/opsift/internal/gencat"
 )
 
 // thdDesign is a ±15 V follower design driven with a sine of peak vp at
@@ -284,6 +287,155 @@ func TestIncrementalRankTHD(t *testing.T) {
 	for _, r := range ranking.Passing {
 		if r.Part.ID == "noswing" {
 			t.Errorf("noswing passes Rank though its simulated THD exceeds 1 %%")
+		}
+	}
+}
+
+// rankCounting derives d, ranks it on in by margin and returns the plan,
+// the ranking and how many thd simulations the ranking ran.
+func rankCounting(t *testing.T, in *filter.Incremental, d *filter.Design) (*filter.Plan, *filter.Ranking, int64) {
+	t.Helper()
+	plan, err := filter.Derive(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before := filter.SimRuns()
+	ranking, err := in.Rank(context.Background(), plan, filter.SortMargin)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return plan, ranking, filter.SimRuns() - before
+}
+
+// TestIncrementalKeepsSimulations: an edit that cannot change a
+// simulation — another stage's field, a [choose] filter, the thd
+// allowance itself — runs no simulation again, and the results stay those
+// of a full evaluation (the kept figures judged against the new
+// allowance: in the clipping design the part without swing figures, at
+// 8.95 % simulated THD, passes at 10 % and fails at 5 %); an edit of what
+// the thd stage simulates (its signal, the rails) runs one simulation per
+// part that passes the closed-form checks.
+func TestIncrementalKeepsSimulations(t *testing.T) {
+	raw, err := fs.ReadFile(data.Designs, data.DefaultDesign)
+	if err != nil {
+		t.Fatal(err)
+	}
+	noswing := fastPart("noswing", 1e9, 0)
+	noswing.Output, noswing.InputCM = catalog.Swing{}, catalog.Headroom{}
+	type step struct {
+		path, raw string
+		simulate  bool
+	}
+	for _, sc := range []struct {
+		name   string
+		design string
+		parts  []*catalog.Part
+		steps  []step
+	}{
+		{"demo design, 400 generated parts", string(raw), gencat.Parts(400, 3), []step{
+			{"stage.gain.thd", "1 %", true}, // the first evaluation simulates every passing part
+			{"stage.buffer.load_r", "39 kOhm", false},
+			{"stage.gain.thd", "0.5 %", false},
+			{"choose.max_unit_cost", "1.5", false}, // fewer candidates: none new
+			{"stage.gain.signal.freq", "20 kHz", true},
+			{"stage.gain.thd", "2 %", false},
+			{"supply.tolerance", "4 %", true},
+		}},
+		{"clipping follower", thdDesign("6 V", "1 kHz", "5 V", "thd = \"10 %\"\n[[stage]]\nname = \"other\"\nkind = \"follower\"\n"+
+			"signal = { shape = \"sine\", peak = \"1 V\", freq = \"1 kHz\" }"),
+			[]*catalog.Part{fastPart("fast", 1e9, 0.5), noswing}, []step{
+				{"", "", true},
+				{"stage.amp.thd", "5 %", false},
+				{"stage.other.signal.peak", "0.5 V", false},
+				{"stage.amp.thd", "10 %", false},
+				{"stage.amp.signal.freq", "2 kHz", true},
+			}},
+	} {
+		t.Run(sc.name, func(t *testing.T) {
+			d, err := filter.DecodeDesign("t.toml", []byte(sc.design))
+			if err != nil {
+				t.Fatal(err)
+			}
+			in := filter.NewIncremental(sc.parts, filter.Options{Summary: true})
+			for i, tc := range sc.steps {
+				if tc.path != "" {
+					if err := d.Set(tc.path, tc.raw); err != nil {
+						t.Fatal(err)
+					}
+				}
+				plan, ranking, ran := rankCounting(t, in, d)
+				full := filter.Evaluate(plan, sc.parts, filter.Options{Summary: true})
+				// The parts that pass every closed-form check: a full
+				// evaluation with its checks kept, every check but thd
+				// passing.
+				closed := 0
+				for _, r := range filter.Evaluate(plan, sc.parts, filter.Options{}) {
+					ok := true
+					for _, c := range r.Checks {
+						if c.Req.Key != filter.KeyTHD && c.Status == filter.StatusFail {
+							ok = false
+						}
+					}
+					if ok {
+						closed++
+					}
+				}
+				switch {
+				case tc.simulate && ran != int64(closed):
+					t.Errorf("step %d (%s = %s): %d simulations, want one per part passing the closed-form checks, %d", i, tc.path, tc.raw, ran, closed)
+				case !tc.simulate && ran != 0:
+					t.Errorf("step %d (%s = %s): %d simulations, want none", i, tc.path, tc.raw, ran)
+				}
+				filter.Rank(full, filter.SortMargin)
+				pass := 0
+				for pass < len(full) && full[pass].Pass {
+					pass++
+				}
+				sameResults(t, i, ranking.Passing, full[:pass])
+				all, err := ranking.All(context.Background())
+				if err != nil {
+					t.Fatal(err)
+				}
+				sameResults(t, i, all, full)
+				t.Logf("step %d: %s = %s: %d simulations, %d of %d closed-form passing parts pass", i, tc.path, tc.raw, ran, pass, closed)
+			}
+		})
+	}
+}
+
+// TestIncrementalKeptTHDAtTheEdge: the kept THD figure of the clipping
+// part (8.95 %, TestTHDRejects) judged against an allowance of exactly that
+// figure passes (pass at the limit), and against one a millionth below it
+// fails, without simulating again; a full evaluation agrees each time.
+func TestIncrementalKeptTHDAtTheEdge(t *testing.T) {
+	noswing := fastPart("noswing", 1e9, 0)
+	noswing.Output, noswing.InputCM = catalog.Swing{}, catalog.Headroom{}
+	parts := []*catalog.Part{noswing}
+	d, plan := mustDesign(t, thdDesign("6 V", "1 kHz", "5 V", `thd = "10 %"`))
+	thd, err := filter.SimulatedTHD(plan, "amp", noswing)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := filter.NewIncremental(parts, filter.Options{})
+	if _, err := in.Rank(context.Background(), plan, filter.SortMargin); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		allowed float64
+		pass    bool
+	}{{thd, true}, {thd * (1 - 1e-6), false}} {
+		if err := d.Set("stage.amp.thd", catalog.Exact(tc.allowed, catalog.Ratio)); err != nil {
+			t.Fatal(err)
+		}
+		plan, ranking, ran := rankCounting(t, in, d)
+		if ran != 0 {
+			t.Errorf("allowed %g: %d simulations, want none", tc.allowed, ran)
+		}
+		if got := len(ranking.Passing) == 1; got != tc.pass {
+			t.Errorf("allowed %g against %g: passes %v, want %v", tc.allowed, thd, got, tc.pass)
+		}
+		if full := filter.Evaluate(plan, parts, filter.Options{})[0]; full.Pass != tc.pass {
+			t.Errorf("allowed %g: the full evaluation passes %v, want %v", tc.allowed, full.Pass, tc.pass)
 		}
 	}
 }

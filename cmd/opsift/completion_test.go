@@ -77,32 +77,56 @@ func TestCandidates(t *testing.T) {
 	}
 }
 
-// TestCompletionScripts: each script parses in its shell (zsh and fish
-// only where installed; CI has bash), and the bash one, run against this
-// binary as opsift, completes a format, a stage and a file name.
+// completionShell is how a test drives one shell's completion script:
+// the syntax check (bash -n, zsh -n, fish --no-execute), a line that breaks
+// the syntax (so the check is seen to fail), and a script that completes
+// LINE — the words, the last being completed — after sourcing FILE and
+// prints the candidates, one a line or space-separated.
+type completionShell struct {
+	syntax   []string // FILE stands for the script's path
+	broken   string
+	complete []string // LINE and FILE are substituted
+}
+
+// completionShells are the three shells. zsh runs without its completion
+// system (zsh -f): compadd and _files are stubbed to print what they are
+// given, and words/CURRENT are set as the completion system sets them.
+var completionShells = map[string]completionShell{
+	"bash": {
+		syntax: []string{"bash", "-n", "FILE"},
+		broken: "if true; then",
+		complete: []string{"bash", "-c", `source FILE
+COMP_WORDS=(LINE)
+COMP_CWORD=$((${#COMP_WORDS[@]} - 1))
+_opsift
+echo "${COMPREPLY[*]}"`},
+	},
+	"zsh": {
+		syntax: []string{"zsh", "-n", "FILE"},
+		broken: "if [[ x",
+		complete: []string{"zsh", "-f", "-c", `compadd() { print -r -- "${@[2,-1]}" }
+_files() { print -r -- "(_files $*)" }
+compdef() { : }
+source FILE
+words=(LINE)
+CURRENT=${#words}
+_opsift`},
+	},
+	"fish": {
+		syntax: []string{"fish", "--no-execute", "FILE"},
+		broken: "function broken",
+		complete: []string{"fish", "--no-config", "-c", `source FILE
+complete -C 'LINE'`},
+	},
+}
+
+// TestCompletionScripts: each script passes its shell's syntax check
+// (a broken copy fails it), and, run against this binary as opsift,
+// completes a format, a stage, a file name and a command. A shell that is
+// not installed is skipped here; .ci/run installs zsh and fish, so CI runs
+// all three.
 func TestCompletionScripts(t *testing.T) {
 	dir := t.TempDir()
-	for _, sh := range shells {
-		r := runOpsift(t, nil, "completion", sh)
-		if r.code != 0 || !strings.Contains(r.stdout, "opsift "+candidatesCmd+" --") {
-			t.Fatalf("%s: exit %d, script does not call back:\n%s", sh, r.code, r.stdout)
-		}
-		file := filepath.Join(dir, "opsift."+sh)
-		if err := os.WriteFile(file, []byte(r.stdout), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		check := map[string][]string{"bash": {"bash", "-n", file}, "zsh": {"zsh", "-n", file}, "fish": {"fish", "--no-execute", file}}[sh]
-		if _, err := exec.LookPath(check[0]); err != nil {
-			t.Logf("%s not installed: its script is not syntax-checked", sh)
-			continue
-		}
-		if out, err := exec.Command(check[0], check[1:]...).CombinedOutput(); err != nil {
-			t.Errorf("%s -n: %v\n%s", sh, err, out)
-		}
-	}
-	if _, err := exec.LookPath("bash"); err != nil {
-		t.Skip("no bash to run the completion in")
-	}
 	self, err := os.Executable()
 	if err != nil {
 		t.Fatal(err)
@@ -117,31 +141,81 @@ func TestCompletionScripts(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(dir, "parts-a.toml"), nil, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	for _, tc := range []struct {
-		line string // the words, the last being completed
-		want string
-	}{
-		{`opsift rank --format j`, "json"},
-		{`opsift preview --stage ""`, "gain buffer"},
-		{`opsift rank --catalog parts-`, "parts-a.toml"},
-		{`opsift comp`, "compare completion"},
-	} {
-		script := `source ` + filepath.Join(dir, "opsift.bash") + `
-COMP_WORDS=(` + tc.line + `)
-COMP_CWORD=$((${#COMP_WORDS[@]} - 1))
-_opsift
-echo "${COMPREPLY[*]}"`
-		cmd := exec.Command("bash", "-c", script)
-		cmd.Dir = dir
-		cmd.Env = []string{"PATH=" + bin + ":/usr/bin:/bin", "OPSIFT_TEST_AS_OPSIFT=1", "HOME=" + dir, "XDG_CACHE_HOME=" + dir}
-		out, err := cmd.CombinedOutput()
-		if err != nil {
-			t.Errorf("%s: %v\n%s", tc.line, err, out)
-			continue
-		}
-		if got := strings.TrimSpace(string(out)); got != tc.want {
-			t.Errorf("%s: bash completes %q, want %q", tc.line, got, tc.want)
-		}
+	for _, sh := range shells {
+		t.Run(sh, func(t *testing.T) {
+			cs, ok := completionShells[sh]
+			if !ok {
+				t.Fatalf("no test driver for shell %q", sh)
+			}
+			r := runOpsift(t, nil, "completion", sh)
+			if r.code != 0 || !strings.Contains(r.stdout, "opsift "+candidatesCmd+" --") {
+				t.Fatalf("exit %d, script does not call back:\n%s", r.code, r.stdout)
+			}
+			if _, err := exec.LookPath(cs.syntax[0]); err != nil {
+				t.Skipf("%s not installed (.ci/run installs it)", sh)
+			}
+			file := filepath.Join(dir, "opsift."+sh)
+			bad := filepath.Join(dir, "broken."+sh)
+			if err := os.WriteFile(file, []byte(r.stdout), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			if err := os.WriteFile(bad, []byte(r.stdout+cs.broken+"\n"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			run := func(argv []string, line, file string) (string, error) {
+				args := make([]string, len(argv))
+				for i, a := range argv {
+					args[i] = strings.NewReplacer("FILE", file, "LINE", line).Replace(a)
+				}
+				cmd := exec.Command(args[0], args[1:]...)
+				cmd.Dir = dir
+				cmd.Env = []string{"PATH=" + bin + ":/usr/bin:/bin", "OPSIFT_TEST_AS_OPSIFT=1", "HOME=" + dir, "XDG_CACHE_HOME=" + dir,
+					"XDG_CONFIG_HOME=" + dir, "XDG_DATA_HOME=" + dir}
+				out, err := cmd.CombinedOutput()
+				return string(out), err
+			}
+			if out, err := run(cs.syntax, "", file); err != nil {
+				t.Errorf("syntax check: %v\n%s", err, out)
+			}
+			if out, err := run(cs.syntax, "", bad); err == nil {
+				t.Errorf("syntax check passes a script ending in %q:\n%s", cs.broken, out)
+			}
+			for _, tc := range []struct {
+				line string // the words, the last being completed
+				want string
+			}{
+				{`opsift rank --format j`, "json"},
+				{`opsift preview --stage ""`, "buffer gain"},
+				{`opsift rank --catalog parts-`, "parts-a.toml"},
+				{`opsift comp`, "compare completion"},
+			} {
+				line := tc.line
+				if sh == "fish" {
+					// fish completes what follows the last space.
+					line = strings.TrimSuffix(line, `""`)
+				}
+				out, err := run(cs.complete, line, file)
+				if err != nil {
+					t.Errorf("%s: %v\n%s", tc.line, err, out)
+					continue
+				}
+				// fish sorts the candidates; compare them as sets.
+				fields := strings.Fields(out)
+				slices.Sort(fields)
+				got := strings.Join(fields, " ")
+				if sh == "zsh" && tc.want == "parts-a.toml" {
+					// zsh's own _files lists the names; the script hands over.
+					got = strings.TrimSpace(out)
+					if got != "(_files )" {
+						t.Errorf("%s: zsh runs %q, want _files", tc.line, got)
+					}
+					continue
+				}
+				if got != tc.want {
+					t.Errorf("%s: %s completes %q, want %q", tc.line, sh, got, tc.want)
+				}
+			}
+		})
 	}
 }
 

@@ -1,16 +1,12 @@
 package circuit
 
 import (
-	"context"
 	"fmt"
 	"math"
-	"os"
-	"os/exec"
-	"path/filepath"
 	"regexp"
-	"strconv"
 	"testing"
-	"time"
+
+	"github.com/opsift/opsift/internal/spicerun"
 )
 
 // gainDeck is an ngspice AC deck of a non-inverting stage of noise gain ng
@@ -46,8 +42,7 @@ var spiceRatio = regexp.MustCompile(`vm\(out\)/\S+ = (\S+)`)
 // ngspice-39 on the same deck; with ngspice on PATH the test runs it live,
 // without it the closed form is held to the recorded ratios.
 func TestGainErrorBudgetAgainstNgspice(t *testing.T) {
-	_, errLook := exec.LookPath("ngspice")
-	live := errLook == nil
+	live := spicerun.Installed()
 	for _, tc := range []struct {
 		name       string
 		ng, f, eps float64
@@ -86,27 +81,7 @@ func TestGainErrorBudgetAgainstNgspice(t *testing.T) {
 // runGainDeck runs ngspice -b on deck and returns the ratio it prints.
 func runGainDeck(t *testing.T, deck string) float64 {
 	t.Helper()
-	dir := t.TempDir()
-	if err := os.WriteFile(filepath.Join(dir, "ge.cir"), []byte(deck), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
-	defer cancel()
-	cmd := exec.CommandContext(ctx, "ngspice", "-b", "ge.cir")
-	cmd.Dir = dir
-	out, err := cmd.CombinedOutput()
-	if err != nil {
-		t.Fatalf("ngspice: %v\n%s", err, out)
-	}
-	m := spiceRatio.FindSubmatch(out)
-	if m == nil {
-		t.Fatalf("no ratio in the ngspice output:\n%s", out)
-	}
-	v, err := strconv.ParseFloat(string(m[1]), 64)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
+	return spicerun.Value(t, deck, spiceRatio)
 }
 
 // TestGBWForOwnAolAgainstNgspice: a single-pole op-amp whose Aol is its
@@ -114,8 +89,7 @@ func runGainDeck(t *testing.T, deck string) float64 {
 // exactly GBWForGainError with that Aol errs by exactly ε in ngspice; 0.5 %
 // less GBW errs by more. Recorded ratios from ngspice-39 as above.
 func TestGBWForOwnAolAgainstNgspice(t *testing.T) {
-	_, errLook := exec.LookPath("ngspice")
-	live := errLook == nil
+	live := spicerun.Installed()
 	for _, tc := range []struct {
 		name            string
 		ng, f, eps, aol float64

@@ -18,20 +18,28 @@ import "math"
 // GBWForTIA returns the gain-bandwidth a transimpedance stage needs for a
 // maximally flat (Butterworth, Q = 1/√2) response whose −3 dB bandwidth is
 // f, with the matching feedback capacitor FeedbackCapForTIAFlat in the
-// loop: the GBW at which BandwidthTIA equals f, found by Newton's method
-// inside a bisection bracket (the bandwidth rises monotonically with GBW). The shortcut 2π·Rf·Cin·f²,
-// which neglects Cf beside Cin, is its lower bound and falls short when
-// Cf is not ≪ Cin.
-func GBWForTIA(rf, cin, f float64) float64 {
-	// Newton's method on ln(bandwidth) against ln(GBW), kept inside a
-	// bracket [lo, hi] that bisection falls back to; the bandwidth grows
-	// as GBW^0.5…0.75, so a few steps reach full precision.
-	lo := GBWForTIANoCf(rf, cin, f) // BandwidthTIA(lo) ≤ f: Cf only lowers it
+// loop: the GBW at which BandwidthTIA equals f. It is GBWForTIAFitted with
+// no spread. The shortcut 2π·Rf·Cin·f², which neglects Cf beside Cin, is
+// its lower bound and falls short when Cf is not ≪ Cin.
+func GBWForTIA(rf, cin, f float64) float64 { return GBWForTIAFitted(rf, cin, f, 1) }
+
+// GBWForTIAFitted returns the smallest worst-case gain-bandwidth g for
+// which a transimpedance stage with the feedback capacitor fitted to the
+// GBW span [g, spread·g] (FeedbackCapForTIASpan) reaches the −3 dB
+// bandwidth f on every op-amp whose GBW lies in that span
+// (BandwidthTIAFitted), found by Newton's method on ln(bandwidth) against
+// ln(g) inside a bisection bracket (the bandwidth rises monotonically with
+// g). spread below 1 counts as 1.
+func GBWForTIAFitted(rf, cin, f, spread float64) float64 {
+	bw := func(g float64) float64 { return BandwidthTIAFitted(rf, cin, g, spread) }
+	// The bandwidth grows as g^0.5…0.75, so a few steps reach full
+	// precision.
+	lo := GBWForTIANoCf(rf, cin, f) // bw(lo) ≤ f: Cf only lowers it
 	hi := 2 * lo
-	for BandwidthTIA(rf, cin, hi) < f {
+	for bw(hi) < f {
 		lo, hi = hi, 2*hi
 	}
-	miss := func(g float64) float64 { return math.Log(BandwidthTIA(rf, cin, g) / f) }
+	miss := func(g float64) float64 { return math.Log(bw(g) / f) }
 	x := math.Log(hi)
 	for range 60 {
 		m := miss(math.Exp(x))
@@ -56,6 +64,40 @@ func GBWForTIA(rf, cin, f float64) float64 {
 		x = next
 	}
 	return math.Exp(x)
+}
+
+// BandwidthTIAFitted returns the least −3 dB bandwidth of a
+// transimpedance stage whose Cf is fitted to the GBW span [gbw,
+// spread·gbw] (FeedbackCapForTIASpan; spread below 1 counts as 1) when the
+// op-amp's actual gain-bandwidth lies anywhere in that span. With Cf fixed
+// the bandwidth holds only near the GBW it was fitted at: on a faster
+// op-amp it rises a little, then falls toward the feedback pole
+// 1/(2π·Rf·Cf), up to about 29 % lower (1 MΩ, 10 pF, Cf flat at 1 MHz:
+// −3.4 % at 2×, −15 % at 5×). The bandwidth has a single maximum over the
+// GBW, so the least value over the span is at one of its ends.
+func BandwidthTIAFitted(rf, cin, gbw, spread float64) float64 {
+	hi := gbw * max(spread, 1)
+	cf := FeedbackCapForTIASpan(rf, cin, gbw, hi)
+	b := LowPass2Bandwidth(TIAResponse(rf, cin, cf, gbw))
+	if hi > gbw {
+		b = math.Min(b, LowPass2Bandwidth(TIAResponse(rf, cin, cf, hi)))
+	}
+	return b
+}
+
+// FeedbackCapForTIASpan returns the smallest feedback capacitor that keeps
+// the transimpedance response free of peaking (Q ≤ 1/√2) on every op-amp
+// whose gain-bandwidth lies in [lo, hi]. Q falls as Cf grows (where a Cf
+// is needed at all, 2π·Rf·Cin·GBW > 1/2), so that is the largest flat Cf
+// over the span. FeedbackCapForTIAFlat, √(2·Cin·y − y²) with
+// y = 1/(Rf·ωT), is largest at y = Cin — at the GBW 1/(2π·Rf·Cin), where
+// it equals Cin — so the answer is the flat Cf at the GBW of the span
+// nearest that one. In the usual photodiode stage (2π·Rf·Cin·lo ≥ 1) it
+// is the flat Cf at lo, the worst case: a faster op-amp is then damped
+// further, never peaking.
+func FeedbackCapForTIASpan(rf, cin, lo, hi float64) float64 {
+	g := 1 / (2 * math.Pi * rf * cin)
+	return FeedbackCapForTIAFlat(rf, cin, min(max(g, lo), max(lo, hi)))
 }
 
 // GBWForTIANoCf returns the shortcut 2π·Rf·Cin·f², the GBW that would

@@ -124,3 +124,127 @@ func TestGBWForTIANoCf(t *testing.T) {
 		t.Error("need with Cf not above the shortcut")
 	}
 }
+
+// nodalF3 is the −3 dB bandwidth of the stage by nodal analysis
+// (tiaNodal), independent of TIAResponse and LowPass2Bandwidth; the
+// responses swept here have no peaking, so |Z| falls monotonically.
+func nodalF3(rf, cin, cf, gbw float64) float64 {
+	return bisectDown(func(x float64) float64 { return cmplx.Abs(tiaNodal(rf, cin, cf, gbw, x)) }, rf/math.Sqrt2, 1, 1e10)
+}
+
+// A Cf fitted flat at one GBW holds the bandwidth only near that GBW.
+// Rf 1 MΩ, Cin 10 pF, Cf fitted at 1 MHz (flat f3 116.25 kHz): on a part
+// 2× faster the nodal bandwidth is 3.42 % lower, 5× faster 14.71 % lower,
+// and far above it tends to the feedback pole 1/(2π·Rf·Cf) (by hand in
+// python from the transfer function of Graeme, Photodiode Amplifiers,
+// from memory; the sweep here is the independent nodal one).
+func TestBandwidthTIAFitted(t *testing.T) {
+	const rf, cin, g = 1e6, 10e-12, 1e6
+	cf := FeedbackCapForTIAFlat(rf, cin, g)
+	flat := nodalF3(rf, cin, cf, g)
+	assertRel(t, "flat f3 (python 116.2499 kHz)", flat, 116249.88, 1e-6)
+	for _, tc := range []struct {
+		k, loss float64
+	}{{1.5, -0.0010}, {2, -0.0342}, {5, -0.1471}} {
+		got := nodalF3(rf, cin, cf, tc.k*g)/flat - 1
+		if math.Abs(got-tc.loss) > 5e-4 {
+			t.Errorf("%g× faster: bandwidth %+.4f, want %+.4f", tc.k, got, tc.loss)
+		}
+		assertRel(t, "BandwidthTIAFitted", BandwidthTIAFitted(rf, cin, g, tc.k), nodalF3(rf, cin, cf, tc.k*g), 1e-6)
+	}
+	far := nodalF3(rf, cin, cf, 1e4*g)
+	assertRel(t, "far above: the feedback pole", far, 1/(2*math.Pi*rf*cf), 1e-3)
+
+	// The least bandwidth over a GBW span is at one of its ends: a dense
+	// nodal scan of [g, 8g] finds nothing lower, in the usual stage and in
+	// a low-gain fast one (Rf 1 kΩ, where the span's Cf is not the slow
+	// end's flat one).
+	for _, tc := range []struct{ rf, base float64 }{{rf, 2e5}, {rf, 1e6}, {rf, 3e7}, {1e3, 9.5e6}} {
+		cf := FeedbackCapForTIASpan(tc.rf, cin, tc.base, 8*tc.base)
+		least := math.Inf(1)
+		for k := 1.0; k <= 8; k += 0.05 {
+			least = math.Min(least, nodalF3(tc.rf, cin, cf, k*tc.base))
+		}
+		got := BandwidthTIAFitted(tc.rf, cin, tc.base, 8)
+		if got > least*(1+1e-6) || got < least*(1-1e-3) {
+			t.Errorf("Rf %g, GBW %g: BandwidthTIAFitted %g, the scanned least %g", tc.rf, tc.base, got, least)
+		}
+	}
+}
+
+// GBWForTIAFitted is the edge: at the need, Cf fitted there, the nodal
+// bandwidth at the span's slow and fast ends is ≥ f and one of them is f;
+// 0.5 % below the need the fast end misses f.
+func TestGBWForTIAFitted(t *testing.T) {
+	const rf, cin, f, spread = 1e6, 10e-12, 100e3, 2
+	g := GBWForTIAFitted(rf, cin, f, spread)
+	if flat := GBWForTIA(rf, cin, f); !(g > flat) {
+		t.Errorf("need with a 2× spread %g Hz, want above the flat need %g Hz", g, flat)
+	}
+	cf := FeedbackCapForTIAFlat(rf, cin, g)
+	slow, fast := nodalF3(rf, cin, cf, g), nodalF3(rf, cin, cf, spread*g)
+	assertRel(t, "least nodal f3 at the need", math.Min(slow, fast), f, 1e-6)
+	if slow < f*(1-1e-6) {
+		t.Errorf("slow end %g Hz below f", slow)
+	}
+	g2 := 0.995 * g
+	cf2 := FeedbackCapForTIAFlat(rf, cin, g2)
+	if b := nodalF3(rf, cin, cf2, spread*g2); !(b < f) {
+		t.Errorf("0.5 %% below the need the fast end reaches %g Hz, want < %g", b, f)
+	}
+	assertRel(t, "spread 1 is the flat need", GBWForTIAFitted(rf, cin, f, 1), GBWForTIA(rf, cin, f), 1e-12)
+}
+
+// nodalPeak is the largest |Z|/Rf of the stage over frequency, by the
+// nodal analysis tiaNodal (1 for a response without peaking: its DC gain).
+func nodalPeak(rf, cin, cf, gbw float64) float64 {
+	peak := 0.0
+	for f := 1.0; f < 1e11; f *= 1.002 {
+		peak = math.Max(peak, cmplx.Abs(tiaNodal(rf, cin, cf, gbw, f))/rf)
+	}
+	return peak
+}
+
+// FeedbackCapForTIASpan keeps every GBW of the span free of peaking and is
+// the smallest that does (nodal sweeps, independent of TIAResponse). In a
+// low-gain fast stage — Rf 1 kΩ, Cin 10 pF, GBW 9.55…14.3 MHz
+// (2π·Rf·Cin·GBW = 0.6…0.9) — the flat Cf of the slow end, 0.745·Cin, peaks
+// at the fast end; the span's Cf is 0.994·Cin (by hand from
+// √(2/u − 1/u²), u = 0.9). In the usual stage (1 MΩ, 10 pF, 1…3 MHz) it is
+// the flat Cf of the slow end.
+func TestFeedbackCapForTIASpan(t *testing.T) {
+	for _, tc := range []struct {
+		name            string
+		rf, cin, lo, hi float64
+		cfOverCin       float64
+	}{
+		{"low gain, fast", 1e3, 10e-12, 0.6 / (2 * math.Pi * 1e3 * 10e-12), 0.9 / (2 * math.Pi * 1e3 * 10e-12), math.Sqrt(2/0.9 - 1/0.81)},
+		{"across the largest flat Cf", 1e3, 10e-12, 0.6 / (2 * math.Pi * 1e3 * 10e-12), 3 / (2 * math.Pi * 1e3 * 10e-12), 1},
+		{"usual photodiode stage", 1e6, 10e-12, 1e6, 3e6, FeedbackCapForTIAFlat(1e6, 10e-12, 1e6) / 10e-12},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			cf := FeedbackCapForTIASpan(tc.rf, tc.cin, tc.lo, tc.hi)
+			assertRel(t, "Cf/Cin", cf/tc.cin, tc.cfOverCin, 1e-9)
+			for k := 0; k <= 20; k++ {
+				g := tc.lo * math.Pow(tc.hi/tc.lo, float64(k)/20)
+				if p := nodalPeak(tc.rf, tc.cin, cf, g); p > 1+1e-9 {
+					t.Errorf("GBW %g: peak %.9f × Rf, want none", g, p)
+				}
+			}
+			small := 0.9 * cf
+			worst := 0.0
+			for k := 0; k <= 20; k++ {
+				g := tc.lo * math.Pow(tc.hi/tc.lo, float64(k)/20)
+				worst = math.Max(worst, nodalPeak(tc.rf, tc.cin, small, g))
+			}
+			if !(worst > 1+1e-6) {
+				t.Errorf("0.9·Cf peaks at most %.9f × Rf over the span, want peaking (Cf is not the smallest)", worst)
+			}
+		})
+	}
+	// The slow end's flat Cf in the low-gain stage peaks at the fast end.
+	lo, hi := 0.6/(2*math.Pi*1e3*10e-12), 0.9/(2*math.Pi*1e3*10e-12)
+	if p := nodalPeak(1e3, 10e-12, FeedbackCapForTIAFlat(1e3, 10e-12, lo), hi); !(p > 1+1e-6) {
+		t.Errorf("slow end's flat Cf at the fast end: peak %.9f × Rf, want peaking", p)
+	}
+}
