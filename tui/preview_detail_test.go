@@ -12,6 +12,7 @@ import (
 
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 )
 
 // openPreviewOn selects id (failing parts shown) and turns the preview on
@@ -210,4 +211,62 @@ func TestPreviewScreens(t *testing.T) {
 			}
 		})
 	}
+}
+
+// TestPreviewFailBanner: the JFET part jf2-jfet draws a clean sine in the
+// buffer stage, yet its input pins swing ±6.2·450 mV = ±2.79 V (the gain
+// stage's output, by hand), beyond its common-mode range, so it fails
+// buffer/input_range. Above the plot the pane names that check with the
+// margin the checks pane gives it, and the model's note about the pins is
+// shown whole (wrapped), at 120×40 and at 80×24. In the gain stage, which
+// it passes, the banner says it fails the design elsewhere.
+func TestPreviewFailBanner(t *testing.T) {
+	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+		t.Run(fmt.Sprintf("%dx%d", sz[0], sz[1]), func(t *testing.T) {
+			m := newDemo(t, sz[0], sz[1])
+			openPreviewOn(t, m, "jf2-jfet")
+			press(t, m, "]")
+			r := m.list.selected(m.rank.results)
+			var c *filter.Check
+			for i := range r.Checks {
+				if r.Checks[i].Req.Stage == "buffer" && r.Checks[i].Req.Key == filter.KeyInputRange {
+					c = &r.Checks[i]
+				}
+			}
+			if c == nil || c.Status != filter.StatusFail {
+				t.Fatalf("precondition: jf2-jfet does not fail buffer/input_range (%v)", c)
+			}
+			screen := m.View()
+			flat := detailText(screen)
+			want := "✗ FAILS stage buffer: input_range " + present.Margin(c.Margin)
+			if !strings.Contains(flat, want) || !strings.Contains(flat, cleanTraceNote) {
+				t.Errorf("no banner %q with the clean-trace note:\n%s", want, screen)
+			}
+			if strings.Index(screen, "FAILS stage") > strings.Index(screen, "┤") {
+				t.Errorf("the banner is not above the plot:\n%s", screen)
+			}
+			note := m.prev.res[0].Notes[0]
+			if !strings.Contains(note, "2.79 V") || !strings.Contains(flat, strings.Join(strings.Fields(note), " ")) {
+				t.Errorf("the note %q is not shown whole:\n%s", note, screen)
+			}
+			press(t, m, "[")
+			if s := detailText(m.View()); !strings.Contains(s, "passes stage gain but fails the design: buffer/input_range "+present.Margin(c.Margin)) {
+				t.Errorf("gain stage: no note that the part fails elsewhere:\n%s", m.View())
+			}
+		})
+	}
+}
+
+// detailText is the text of the detail pane's lines of screen (what
+// follows the separator beside the design pane, else the whole line),
+// its words joined by single spaces, so wrapped text reads as one.
+func detailText(screen string) string {
+	var b []string
+	for _, l := range lines(screen) {
+		if _, right, ok := strings.Cut(l, "│"); ok {
+			l = right
+		}
+		b = append(b, l)
+	}
+	return strings.Join(strings.Fields(strings.Join(b, " ")), " ")
 }

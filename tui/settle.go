@@ -21,6 +21,9 @@ func (m *Model) settle() {
 	if !l.stacked || m.focus == paneDesign {
 		m.form.settle(m.rank.plan, m.rank.warnings, l.design.w, l.design.h)
 	}
+	if m.detail == detailPreview {
+		m.prev.settleFails(&m.rank, m.previewParts())
+	}
 	if m.detail == detailCompare {
 		m.cmp.settle(m.rank.resPlan, m.marks.results(m.rank.results), m.rank.strict, l.detail.h)
 	}

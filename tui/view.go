@@ -286,6 +286,7 @@ func (m *Model) helpPages(w, h int) [][]string {
 		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
 		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
 		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
+		"wave preview (v, V): ✗ above the plot names the checks of the stage the part fails; peak error is the largest instantaneous difference from the ideal output over the window, phase lag included (the gain_error check is a magnitude error only, so peak error can be larger)",
 		"● modified: the design has edits not saved (w saves in place, u undoes)",
 		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
 	} {
