@@ -180,7 +180,7 @@ func (e explorer) update(k tea.KeyMsg, rows int, rs *ranking, parts []*catalog.P
 	switch {
 	case key.Matches(k, keys.Quit) && k.String() == "ctrl+c":
 		return e, exploreQuit, nil
-	case key.Matches(k, keys.Cancel), key.Matches(k, keys.Explore), key.Matches(k, keys.Quit):
+	case key.Matches(k, keys.ExploreBack):
 		return e, exploreBack, nil
 	case key.Matches(k, keys.Up):
 		e.cursor = max(0, e.cursor-1)
@@ -424,6 +424,10 @@ func (m *Model) openExplorer() tea.Cmd {
 
 // updateExplore handles a key in explorer mode.
 func (m *Model) updateExplore(k tea.KeyMsg) tea.Cmd {
+	if key.Matches(k, m.ui.keys.Help) && !m.expl.finding && !m.expl.picking {
+		m.openHelp()
+		return nil
+	}
 	var act explorerAction
 	var cmd tea.Cmd
 	m.expl, act, cmd = m.expl.update(k, explorerRows(m.bodyH()), &m.rank, m.cat.Parts)

@@ -37,6 +37,7 @@ type KeyMap struct {
 	ColumnRight    key.Binding // explorer: column cursor right
 	ExploreColumns key.Binding // explorer: choose the columns
 	Typical        key.Binding // explorer: typical figures instead of the worst case
+	ExploreBack    key.Binding // explorer: back to the list (its help line; esc, q and E do it)
 	AddPart        key.Binding // the entry form, for a new part
 	EditPart       key.Binding // the entry form on the selected part's figures
 	SavePart       key.Binding // entry form: save the part into its catalog file
@@ -109,6 +110,7 @@ func withExplorerKeys(k KeyMap) KeyMap {
 	k.ColumnRight = b([]string{"right"}, "→", "column right")
 	k.ExploreColumns = b([]string{"c"}, "c", "columns")
 	k.Typical = b([]string{"T"}, "T", "typical/worst")
+	k.ExploreBack = b([]string{"esc", "q", "E"}, "esc/q/E", "back")
 	return k
 }
 
@@ -130,7 +132,17 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 
 // explorerKeys are the bottom line in explorer mode.
 func (k *KeyMap) explorerKeys() []key.Binding {
-	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Cancel}
+	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Help, k.ExploreBack}
+}
+
+// explorerHelp is the help overlay's key columns in explorer mode.
+func (k *KeyMap) explorerHelp() [][]key.Binding {
+	quit := key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit"))
+	return [][]key.Binding{
+		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom},
+		{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical},
+		{k.Find, k.Mark, k.Help, k.ExploreBack, quit},
+	}
 }
 
 // editKeys are the bottom line while a field or prompt has the keyboard.

@@ -110,6 +110,9 @@ type Model struct {
 	entry  entryForm   // the entry form of a new or edited part (entry.go)
 
 	helpPage int // the help overlay's page
+	// helpFrom is the mode the help overlay was opened from and goes back
+	// to when it closes: browsing, or explorer mode with its own keys.
+	helpFrom mode
 
 	hr    headroomState  // the selected part's headroom, searched lazily (headroom.go)
 	hrGen *atomic.Uint64 // numbers headroom requests; a waiting job searches only if still the newest
@@ -366,13 +369,19 @@ func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 		}
 	}
 	m.applyNarrowing()
-	if m.mode == modeExplore {
+	if m.exploring() {
 		m.expl.refresh(&m.rank, m.cat.Parts)
 	}
 	if m.mode == modeEntry {
 		m.checkEntry()
 	}
 	return next
+}
+
+// exploring reports whether explorer mode is open, on screen or under the
+// help overlay it was opened from.
+func (m *Model) exploring() bool {
+	return m.mode == modeExplore || m.mode == modeHelp && m.helpFrom == modeExplore
 }
 
 // passingSuffice reports whether a ranking of the passing parts alone
@@ -382,7 +391,7 @@ func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 // are all among the passing (else the list would explain a vanished
 // selection or export a shortlist without its failing parts).
 func (m *Model) passingSuffice(passing []filter.Result) bool {
-	if m.narrow.failing || m.narrow.shortlist || m.mode == modeExplore || m.mode == modeEntry {
+	if m.narrow.failing || m.narrow.shortlist || m.exploring() || m.mode == modeEntry {
 		return false
 	}
 	sel, marked := m.list.selID == "", 0

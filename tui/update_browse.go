@@ -13,7 +13,7 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Quit):
 		return m.requestQuit()
 	case key.Matches(k, keys.Help):
-		m.mode, m.helpPage = modeHelp, 0
+		m.openHelp()
 	case key.Matches(k, keys.Focus):
 		m.focus = (m.focus + 1) % paneCount
 	case key.Matches(k, keys.FocusBack):
@@ -179,6 +179,19 @@ func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
 		}
 		return nil
 	}
-	m.mode, m.helpPage = modeBrowse, 0
+	m.mode, m.helpPage = m.helpFrom, 0
+	if m.mode == modeExplore {
+		m.setMessage("back in the explorer")
+	}
 	return nil
+}
+
+// openHelp opens the help overlay over the current mode (browsing or the
+// explorer), which it shows the keys of and goes back to on closing.
+func (m *Model) openHelp() {
+	m.helpFrom = modeBrowse
+	if m.mode == modeExplore {
+		m.helpFrom = modeExplore
+	}
+	m.mode, m.helpPage = modeHelp, 0
 }

@@ -161,7 +161,11 @@ func (m *Model) footLines() []string {
 	k := &m.ui.keys
 	var bs []key.Binding
 	tail := ""
-	switch m.mode {
+	mode := m.mode
+	if mode == modeHelp {
+		mode = m.helpFrom // the keys the overlay goes back to
+	}
+	switch mode {
 	case modeReplace:
 		bs = append(k.replaceKeys(), k.Quit)
 	case modeExplore:
@@ -276,20 +280,14 @@ func (m *Model) helpOverlay(w, h int) []string {
 func (m *Model) helpPages(w, h int) [][]string {
 	st := &m.ui.st
 	inner := max(20, w-6) // frame and padding
-	body := []string{st.Section.Render("Keys") + st.Muted.Render("  (any other key closes this)")}
-	body = append(body, keyGrid(st, m.ui.keys.FullHelp(), inner)...)
+	cols, markers, title := m.ui.keys.FullHelp(), browseMarkers, "Keys"
+	if m.helpFrom == modeExplore {
+		cols, markers, title = m.ui.keys.explorerHelp(), explorerMarkers, "Explorer keys"
+	}
+	body := []string{st.Section.Render(title) + st.Muted.Render("  (any other key closes this)")}
+	body = append(body, keyGrid(st, cols, inner)...)
 	body = append(body, st.Section.Render("Markers"))
-	for _, l := range []string{
-		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
-		"~ typical figure, derated or inflated by the design's policy",
-		"g typical figure read off a datasheet graph",
-		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
-		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
-		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
-		"wave preview (v, V): ✗ above the plot names the checks of the stage the part fails; peak error is the largest instantaneous difference from the ideal output over the window, phase lag included (the gain_error check is a magnitude error only, so peak error can be larger)",
-		"● modified: the design has edits not saved (w saves in place, u undoes)",
-		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
-	} {
+	for _, l := range markers {
 		body = append(body, wrap(l, inner)...)
 	}
 	body = append(body, wrap("Caution: "+report.Caution, inner)...)
@@ -312,6 +310,28 @@ func (m *Model) helpPages(w, h int) [][]string {
 	}
 	return pages
 }
+
+// browseMarkers and explorerMarkers are what the help overlay says the
+// marks of the main screen and of explorer mode mean.
+var (
+	browseMarkers = []string{
+		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
+		"~ typical figure, derated or inflated by the design's policy",
+		"g typical figure read off a datasheet graph",
+		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
+		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
+		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
+		"wave preview (v, V): ✗ above the plot names the checks of the stage the part fails; peak error is the largest instantaneous difference from the ideal output over the window, phase lag included (the gain_error check is a magnitude error only, so peak error can be larger)",
+		"● modified: the design has edits not saved (w saves in place, u undoes)",
+		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
+	}
+	explorerMarkers = []string{
+		"▸ cursor  ● marked  ✓ pass  ✗ N: fails N checks of the design (shown dim)",
+		"▲ ▼ the sort column, ascending or descending; [·col] the column cursor s sorts on",
+		"worst case: figures at the design's temperature range; ~ typical × derate_typ or × inflate_typ, g the same read off a graph, — not given",
+		"T typical: figures as the catalog gives them (~ typical, g read off a graph; unmarked: a stated limit)",
+	}
+)
 
 // keyGrid draws the key columns of the full help side by side while they
 // fit in w cells, starting a new row of columns beyond.
