@@ -82,6 +82,17 @@ func bar(m float64, cells int) string {
 // guaranteed limit, the same in every output (report.BasisMark).
 func basisMark(b filter.Basis) string { return report.BasisMark(b) }
 
+// markedCell is a right-aligned column's figure with its basis mark after
+// a space (report.WithBasis), and an unmarked figure padded by as much, so
+// the figures of a column line up whether marked or not: "-35 % g" over
+// "+3.8 %  ".
+func markedCell(text string, b filter.Basis) string {
+	if basisMark(b) == "" {
+		return text + "  "
+	}
+	return report.WithBasis(text, b)
+}
+
 // bindingCheck returns the check that sets a result's worst margin, or nil.
 func bindingCheck(r *filter.Result) *filter.Check {
 	for i := range r.Checks {

@@ -105,10 +105,10 @@ func listColumns(idW int) []column {
 		{title: "name", width: 12, prio: 1, flex: true},
 		{title: "tech", width: 7, prio: 3},
 		{title: "ch", width: 2, prio: 2, right: true},
-		{title: "margin", width: 7, prio: 92, right: true},
+		{title: "margin", width: 8, prio: 92, right: true}, // "-35 % g"
 		{title: "", width: barCells, prio: 4},
 		{title: "binding", width: 20, prio: 80},
-		{title: "fmax", width: 9, prio: 5, right: true},
+		{title: "fmax", width: 10, prio: 5, right: true}, // "27.5 kHz g"
 		{title: "pkg×cost", width: 8, prio: 6, right: true},
 	}
 }
@@ -259,7 +259,7 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 	fm := r.MinFMax()
 	fmax := "—"
 	if !math.IsNaN(fm) {
-		fmax = catalog.Format(fm, catalog.Hertz) + basisMark(fmaxBasis(r))
+		fmax = markedCell(catalog.Format(fm, catalog.Hertz), fmaxBasis(r))
 	}
 	cells := []string{
 		cur + mark,
@@ -296,11 +296,11 @@ func marginCells(r *filter.Result) (margin, binding string) {
 		if math.IsNaN(r.WorstMargin) {
 			return present.None, ""
 		}
-		mk := ""
+		b := filter.BasisGuaranteed
 		if c := bindingCheck(r); c != nil {
-			mk = basisMark(c.Basis)
+			b = c.Basis
 		}
-		return present.Margin(r.WorstMargin) + mk, present.CheckName(r.Binding.Stage, r.Binding.Key)
+		return markedCell(present.Margin(r.WorstMargin), b), present.CheckName(r.Binding.Stage, r.Binding.Key)
 	}
 	worst := present.Worst(r)
 	if worst == nil { // strict: failing on unknown figures only
@@ -313,5 +313,5 @@ func marginCells(r *filter.Result) (margin, binding string) {
 	if !worst.HasMargin() {
 		return "✗", binding
 	}
-	return present.Margin(worst.Margin) + basisMark(worst.Basis), binding
+	return markedCell(present.Margin(worst.Margin), worst.Basis), binding
 }

@@ -11,6 +11,7 @@ import (
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // replacer is replacement mode: what could take the selected part's place
@@ -327,9 +328,9 @@ func valueText(f *replace.Field, v replace.Value) string {
 	}
 	switch v.Basis {
 	case replace.Typical:
-		s += "~"
+		s = report.WithBasis(s, filter.BasisTypical)
 	case replace.Graph:
-		s += "g"
+		s = report.WithBasis(s, filter.BasisGraph)
 	}
 	return s
 }
