@@ -27,6 +27,34 @@ func fitColumns(cols []column, w int) []int {
 	return present.Fit(pc, w, 1)
 }
 
+// grow widens column i towards want cells with the width fitColumns left
+// over in w: cells no column uses, then the flex column's cells beyond
+// its least width. It changes widths in place.
+func grow(cols []column, widths []int, i, want, w int) {
+	if widths[i] == 0 || widths[i] >= want {
+		return
+	}
+	used, n := 0, 0
+	for _, x := range widths {
+		if x > 0 {
+			used += x
+			n++
+		}
+	}
+	need := want - widths[i]
+	free := min(need, max(0, w-used-max(0, n-1)))
+	widths[i] += free
+	need -= free
+	for j, c := range cols {
+		if need > 0 && c.flex && widths[j] > c.width {
+			take := min(need, widths[j]-c.width)
+			widths[j] -= take
+			widths[i] += take
+			need -= take
+		}
+	}
+}
+
 // maxPrio is the highest column priority: a column of it is dropped last.
 const maxPrio = 100
 

@@ -262,6 +262,12 @@ func (e *explorer) settle(idW, w, h int) {
 	e.colOff = max(0, min(e.colOff, len(e.cols)-1))
 }
 
+// explorerIDW is the explorer's id column width on a screen w cells wide:
+// the catalog's longest id (up to idMaxCap) while it takes no more than a
+// sixth of the width, else down to the least (idWidths); longer ids are
+// cut in the middle.
+func explorerIDW(c *catalogState, w int) int { return min(c.idMax, max(c.idW, w/6)) }
+
 // fixedW is the width of the columns always shown: cursor and mark, id,
 // verdict.
 func fixedW(idW int) int { return 2 + idW + 1 + verdictW + 1 }
@@ -352,7 +358,7 @@ func (e *explorer) draw(plan *filter.Plan, idW, w, h int, marked func(string) bo
 		if marked(r.Part.ID) {
 			mk = "●"
 		}
-		line := cur + mk + fit(safe.Text(r.Part.ID), idW) + " " + fit(verdict(r), verdictW)
+		line := cur + mk + fitID(safe.Text(r.Part.ID), idW) + " " + fit(verdict(r), verdictW)
 		for j := e.colOff; j <= last; j++ {
 			line += "  " + fitRight(report.ListCell(e.cols[j], r.Cells[j]), e.widths[j])
 		}

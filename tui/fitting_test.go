@@ -5,6 +5,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
 )
 
 // gluedMark is a basis mark (~ typical, g graph, report.BasisMark) right
@@ -40,6 +42,77 @@ func TestBasisMarkSeparated(t *testing.T) {
 			for _, want := range []string{" kHz g", " % ~", " kHz ~"} {
 				if !strings.Contains(all, want) {
 					t.Errorf("no %q on any screen: the marks went missing", want)
+				}
+			}
+		})
+	}
+}
+
+// TestFitID: an id too long for its cells is cut in the middle, keeping
+// its head and its longer tail, to exactly the width asked.
+func TestFitID(t *testing.T) {
+	for _, tc := range []struct {
+		id   string
+		w    int
+		want string
+	}{
+		{"gp4-bip", 11, "gp4-bip    "},
+		{"lownoise-dual-rev-a", 19, "lownoise-dual-rev-a"},
+		{"lownoise-dual-rev-a", 16, "lownois…al-rev-a"},
+		{"lownoise-dual-rev-b", 16, "lownois…al-rev-b"},
+		{"lownoise-dual-rev-a", 11, "lowno…rev-a"},
+		{"abcdefgh", 4, "abc…"}, // too narrow to keep both ends
+	} {
+		if got := fitID(tc.id, tc.w); got != tc.want {
+			t.Errorf("fitID(%q, %d) = %q, want %q", tc.id, tc.w, got, tc.want)
+		}
+	}
+}
+
+// TestLongIDsStayDistinct: two parts whose ids differ only in their last
+// letter, longer than the id column's least width, read apart in the
+// candidate list, the explorer and replacement mode at 80×24, and whole
+// in the list at 120×40, where the id column grows into the name's room.
+func TestLongIDsStayDistinct(t *testing.T) {
+	ids := []string{"lownoise-dual-rev-a", "lownoise-dual-rev-b"}
+	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+		t.Run(fmt.Sprintf("%dx%d", sz[0], sz[1]), func(t *testing.T) {
+			c := demoCatalog(t)
+			for i, id := range ids {
+				p := *c.Parts[i]
+				p.ID = id
+				c.Parts[i] = &p
+			}
+			m := New(Config{Design: demoDesign(t), Catalog: c, Renderer: asciiRenderer()})
+			m.Update(tea.WindowSizeMsg{Width: sz[0], Height: sz[1]})
+			run(t, m, m.Init())
+			press(t, m, "f", "tab", "/")
+			press(t, m, strings.Split("lownoise", "")...)
+			press(t, m, "enter")
+			screens := map[string]string{"list": m.View()}
+			press(t, m, "E", "/")
+			press(t, m, strings.Split("lownoise", "")...)
+			press(t, m, "enter")
+			screens["explorer"] = m.View()
+			press(t, m, "esc", "esc", "esc")
+			selectID(t, m, obsoleteQuad)
+			press(t, m, "R")
+			screens["replace"] = m.View()
+			for name, screen := range screens {
+				if name == "replace" && !strings.Contains(screen, "lownois") {
+					continue // neither is a replacement for the quad
+				}
+				shown := map[string]bool{}
+				for _, w := range strings.Fields(screen) {
+					if strings.HasPrefix(w, "lownois") && w != "lownoise" { // not the find text
+						shown[w] = true
+					}
+				}
+				if len(shown) != 2 {
+					t.Errorf("%s: the two ids show as %v, want two different cells:\n%s", name, shown, screen)
+				}
+				if sz[0] == 120 && name == "list" && (!shown[ids[0]] || !shown[ids[1]]) {
+					t.Errorf("list at 120 columns: ids cut (%v), want them whole", shown)
 				}
 			}
 		})

@@ -28,6 +28,19 @@ func fit(s string, w int) string {
 	return s + strings.Repeat(" ", w-n)
 }
 
+// fitID fits a part id into w cells like fit, but cuts it in the middle,
+// keeping its head and its longer tail ("lownois…l-rev-a"), so ids that
+// differ at the end (revisions, grades) stay told apart.
+func fitID(id string, w int) string {
+	n := ansi.StringWidth(id)
+	if n <= w || w < 5 {
+		return fit(id, w)
+	}
+	head := (w - 1) / 2
+	tail := w - 1 - head
+	return ansi.Truncate(id, head, "") + "…" + ansi.TruncateLeft(id, n-tail, "")
+}
+
 // fitRight is fit aligned to the right.
 func fitRight(s string, w int) string {
 	if w <= 0 {

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 
+	"github.com/charmbracelet/x/ansi"
+
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
@@ -113,15 +115,26 @@ func listColumns(idW int) []column {
 	}
 }
 
-// idWidth is the id column's width for a catalog: its longest id, kept
-// between 6 and 16 cells.
-func idWidth(parts []*catalog.Part) int {
+// idWidths are the id column's widths for a catalog: the least, its
+// longest id kept between 6 and idMinCap cells, and the most, its longest
+// id up to idMaxCap, which the column grows to when the pane has room.
+func idWidths(parts []*catalog.Part) (least, most int) {
 	w := 6
 	for _, p := range parts {
-		w = max(w, len(p.ID))
+		w = max(w, ansi.StringWidth(safe.Text(p.ID)))
 	}
-	return min(w, 16)
+	return min(w, idMinCap), min(w, idMaxCap)
 }
+
+// idMinCap and idMaxCap bound the id column: a longer id is cut in its
+// middle (fitID).
+const (
+	idMinCap = 16
+	idMaxCap = 32
+)
+
+// listIDCol is the index of the id column in listColumns.
+const listIDCol = 2
 
 // visible is the range of view indices on screen for rows candidate rows.
 func (l *list) visible(rows int) (from, to int) {
@@ -145,12 +158,13 @@ func listRowsIn(h int) int { return max(0, h-2) }
 
 // draw draws the candidate pane into h lines of w cells. The rows on
 // screen must have been explained (explainVisible) in Update.
-func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focused bool, w, h int) []string {
+func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW, idMax int, focused bool, w, h int) []string {
 	st := &l.u.st
 	out := make([]string, 0, h)
 	out = append(out, paneHeading(st, l.title(rs, n, marks), focused, w))
 	cols := listColumns(idW)
 	widths := fitColumns(cols, w)
+	grow(cols, widths, listIDCol, idMax, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	switch {
 	case rs.loading != "":
@@ -264,7 +278,7 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 	cells := []string{
 		cur + mark,
 		fmt.Sprint(i + 1),
-		safe.Text(r.Part.ID),
+		fitID(safe.Text(r.Part.ID), widths[listIDCol]),
 		safe.Text(r.Part.Name),
 		string(r.Part.Tech),
 		fmt.Sprint(r.Part.Channels),

@@ -182,7 +182,8 @@ type catalogState struct {
 	techs  []string // technologies present, sorted
 	pkgs   []string // packages present, sorted
 	search map[*catalog.Part]string
-	idW    int // id column width
+	idW    int // id column width: least (idWidths)
+	idMax  int // and most, when the pane has room
 	// eval evaluates the catalog's parts plan after plan, keeping what an
 	// edit leaves unchanged (filter.Incremental).
 	eval *filter.Incremental
@@ -413,9 +414,10 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	if c == nil {
 		c = &catalog.Catalog{}
 	}
-	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts)),
+	cs := catalogState{Catalog: c, search: make(map[*catalog.Part]string, len(c.Parts)),
 		eval: filter.NewIncremental(c.Parts, filter.Options{Strict: m.cfg.Strict})}
 	cs.techs, cs.pkgs = catalogValues(c.Parts)
+	cs.idW, cs.idMax = idWidths(c.Parts)
 	for _, p := range c.Parts {
 		cs.search[p] = searchText(p)
 	}

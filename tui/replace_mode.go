@@ -8,6 +8,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
@@ -199,16 +200,21 @@ func replaceColumns(idW int, designed bool) []column {
 	)
 }
 
+// replaceIDCol is the index of the id column in replaceColumns.
+const replaceIDCol = 2
+
 // listLines draws the candidates pane into h lines of w cells.
 func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 	st := &r.u.st
 	out := []string{paneHeading(st, r.title(), !r.onCompare, w)}
-	idW := 6
+	parts := make([]*catalog.Part, len(r.res.Candidates))
 	for i := range r.res.Candidates {
-		idW = max(idW, len(r.res.Candidates[i].Part.ID))
+		parts[i] = r.res.Candidates[i].Part
 	}
-	cols := replaceColumns(min(idW, 16), r.res.Designed)
+	idW, idMax := idWidths(parts)
+	cols := replaceColumns(idW, r.res.Designed)
 	widths := fitColumns(cols, w)
+	grow(cols, widths, replaceIDCol, idMax, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	if len(r.res.Candidates) == 0 {
 		out = append(out, st.Muted.Render(fit("no part in the catalog could take its place (esc goes back)", w)))
@@ -231,7 +237,7 @@ func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 		if c.Strict {
 			strict = "strict"
 		}
-		cells := []string{cur + mark, fmt.Sprint(i + 1), c.Part.ID, foot, strict}
+		cells := []string{cur + mark, fmt.Sprint(i + 1), fitID(safe.Text(c.Part.ID), widths[replaceIDCol]), foot, strict}
 		if r.res.Designed {
 			cells = append(cells, designCell(c.Design))
 		}

@@ -31,7 +31,7 @@ func (m *Model) settle() {
 	case modeReplace:
 		m.repl.settle(m.ui.width, m.bodyH())
 	case modeExplore:
-		m.expl.settle(m.cat.idW, m.ui.width, m.bodyH())
+		m.expl.settle(explorerIDW(&m.cat, m.ui.width), m.ui.width, m.bodyH())
 	case modeEntry:
 		m.entry.settle(m.ui.width, m.bodyH())
 	case modePrompt:

@@ -27,7 +27,7 @@ func (m *Model) View() string {
 	lines := make([]string, 0, u.height)
 	lines = append(lines, m.titleView(l.title.w))
 
-	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
+	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.cat.idMax, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
 		return m.form.draw(m.rank.plan, m.rank.warnings, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
 	}
@@ -49,7 +49,7 @@ func (m *Model) View() string {
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
 	case modeExplore:
-		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
+		body = m.expl.draw(m.rank.resPlan, explorerIDW(&m.cat, u.width), u.width, len(body), m.marks.has)
 	case modeEntry:
 		body = m.entry.draw(u.width, len(body))
 	}
