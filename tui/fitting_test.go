@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 )
 
 // gluedMark is a basis mark (~ typical, g graph, report.BasisMark) right
@@ -116,5 +117,28 @@ func TestLongIDsStayDistinct(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestTooSmallWraps: below the least size the screen asks for a bigger
+// terminal in words wrapped to its width — whole, with both sizes — and
+// still fills exactly the screen.
+func TestTooSmallWraps(t *testing.T) {
+	for _, sz := range [][2]int{{40, 12}, {59, 30}, {20, 6}, {120, 10}} {
+		m := newDemo(t, sz[0], sz[1])
+		screen := m.View()
+		ls := lines(screen)
+		if len(ls) != sz[1] {
+			t.Errorf("%v: %d lines", sz, len(ls))
+		}
+		for _, l := range ls {
+			if w := ansi.StringWidth(l); w != sz[0] {
+				t.Errorf("%v: a line of %d cells: %q", sz, w, l)
+			}
+		}
+		want := fmt.Sprintf("terminal %d×%d is too small: opsift needs at least %d×%d (q quits)", sz[0], sz[1], minWidth, minHeight)
+		if got := strings.Join(strings.Fields(screen), " "); got != want {
+			t.Errorf("%v: says %q, want %q", sz, got, want)
+		}
 	}
 }

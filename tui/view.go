@@ -388,13 +388,15 @@ func keyGrid(st *Styles, cols [][]key.Binding, w int) []string {
 	return out
 }
 
-// tooSmallView fills the screen with a note asking for a bigger terminal.
+// tooSmallView fills the screen with a note asking for a bigger terminal,
+// wrapped to its width.
 func (m *Model) tooSmallView() string {
 	u := m.ui
 	msg := fmt.Sprintf("terminal %d×%d is too small: opsift needs at least %d×%d (q quits)", u.width, u.height, minWidth, minHeight)
-	lines := blank(u.width, u.height)
-	if u.height > 0 {
-		lines[0] = fit(msg, u.width)
+	var lines []string
+	for _, l := range wrap(msg, u.width) {
+		lines = append(lines, fit(l, u.width))
 	}
-	return strings.Join(lines, "\n")
+	lines = lines[:min(len(lines), max(0, u.height))]
+	return strings.Join(append(lines, blank(u.width, u.height-len(lines))...), "\n")
 }
