@@ -8,6 +8,9 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
+
+	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/filter"
 )
 
 // gluedMark is a basis mark (~ typical, g graph, report.BasisMark) right
@@ -140,5 +143,51 @@ func TestTooSmallWraps(t *testing.T) {
 		if got := strings.Join(strings.Fields(screen), " "); got != want {
 			t.Errorf("%v: says %q, want %q", sz, got, want)
 		}
+	}
+}
+
+// TestRangesReadable: the figures that decide a range check are shown
+// whole in the checks pane at 120×40 and 80×24 — on the demo's gain stage
+// the output must cover ref ± G·Vp = 0 ± 6.2·450 mV = ±2.79 V (by hand),
+// and the part's window is the check's own — and the design pane's
+// longest label ("supply current budget") is not cut at 120×40, where
+// the pane is 36 cells wide.
+func TestRangesReadable(t *testing.T) {
+	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+		t.Run(fmt.Sprintf("%dx%d", sz[0], sz[1]), func(t *testing.T) {
+			m := newDemo(t, sz[0], sz[1])
+			r := m.list.selected(m.rank.results)
+			var c *filter.Check
+			for i := range r.Checks {
+				if r.Checks[i].Req.Stage == "gain" && r.Checks[i].Req.Key == filter.KeyOutputRange {
+					c = &r.Checks[i]
+				}
+			}
+			if c == nil {
+				t.Fatal("no gain/output_range check")
+			}
+			avail := catalog.Format(c.AvailLow, catalog.Volt) + "…" + catalog.Format(c.AvailHigh, catalog.Volt)
+			avail = strings.Replace(avail, " V…", "…", 1) // the shared unit written once
+			press(t, m, "tab", "tab")
+			var screen string
+			for i := 0; i < 6 && !strings.Contains(screen, "output_range"); i++ {
+				screen = m.View()
+				press(t, m, "pgdown")
+			}
+			lineWith(t, screen, "output_range", "-2.79…2.79 V", avail)
+			if sz[0] == 120 {
+				m = newDemo(t, sz[0], sz[1])
+				var left []string
+				for _, l := range lines(m.View()) {
+					if d, _, ok := strings.Cut(l, "│"); ok {
+						left = append(left, strings.TrimSpace(d))
+					}
+				}
+				design := strings.Join(left, "\n")
+				if !strings.Contains(design, "supply current    —\nbudget") {
+					t.Errorf("design pane does not show the whole supply current budget label:\n%s", design)
+				}
+			}
+		})
 	}
 }

@@ -137,9 +137,14 @@ func quantity(v float64, d catalog.Dim) string {
 	return catalog.Format(v, d)
 }
 
-// span formats a window lo … hi of dimension d.
+// span formats a window lo … hi of dimension d, the unit written once
+// when both ends share it: "-2.79…2.79 V", "-450 mV…1.2 V".
 func span(lo, hi float64, d catalog.Dim) string {
-	return quantity(lo, d) + "…" + quantity(hi, d)
+	a, b := quantity(lo, d), quantity(hi, d)
+	if i := strings.LastIndexByte(a, ' '); i >= 0 && strings.HasSuffix(b, a[i:]) && strings.Contains(b, " ") {
+		a = a[:i]
+	}
+	return a + "…" + b
 }
 
 // costText shows packages × unit cost, e.g. "2×0.12", or "2×?".
