@@ -191,3 +191,39 @@ func TestRangesReadable(t *testing.T) {
 		})
 	}
 }
+
+// TestStatusMessageWhole: at 80×24 a status message too long for the room
+// beside the counts and the caution wraps onto a second line, so its end
+// (the useful half: what to do) shows; the screen still fills exactly
+// 80×24 and the caution stays; a short message keeps one line.
+func TestStatusMessageWhole(t *testing.T) {
+	m := newDemo(t, 80, 24)
+	press(t, m, "x") // nothing marked
+	want := "mark parts with space first; x exports the marked ones"
+	if m.message != want {
+		t.Fatalf("message %q, want %q", m.message, want)
+	}
+	ls := lines(m.View())
+	if len(ls) != 24 {
+		t.Fatalf("%d lines", len(ls))
+	}
+	for _, l := range ls {
+		if w := ansi.StringWidth(l); w != 80 {
+			t.Errorf("a line of %d cells: %q", w, l)
+		}
+	}
+	foot := len(m.footLines())
+	status := ls[len(ls)-foot-2 : len(ls)-foot]
+	got := strings.Join(strings.Fields(strings.Join(status, " ")), " ")
+	if !strings.Contains(got, cautionStatusShort) {
+		t.Errorf("status lines %q lack the caution", status)
+	}
+	got = strings.Replace(got, cautionStatusShort+" ", "", 1) // it sits at the first line's end
+	if !strings.Contains(got, want) || !strings.Contains(got, "4 of 52 parts pass") {
+		t.Errorf("status lines %q lack the whole message, the counts or the caution", status)
+	}
+	press(t, m, "s")
+	if n := len(m.statusLines(80)); n != 1 {
+		t.Errorf("short message %q takes %d status lines, want 1", m.message, n)
+	}
+}

@@ -8,6 +8,10 @@ package tui
 // changes the model.
 func (m *Model) settle() {
 	m.ui.footH = len(m.footLines())
+	m.ui.statusH = 1
+	if m.mode != modePrompt && m.mode != modeAsk && m.mode != modeFind {
+		m.ui.statusH = len(m.statusLines(m.ui.width))
+	}
 	m.form.edited = make(map[string]bool, len(m.edits))
 	for _, p := range m.edits {
 		m.form.edited[p] = true

@@ -62,7 +62,7 @@ func (m *Model) View() string {
 		bottom = []string{a, b}
 	}
 	if bottom != nil {
-		room := 1 + max(1, u.footH) // the status line and the key help
+		room := max(1, u.statusH) + max(1, u.footH) // the status lines and the key help
 		if extra := len(bottom) - room; extra > 0 {
 			body = body[:max(0, len(body)-extra)] // a wrapped prompt error takes body lines
 		}
@@ -81,7 +81,7 @@ func (m *Model) View() string {
 		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width))
 		lines = append(lines, m.footLines()...)
 	default:
-		lines = append(lines, m.statusView(u.width))
+		lines = append(lines, m.statusLines(u.width)...)
 		lines = append(lines, m.footLines()...)
 	}
 	// Data strings are escaped where they are drawn; safe.Styled is the
@@ -109,14 +109,23 @@ func (m *Model) titleView(w int) string {
 }
 
 // statusView is the status line: parts passing of total, ranking state
-// and the last message.
-func (m *Model) statusView(w int) string {
+// and the last message; statusLines gives its lines.
+func (m *Model) statusView(w int) string { return strings.Join(m.statusLines(w), "\n") }
+
+// statusLines is the status line, and a second when the message needs it:
+// the counts, the catalog's set-aside banner, the message, and the caution
+// at the right. A message too long for what is left wraps onto a second
+// line at full width rather than lose its end (at 80 columns the first
+// line leaves it about 30 cells).
+func (m *Model) statusLines(w int) []string {
 	st := &m.ui.st
 	var b strings.Builder
 	fmt.Fprintf(&b, " %d of %s pass", m.rank.nPass, plural(len(m.cat.Parts), "part"))
 	if m.marks.len() > 0 {
 		fmt.Fprintf(&b, " · %d marked", m.marks.len())
 	}
+	counts := b.String()
+	b.Reset()
 	if m.rank.loading != "" {
 		b.WriteString(" · reading the catalog…")
 	} else if m.rank.running {
@@ -125,26 +134,55 @@ func (m *Model) statusView(w int) string {
 	if n := len(m.rank.warnings); n > 0 {
 		b.WriteString(" · " + st.Warning.Render("⚠ "+plural(n, "warning")))
 	}
-	left := st.Status.Render(b.String())
+	state := b.String()
 	if banner := setAsideBanner(m.cat.Catalog); banner != "" {
-		left += st.Error.Render(" · " + banner)
+		state += st.Error.Render(" · " + banner)
 	}
+	msg := ""
 	if m.message != "" {
-		msg := st.Message.Render(m.message)
+		msg = st.Message.Render(m.message)
 		if m.msgErr {
 			msg = st.Error.Render("! " + m.message)
 		}
-		left += st.Muted.Render(" │ ") + msg
 	}
 	// The caution stays on every result screen: the long form when it fits
 	// beside the counts and the message, else the short one, which the
 	// message gives way to.
+	left := st.Status.Render(counts) + state
 	note := cautionStatus
-	if ansi.StringWidth(left)+1+len([]rune(note))+1 > w {
+	msgW := ansi.StringWidth(msg)
+	if msgW > 0 {
+		msgW += 3 // " │ "
+	}
+	if ansi.StringWidth(left)+msgW+1+len([]rune(note))+1 > w {
 		note = cautionStatusShort
 	}
 	right := " " + st.Caution.Render(note) + " "
-	return fit(left, max(0, w-ansi.StringWidth(right))) + right
+	room := max(0, w-ansi.StringWidth(right))
+	if msg == "" {
+		return []string{fit(left, room) + right}
+	}
+	first := left + st.Muted.Render(" │ ")
+	if ansi.StringWidth(first)+ansi.StringWidth(msg) <= room {
+		return []string{fit(first+msg, room) + right}
+	}
+	// Wrapped: the message's words over two lines, the second at full width.
+	style := st.Message
+	text := m.message
+	if m.msgErr {
+		style, text = st.Error, "! "+m.message
+	}
+	firstW := max(1, room-ansi.StringWidth(first))
+	parts := wrap(text, firstW)
+	if len(parts) == 0 {
+		return []string{fit(first, room) + right}
+	}
+	rest := strings.Join(parts[1:], " ")
+	out := []string{fit(first+style.Render(parts[0]), room) + right}
+	if rest != "" {
+		out = append(out, fit(" "+style.Render(rest), w))
+	}
+	return out
 }
 
 // cautionStatus and cautionStatusShort are the status line's reminder;
@@ -235,7 +273,7 @@ func packItems(items []string, sep string, w, n int) []string {
 }
 
 // bodyH is the height of the screen between the title and the status line.
-func (m *Model) bodyH() int { return m.ui.height - 2 - max(1, m.ui.footH) }
+func (m *Model) bodyH() int { return m.ui.height - 1 - max(1, m.ui.statusH) - max(1, m.ui.footH) }
 
 // paneHeading draws a pane's heading across w cells: a light rule for a
 // pane, a heavy one for the focused pane, so focus shows without colour.
