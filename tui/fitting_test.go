@@ -227,3 +227,26 @@ func TestStatusMessageWhole(t *testing.T) {
 		t.Errorf("short message %q takes %d status lines, want 1", m.message, n)
 	}
 }
+
+// TestSpaceInDesignPane: with the design pane focused, j/k move the design
+// field, so space and m mark nothing (pressing "space j space j" used to
+// toggle one list part on and off) and the status line says where marking
+// works; from the list, space marks the selected candidate.
+func TestSpaceInDesignPane(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	if m.focus != paneDesign {
+		t.Fatalf("precondition: focus %v, want the design pane", m.focus)
+	}
+	field := m.form.cursor
+	press(t, m, "space", "j", "m", "j")
+	if m.marks.len() != 0 {
+		t.Errorf("space in the design pane marked %d parts", m.marks.len())
+	}
+	if m.form.cursor != field+2 || !strings.Contains(m.message, "space marks the selected candidate from the list") {
+		t.Errorf("design cursor %d (want %d), message %q", m.form.cursor, field+2, m.message)
+	}
+	press(t, m, "tab", "space")
+	if id := m.list.selected(m.rank.results).Part.ID; m.marks.len() != 1 || !m.marks.has(id) {
+		t.Errorf("space in the list: %d marked, want %s", m.marks.len(), id)
+	}
+}

@@ -60,6 +60,10 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		m.narrow.clear()
 		m.applyNarrowing()
 		m.setMessage("filters cleared")
+	case key.Matches(k, keys.Mark) && m.focus == paneDesign:
+		// j/k move the design field here, so a mark would land on a list
+		// row the user is not looking at.
+		m.setMessage("space marks the selected candidate from the list or detail pane (tab); here enter edits the field")
 	case key.Matches(k, keys.Mark):
 		m.toggleMark()
 	case key.Matches(k, keys.Shortlist):
