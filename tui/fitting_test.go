@@ -250,3 +250,39 @@ func TestSpaceInDesignPane(t *testing.T) {
 		t.Errorf("space in the list: %d marked, want %s", m.marks.len(), id)
 	}
 }
+
+// TestSortSaysPassingOnly: with failing parts shown, a sort orders the
+// passing parts and the failing ones follow by fewest failing checks
+// (filter.Rank); the list heading and the status line say so, at 80×24
+// too, so a sort that seems to leave the failing parts alone is explained.
+func TestSortSaysPassingOnly(t *testing.T) {
+	m := newDemo(t, 80, 24)
+	press(t, m, "f", "s")
+	if m.narrow.sortKey() != filter.SortCost {
+		t.Fatalf("sort %s, want cost", m.narrow.sortKey())
+	}
+	screen := m.View()
+	lineWith(t, screen, "sort cost", "+failing by fewest misses")
+	if !strings.Contains(m.message, "the passing parts; failing ones follow, fewest failing checks first") {
+		t.Errorf("message %q does not say the sort orders the passing parts", m.message)
+	}
+	prevCost, prevFails, failing := -1.0, 0, false
+	for _, i := range m.list.view {
+		r := &m.rank.results[i]
+		switch {
+		case r.Pass && failing:
+			t.Fatalf("passing %s after a failing part", r.Part.ID)
+		case r.Pass:
+			if r.Cost < prevCost {
+				t.Errorf("passing %s costs %g, below the one before it (%g)", r.Part.ID, r.Cost, prevCost)
+			}
+			prevCost = r.Cost
+		default:
+			failing = true
+			if r.Failed < prevFails {
+				t.Errorf("failing %s misses %d checks, fewer than the one before it (%d)", r.Part.ID, r.Failed, prevFails)
+			}
+			prevFails = r.Failed
+		}
+	}
+}

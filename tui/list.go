@@ -200,7 +200,8 @@ func (l *list) title(rs *ranking, n *narrowing, marks *shortlist) string {
 	}
 	fmt.Fprintf(&b, " · sort %s", n.sortKey())
 	if n.failing && !n.shortlist {
-		b.WriteString(" · +failing")
+		// The sort key orders the passing parts only (filter.Rank).
+		b.WriteString(" · +failing by fewest misses")
 	}
 	if n.tech != "" {
 		b.WriteString(" · tech " + n.tech)

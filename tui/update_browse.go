@@ -45,6 +45,9 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Sort):
 		m.narrow.cycleSort()
 		m.setMessage("sorted by %s", m.narrow.sortKey())
+		if m.narrow.failing {
+			m.setMessage("sorted by %s: the passing parts; failing ones follow, fewest failing checks first, then the nearest miss", m.narrow.sortKey())
+		}
 		return m.rerank()
 	case key.Matches(k, keys.Find):
 		return m.startFind()

@@ -358,6 +358,7 @@ var (
 		"g typical figure read off a datasheet graph",
 		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
 		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
+		"s sort: orders the passing parts; with f the failing ones follow, fewest failing checks first, then the nearest miss, whatever the sort",
 		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
 		"wave preview (v, V): ✗ above the plot names the checks of the stage the part fails; peak error is the largest instantaneous difference from the ideal output over the window, phase lag included (the gain_error check is a magnitude error only, so peak error can be larger)",
 		"● modified: the design has edits not saved (w saves in place, u undoes)",
