@@ -11,6 +11,7 @@ import (
 
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // gluedMark is a basis mark (~ typical, g graph, report.BasisMark) right
@@ -284,5 +285,64 @@ func TestSortSaysPassingOnly(t *testing.T) {
 			}
 			prevFails = r.Failed
 		}
+	}
+}
+
+// TestCompareSixAt80: six marked parts side by side at 80×24 show as many
+// part columns as fit whole — no cell cut — and ←/→ bring the others in,
+// so every part's every cell (report.CompareCells, what opsift compare
+// prints) can be read; the pane heading says which parts show.
+func TestCompareSixAt80(t *testing.T) {
+	m := newDemo(t, 80, 24)
+	press(t, m, "f", "tab")
+	for i := 0; i < 6; i++ {
+		press(t, m, "space", "down")
+	}
+	press(t, m, "=")
+	if m.detail != detailCompare || m.cmp.table == nil || len(m.cmp.table.Results) != 6 {
+		t.Fatalf("= with six marks: detail %v, message %q", m.detail, m.message)
+	}
+	head, rows := report.CompareCells(m.cmp.table)
+	seen := map[int]bool{}
+	for step := 0; step < 8; step++ {
+		screen := m.View()
+		for _, l := range lines(screen) {
+			if w := ansi.StringWidth(l); w != 80 {
+				t.Fatalf("a line of %d cells: %q", w, l)
+			}
+		}
+		ls := lines(screen)
+		ids := ""
+		for i, l := range ls {
+			if strings.Contains(l, "COMPARE") && i+1 < len(ls) {
+				ids = ls[i+1] // the part ids over their columns
+			}
+		}
+		for j, id := range head[1:] {
+			if !strings.Contains(ids+" ", " "+id+" ") {
+				continue
+			}
+			seen[j] = true
+			// Each shown part's cells of the rows on screen appear whole.
+			for _, r := range rows[:4] {
+				if !strings.Contains(screen, r[1+j]) {
+					t.Errorf("part %s: cell %q of %q not shown whole:\n%s", id, r[1+j], r[0], screen)
+				}
+			}
+		}
+		if strings.Contains(screen, "…") && !strings.Contains(lineWith(t, screen, "COMPARE"), "of 6 (←/→)") {
+			t.Errorf("cut cells without a scroll:\n%s", screen)
+		}
+		press(t, m, "right")
+	}
+	if len(seen) != 6 {
+		t.Errorf("←/→ reached %d of the 6 parts", len(seen))
+	}
+	lineWith(t, m.View(), "COMPARE", "of 6 (←/→)")
+	for i := 0; i < 8; i++ {
+		press(t, m, "left")
+	}
+	if m.cmp.colOff != 0 {
+		t.Errorf("← back to the start: column offset %d", m.cmp.colOff)
 	}
 }

@@ -29,7 +29,7 @@ func (m *Model) settle() {
 		m.prev.settleFails(&m.rank, m.previewParts())
 	}
 	if m.detail == detailCompare {
-		m.cmp.settle(m.rank.resPlan, m.marks.results(m.rank.results), m.rank.strict, l.detail.h)
+		m.cmp.settle(m.rank.resPlan, m.marks.results(m.rank.results), m.rank.strict, l.detail.w, l.detail.h)
 	}
 	switch m.mode {
 	case modeReplace:

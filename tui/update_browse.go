@@ -99,6 +99,16 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openExplorer()
 	case key.Matches(k, keys.Versus):
 		m.toggleCompareView()
+	case key.Matches(k, keys.VersusScroll):
+		if m.detail != detailCompare {
+			m.setMessage("← and → scroll the parts of the side-by-side view (=)")
+			return nil
+		}
+		n := 1
+		if k.String() == "left" {
+			n = -1
+		}
+		m.cmp.scrollCols(n)
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)
