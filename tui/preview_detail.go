@@ -218,7 +218,7 @@ func (m *Model) previewKey(k tea.KeyMsg) {
 			return
 		}
 		if stage, i, n, ok := m.prev.cycleStage(m.rank.plan, key.Matches(k, keys.StageNext)); ok {
-			m.setMessage("preview stage %s (%d of %d with a waveform)", stage, i, n)
+			m.setMessage("preview: stage %s, %d of %d", stage, i, n)
 		}
 	}
 }
@@ -349,41 +349,24 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 		out = append(out, st.Muted.Render(fit("simulating…", w)))
 		return append(out, blank(w, h-len(out))...)
 	}
-	for i, f := range p.fails {
-		style, text := st.Fail, failBanner(f, stage, len(res) > 1)
-		if len(f.here) == 0 {
-			style = st.Warning
+	// What goes above and below the plot, in full and then tighter until
+	// the plot keeps roomyPlot lines: the banner without its closing
+	// remark, the metrics cut to a line each, the note to its first line.
+	// The banner's failing checks and the note's first line always show.
+	var top, noteLines []string
+	for tight := 0; tight <= 3; tight++ {
+		top = append(p.bannerLines(stage, len(res) > 1, tight < 1, w), p.metricsLines(res, tight < 2, w)...)
+		noteLines = noteText(res, w)
+		if tight >= 3 && len(noteLines) > 1 {
+			noteLines = noteLines[:1]
 		}
-		if i == len(p.fails)-1 && slices.ContainsFunc(p.fails, func(f stageFail) bool { return len(f.here) > 0 }) {
-			text += " · " + cleanTraceNote
-		}
-		for _, l := range wrap(safe.Text(text), w) {
-			out = append(out, style.Render(fit(l, w)))
-		}
-	}
-	for i, r := range res {
-		head := ""
-		if len(res) > 1 {
-			head = safe.Text(r.Part.ID) + " (" + traceNames[i] + "): "
-		}
-		for _, l := range wrap(head+metricsText(&r.Metrics), w) {
-			out = append(out, fit(l, w))
+		if h-len(out)-len(top)-len(noteLines) >= roomyPlot {
+			break
 		}
 	}
-	var notes []string
-	for _, r := range res {
-		notes = append(notes, r.Notes...)
-	}
-	var noteLines []string
-	if len(notes) > 0 {
-		more := ""
-		if len(notes) > 1 {
-			more = fmt.Sprintf(" (+%d more notes: opsift preview)", len(notes)-1)
-		}
-		noteLines = wrap("note: "+safe.Text(notes[0])+more, w)
-	}
-	// The plot takes what the banner, metrics and note leave, at least
-	// minPlotLines; the note gives up its last lines before the plot does.
+	out = append(out, top...)
+	// The plot takes what is left, at least minPlotLines; the note gives
+	// up its last lines before the plot does.
 	const minPlotLines = 3
 	if extra := len(out) + len(noteLines) + minPlotLines - h; extra > 0 {
 		noteLines = noteLines[:max(min(1, len(noteLines)), len(noteLines)-extra)]
@@ -402,6 +385,68 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 		out = out[:h]
 	}
 	return append(out, blank(w, h-len(out))...)
+}
+
+// roomyPlot is the plot height (axis, labels and legend included: three
+// lines of trace) the pane shortens its banner, metrics and note for.
+const roomyPlot = 6
+
+// bannerLines are the failing-check banners of the previewed parts,
+// wrapped to w; full closes the last with cleanTraceNote.
+func (p *previewPane) bannerLines(stage string, named, full bool, w int) []string {
+	st := &p.u.st
+	var out []string
+	for i, f := range p.fails {
+		style, text := st.Fail, failBanner(f, stage, named)
+		if len(f.here) == 0 {
+			style = st.Warning
+		}
+		if full && i == len(p.fails)-1 && slices.ContainsFunc(p.fails, func(f stageFail) bool { return len(f.here) > 0 }) {
+			text += " · " + cleanTraceNote
+		}
+		for _, l := range wrap(safe.Text(text), w) {
+			out = append(out, style.Render(fit(l, w)))
+		}
+	}
+	return out
+}
+
+// metricsLines are each previewed part's metrics, wrapped to w, or one
+// line each (cut) unless full.
+func (p *previewPane) metricsLines(res []*preview.Result, full bool, w int) []string {
+	var out []string
+	for i, r := range res {
+		head := ""
+		if len(res) > 1 {
+			head = safe.Text(r.Part.ID) + " (" + traceNames[i] + "): "
+		}
+		text := head + metricsText(&r.Metrics)
+		if !full {
+			out = append(out, fit(text, w))
+			continue
+		}
+		for _, l := range wrap(text, w) {
+			out = append(out, fit(l, w))
+		}
+	}
+	return out
+}
+
+// noteText is the first of the previewed parts' notes, with how many more
+// there are, wrapped to w.
+func noteText(res []*preview.Result, w int) []string {
+	var notes []string
+	for _, r := range res {
+		notes = append(notes, r.Notes...)
+	}
+	if len(notes) == 0 {
+		return nil
+	}
+	more := ""
+	if len(notes) > 1 {
+		more = fmt.Sprintf(" (+%d more notes: opsift preview)", len(notes)-1)
+	}
+	return wrap("note: "+safe.Text(notes[0])+more, w)
 }
 
 // previewIDs names the previewed parts: "a" or "a vs b".

@@ -217,8 +217,9 @@ func TestPreviewScreens(t *testing.T) {
 // buffer stage, yet its input pins swing ±6.2·450 mV = ±2.79 V (the gain
 // stage's output, by hand), beyond its common-mode range, so it fails
 // buffer/input_range. Above the plot the pane names that check with the
-// margin the checks pane gives it, and the model's note about the pins is
-// shown whole (wrapped), at 120×40 and at 80×24. In the gain stage, which
+// margin the checks pane gives it (at 120×40 with the remark that a clean
+// trace is no pass), and the model's note about the pins is shown whole
+// (wrapped), at 120×40 and at 80×24. In the gain stage, which
 // it passes, the banner says it fails the design elsewhere.
 func TestPreviewFailBanner(t *testing.T) {
 	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
@@ -239,8 +240,12 @@ func TestPreviewFailBanner(t *testing.T) {
 			screen := m.View()
 			flat := detailText(screen)
 			want := "✗ FAILS stage buffer: input_range " + present.Margin(c.Margin)
-			if !strings.Contains(flat, want) || !strings.Contains(flat, cleanTraceNote) {
-				t.Errorf("no banner %q with the clean-trace note:\n%s", want, screen)
+			if !strings.Contains(flat, want) {
+				t.Errorf("no banner %q:\n%s", want, screen)
+			}
+			// At 80×24 the remark gives way so the plot keeps its lines.
+			if sz[0] == 120 && !strings.Contains(flat, cleanTraceNote) {
+				t.Errorf("no clean-trace remark at 120×40:\n%s", screen)
 			}
 			if strings.Index(screen, "FAILS stage") > strings.Index(screen, "┤") {
 				t.Errorf("the banner is not above the plot:\n%s", screen)
