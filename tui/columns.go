@@ -13,46 +13,20 @@ type column struct {
 	prio  int  // higher stays longer when the pane is narrow
 	flex  bool // takes the width left over
 	right bool // align right
+	grow  int  // widens to this from the width left over, before the flex column
 }
 
 // fitColumns picks the columns that fit in w cells (one space between
 // columns), dropping the lowest priority first, and widens the flex
-// column to use the rest (present.Fit, the one column fitter). It returns
+// column to use the rest, after widening a growing column (present.Fit,
+// the one column fitter). It returns
 // the widths, 0 for a dropped column.
 func fitColumns(cols []column, w int) []int {
 	pc := make([]present.Column, len(cols))
 	for i, c := range cols {
-		pc[i] = present.Column{Width: c.width, Drop: 1 + maxPrio - c.prio, Flex: c.flex}
+		pc[i] = present.Column{Width: c.width, Drop: 1 + maxPrio - c.prio, Flex: c.flex, Grow: c.grow}
 	}
 	return present.Fit(pc, w, 1)
-}
-
-// grow widens column i towards want cells with the width fitColumns left
-// over in w: cells no column uses, then the flex column's cells beyond
-// its least width. It changes widths in place.
-func grow(cols []column, widths []int, i, want, w int) {
-	if widths[i] == 0 || widths[i] >= want {
-		return
-	}
-	used, n := 0, 0
-	for _, x := range widths {
-		if x > 0 {
-			used += x
-			n++
-		}
-	}
-	need := want - widths[i]
-	free := min(need, max(0, w-used-max(0, n-1)))
-	widths[i] += free
-	need -= free
-	for j, c := range cols {
-		if need > 0 && c.flex && widths[j] > c.width {
-			take := min(need, widths[j]-c.width)
-			widths[j] -= take
-			widths[i] += take
-			need -= take
-		}
-	}
 }
 
 // maxPrio is the highest column priority: a column of it is dropped last.

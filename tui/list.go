@@ -98,12 +98,13 @@ func (l *list) scrollTo(rows int) {
 	l.offset = max(0, min(l.offset, len(l.view)-rows))
 }
 
-// listColumns are the candidate pane's columns; idW fits the catalog's ids.
-func listColumns(idW int) []column {
+// listColumns are the candidate pane's columns; the id column is idW
+// wide and grows to idMax when the pane has room.
+func listColumns(idW, idMax int) []column {
 	return []column{
 		{title: "", width: 2, prio: 100},
 		{title: "#", width: 3, prio: 90, right: true},
-		{title: "id", width: idW, prio: 95},
+		{title: "id", width: idW, prio: 95, grow: idMax},
 		{title: "name", width: 12, prio: 1, flex: true},
 		{title: "tech", width: 7, prio: 3},
 		{title: "ch", width: 2, prio: 2, right: true},
@@ -162,9 +163,8 @@ func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW, idMax int,
 	st := &l.u.st
 	out := make([]string, 0, h)
 	out = append(out, paneHeading(st, l.title(rs, n, marks), focused, w))
-	cols := listColumns(idW)
+	cols := listColumns(idW, idMax)
 	widths := fitColumns(cols, w)
-	grow(cols, widths, listIDCol, idMax, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	switch {
 	case rs.loading != "":

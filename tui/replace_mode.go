@@ -181,13 +181,14 @@ func (r *replacer) title() string {
 	return b.String()
 }
 
-// replaceColumns are the candidates pane's columns; idW fits the ids and
+// replaceColumns are the candidates pane's columns; the id column is idW
+// wide and grows to idMax when there is room, and
 // designed adds the design column.
-func replaceColumns(idW int, designed bool) []column {
+func replaceColumns(idW, idMax int, designed bool) []column {
 	cols := []column{
 		{title: "", width: 2, prio: 100},
 		{title: "#", width: 3, prio: 60, right: true},
-		{title: "id", width: idW, prio: 99},
+		{title: "id", width: idW, prio: 99, grow: idMax},
 		{title: "footprint", width: 9, prio: 97},
 		{title: "strict", width: 6, prio: 96},
 	}
@@ -212,9 +213,8 @@ func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 		parts[i] = r.res.Candidates[i].Part
 	}
 	idW, idMax := idWidths(parts)
-	cols := replaceColumns(idW, r.res.Designed)
+	cols := replaceColumns(idW, idMax, r.res.Designed)
 	widths := fitColumns(cols, w)
-	grow(cols, widths, replaceIDCol, idMax, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	if len(r.res.Candidates) == 0 {
 		out = append(out, st.Muted.Render(fit("no part in the catalog could take its place (esc goes back)", w)))
