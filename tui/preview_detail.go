@@ -351,26 +351,19 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 	}
 	// What goes above and below the plot, in full and then tighter until
 	// the plot keeps roomyPlot lines: the banner without its closing
-	// remark, the metrics cut to a line each, the note to its first line.
-	// The banner's failing checks and the note's first line always show.
-	var top, noteLines []string
-	for tight := 0; tight <= 3; tight++ {
+	// remark, then the metrics cut to a line each. The banner's failing
+	// checks and the whole note always show; the plot takes what is left,
+	// and is left out when that is under minPlotLines.
+	var top []string
+	noteLines := noteText(res, w)
+	for tight := 0; tight <= 2; tight++ {
 		top = append(p.bannerLines(stage, len(res) > 1, tight < 1, w), p.metricsLines(res, tight < 2, w)...)
-		noteLines = noteText(res, w)
-		if tight >= 3 && len(noteLines) > 1 {
-			noteLines = noteLines[:1]
-		}
 		if h-len(out)-len(top)-len(noteLines) >= roomyPlot {
 			break
 		}
 	}
 	out = append(out, top...)
-	// The plot takes what is left, at least minPlotLines; the note gives
-	// up its last lines before the plot does.
 	const minPlotLines = 3
-	if extra := len(out) + len(noteLines) + minPlotLines - h; extra > 0 {
-		noteLines = noteLines[:max(min(1, len(noteLines)), len(noteLines)-extra)]
-	}
 	if plotH := h - len(out) - len(noteLines); plotH >= minPlotLines {
 		for _, l := range strings.Split(plot.Render(w, plotH, p.traces(res), plot.Options{XDim: catalog.Second, YDim: catalog.Volt}), "\n") {
 			out = append(out, fit(l, w))
