@@ -10,6 +10,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/data"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
@@ -274,4 +275,41 @@ func detailText(screen string) string {
 		b = append(b, l)
 	}
 	return strings.Join(strings.Fields(strings.Join(b, " ")), " ")
+}
+
+// TestPeakErrorIsPhaseLag holds "peak error" (the pane's, in help and
+// README: the largest instantaneous difference from the ideal output,
+// phase lag included) to the steady state of a single-pole loop, worked by
+// hand: the closed loop NG/(1 + j·x) with x = NG·f/GBW lags the ideal by
+// atan(x), so Vo·|1 − 1/(1 + j·x)| = Vo·x/√(1 + x²) (first-order loop
+// response, from memory). On the demo's gain stage (NG 6.2, 24 kHz,
+// 2.79 V peak) rr2-cmos at 4.09 MHz worst-case GBW gives about 101 mV
+// while its gain magnitude is short by only 1 − 1/√(1 + x²) ≈ 0.07 %.
+// The finite Aol and the start-up transient account for the 3 % allowed.
+func TestPeakErrorIsPhaseLag(t *testing.T) {
+	m := newDemo(t, 120, 40)
+	openPreviewOn(t, m, "rr2-cmos")
+	r := m.prev.res[0]
+	if r.Stage != "gain" || r.Metrics.PeakError == nil {
+		t.Fatalf("preview of %s without a peak error", r.Stage)
+	}
+	x := 6.2 * 24e3 / r.Amp.GBW
+	want := 2.79 * x / math.Sqrt(1+x*x)
+	if got := *r.Metrics.PeakError; math.Abs(got/want-1) > 0.03 {
+		t.Errorf("peak error %g V, want the phase-lag error %g V (x = %g)", got, want, x)
+	}
+	if mag := 1 - 1/math.Sqrt(1+x*x); mag > 0.001 {
+		t.Errorf("precondition: magnitude error %g is not small", mag)
+	}
+	lineWith(t, m.View(), "peak error "+catalog.Format(*r.Metrics.PeakError, catalog.Volt))
+	press(t, m, "?")
+	var help []string
+	for p := range m.helpPages(m.ui.width, m.bodyH()) {
+		m.helpPage = p
+		help = append(help, m.View())
+	}
+	flat := strings.Join(strings.Fields(strings.NewReplacer("│", " ").Replace(strings.Join(help, " "))), " ")
+	if !strings.Contains(flat, "peak error is the largest instantaneous difference from the ideal output over the window, phase lag included") {
+		t.Errorf("the help does not define peak error:\n%s", strings.Join(help, "\n"))
+	}
 }
