@@ -66,9 +66,10 @@ type cacheKey struct {
 	sum   [sha256.Size]byte
 }
 
-// key returns the key of the file at path whose contents are data, or
-// false when the file is not the data (changed while it was read).
-func fileKey(path string, data []byte) (cacheKey, bool) {
+// fileKey returns the key of the file at path whose contents are data,
+// with SHA-256 sum, or false when the file is not the data (changed while
+// it was read).
+func fileKey(path string, data []byte, sum [sha256.Size]byte) (cacheKey, bool) {
 	abs, err := filepath.Abs(path)
 	if err != nil {
 		return cacheKey{}, false
@@ -77,13 +78,14 @@ func fileKey(path string, data []byte) (cacheKey, bool) {
 	if err != nil || st.Size() != int64(len(data)) {
 		return cacheKey{}, false
 	}
-	return cacheKey{path: abs, size: st.Size(), mtime: st.ModTime().UnixNano(), sum: sha256.Sum256(data)}, true
+	return cacheKey{path: abs, size: st.Size(), mtime: st.ModTime().UnixNano(), sum: sum}, true
 }
 
 // get returns the cached parts of the catalog file at path, read as data
-// and shown as file in positions; false when there is no valid entry.
-func (c *Cache) get(path, file string, data []byte) ([]*Part, bool) {
-	k, ok := fileKey(path, data)
+// (whose SHA-256 is sum) and shown as file in positions; false when there
+// is no valid entry.
+func (c *Cache) get(path, file string, data []byte, sum [sha256.Size]byte) ([]*Part, bool) {
+	k, ok := fileKey(path, data, sum)
 	if !ok {
 		return nil, false
 	}
@@ -99,9 +101,10 @@ func (c *Cache) get(path, file string, data []byte) ([]*Part, bool) {
 	return parts, true
 }
 
-// put stores the parts of the catalog file at path, read as data.
-func (c *Cache) put(path string, data []byte, parts []*Part) {
-	k, ok := fileKey(path, data)
+// put stores the parts of the catalog file at path, read as data (whose
+// SHA-256 is sum).
+func (c *Cache) put(path string, data []byte, sum [sha256.Size]byte, parts []*Part) {
+	k, ok := fileKey(path, data, sum)
 	if !ok {
 		return
 	}

@@ -34,7 +34,7 @@ func (e *SyntaxError) Unwrap() error { return e.Err }
 // found as a Problems error. Parts with a problem are left out. A part
 // that gives no lifecycle is active.
 func Decode(file string, data []byte) ([]*Part, error) {
-	parts, probs, _ := decodeFile(file, data, runtime.GOMAXPROCS(0))
+	parts, probs, _ := decodeFile(file, data, runtime.GOMAXPROCS(0), nil)
 	parts, dups := dropDuplicates(parts, map[string]Pos{}, data)
 	probs = append(probs, dups...)
 	sortProblems(probs)
@@ -72,32 +72,42 @@ func (ps Problems) Count() int {
 // decodeFile decodes and validates one file, returning its valid parts,
 // its problems (at most MaxProblems and a count of the rest) and the
 // number of parts left out; duplicate ids are left to the caller, which
-// knows the extent of the source. A large file is decoded in up to pieces
-// parts on as many cores. The parts kept hold no line map and no text of
-// the file (their strings are copies), so the file is garbage once read.
-func decodeFile(file string, data []byte, pieces int) ([]*Part, Problems, int) {
+// knows the extent of the source. A file is decoded in pieces of a few
+// [[part]] tables on up to workers goroutines, each piece holding one of
+// sem's tokens (when sem is not nil) while it works. The parts kept hold
+// no line map and no text of the file (their strings are copies), so the
+// file is garbage once read.
+func decodeFile(file string, data []byte, workers int, sem chan struct{}) ([]*Part, Problems, int) {
 	text := string(data)
 	if err := Prescan(text); err != nil {
 		var le *LimitError
 		errors.As(err, &le)
 		return nil, Problems{{Pos: Pos{file, le.Line}, Err: err}}, 0
 	}
-	// A clean file needs only the lines of its [[part]] headers; the full
-	// position index is built when there is a problem to place.
-	if lines, ok := scanHeaders(text); ok {
-		parts, probs, invalid, exact := decodeText(file, text, lines, pieces)
-		if exact && len(probs) == 0 {
-			return parts, probs, invalid
-		}
+	// A plain file needs only the lines of its [[part]] headers; the full
+	// position index is built when the quick scan cannot be trusted or
+	// there is a problem to place.
+	lines, plain := scanHeaders(text)
+	if !plain {
+		lines = scanLines(text)
 	}
-	parts, probs, invalid, _ := decodeText(file, text, scanLines(text), pieces)
+	if parts, ok := decodeInPieces(file, text, lines, workers, sem); ok {
+		return parts, nil, 0
+	}
+	if plain {
+		lines = scanLines(text)
+	}
+	var parts []*Part
+	var probs Problems
+	var invalid int
+	holding(sem, func() { parts, probs, invalid = decodeText(file, text, lines) })
 	return parts, probs, invalid
 }
 
-// decodeText is decodeFile after the pre-scan, with the positions lines.
-// exact reports whether lines held one entry for each part table.
-func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Problems, invalid int, exact bool) {
-	doc, err := decodePieces(text, lines, pieces)
+// decodeText is decodeFile after the pre-scan, in one piece, with the
+// positions lines.
+func decodeText(file, text string, lines fileLines) (_ []*Part, _ Problems, invalid int) {
+	doc, err := decodeWhole(text)
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
@@ -107,10 +117,16 @@ func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Pr
 				// newline as the next one; the byte offset is exact.
 				line = 1 + strings.Count(text[:st], "\n")
 			}
-			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0, true
+			return nil, Problems{{Pos: Pos{file, line}, Err: &SyntaxError{Msg: pe.Message, Err: err}}}, 0
 		}
-		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0, true
+		return nil, Problems{{Pos: Pos{File: file}, Err: &SyntaxError{Msg: err.Error(), Err: err}}}, 0
 	}
+	return partsOf(file, doc, lines)
+}
+
+// partsOf turns the decoded document of a file into its valid parts and
+// problems, as decodeText returns them.
+func partsOf(file string, doc map[string]any, lines fileLines) (_ []*Part, _ Problems, invalid int) {
 	var probs Problems
 	for _, k := range sortedKeys(doc) {
 		if k != "part" {
@@ -124,24 +140,21 @@ func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Pr
 	}
 	parts := make([]*Part, 0, len(tables))
 	more := 0
-	intern := map[string]string{}
 	keep := func(ps Problems) {
 		n := min(len(ps), max(MaxProblems-len(probs), 0))
 		probs = append(probs, ps[:n]...)
 		more += len(ps) - n
 	}
+	var f fileDecoder
 	for i, t := range tables {
 		pl := partLines{line: lines.top["part"], keys: map[string]int{}}
 		if len(lines.parts) == len(tables) {
 			pl = lines.parts[i]
 		}
-		d := partDecoder{file: file, index: i + 1, bad: map[string]bool{}, intern: intern}
-		p := d.decode(t, pl)
-		keep(d.probs)
-		vp := validate(p, i+1, d.bad)
+		p, dp, vp := f.part(file, i+1, t, pl)
+		keep(dp)
 		keep(vp)
-		if len(d.probs) == 0 && len(vp) == 0 {
-			p.Lines = nil // positions past the header are re-derived when needed
+		if p != nil {
 			parts = append(parts, p)
 		}
 	}
@@ -149,7 +162,33 @@ func decodeText(file, text string, lines fileLines, pieces int) (_ []*Part, _ Pr
 	if more > 0 {
 		probs = append(probs, Problem{Pos: Pos{File: file}, Index: summaryIndex, Err: &UnlistedError{N: more}})
 	}
-	return parts, probs, len(tables) - len(parts), len(lines.parts) == len(tables)
+	return parts, probs, len(tables) - len(parts)
+}
+
+// fileDecoder holds what the parts of one file share while they are
+// decoded on one goroutine.
+type fileDecoder struct {
+	// intern holds one copy of the strings many parts of a file repeat
+	// (technology, lifecycle, pinout, packages).
+	intern map[string]string
+	units  unitMemo // the file's unit spellings, read once each
+}
+
+// part decodes and validates the table t of the index'th part of file,
+// written at the lines pl. It returns the part when it has no problem,
+// else nil and the decoding and validation problems.
+func (f *fileDecoder) part(file string, index int, t map[string]any, pl partLines) (*Part, Problems, Problems) {
+	if f.intern == nil {
+		f.intern = map[string]string{}
+	}
+	d := partDecoder{file: file, index: index, intern: f.intern, units: &f.units}
+	p := d.decode(t, pl)
+	vp := validate(p, index, d.bad)
+	if len(d.probs) > 0 || len(vp) > 0 {
+		return nil, d.probs, vp
+	}
+	p.Lines = nil // positions past the header are re-derived when needed
+	return p, nil, nil
 }
 
 // partTables returns the tables of the "part" array.
@@ -211,10 +250,14 @@ type partDecoder struct {
 	// intern holds one copy of the strings many parts of a file repeat
 	// (technology, lifecycle, pinout, packages).
 	intern map[string]string
+	units  *unitMemo // the file's unit spellings, read once each
 }
 
 // fail records a problem with key.
 func (d *partDecoder) fail(key string, err error) {
+	if d.bad == nil {
+		d.bad = map[string]bool{}
+	}
 	d.bad[key] = true
 	d.probs = append(d.probs, Problem{Pos: Pos{d.file, d.p.Line(key)}, Part: d.p.ID, Index: d.index, Field: key, Err: err})
 }
@@ -226,106 +269,169 @@ func (d *partDecoder) decode(t map[string]any, pl partLines) *Part {
 	if v, ok := t["id"]; ok {
 		p.ID, _ = d.str("id", v, `"xq4-bip"`)
 	}
-	for _, k := range tableKeys(t) {
-		v := t[k]
-		switch k {
-		case "id":
-		case "name":
-			p.Name, _ = d.str(k, v, `"Bipolar quad, single-supply"`)
-		case "tech":
-			s, _ := d.str(k, v, `"cmos"`)
-			p.Tech = Tech(d.shared(s))
-		case "lifecycle":
-			s, _ := d.str(k, v, `"active"`)
-			p.Lifecycle = Lifecycle(d.shared(s))
-		case "pinout":
-			s, _ := d.str(k, v, `"dual-a"`)
-			p.Pinout = d.shared(s)
-		case "datasheet":
-			p.Datasheet, _ = d.str(k, v, `"https://example.invalid/part.pdf"`)
-		case "notes":
-			p.Notes, _ = d.str(k, v, `"any remarks"`)
-		case "channels":
-			p.Channels = d.integer(k, v)
-		case "packages":
-			p.Packages = d.strList(k, v)
-		case "unit_cost":
-			p.UnitCost = d.number(k, v)
-		case "temp":
-			p.Temp = d.tempRange(k, v)
-		case "supply":
-			t := d.table(k, v, spanKeys, `{ min = "3 V", max = "32 V" }`)
-			p.Supply.Min = d.quantity(k, "min", t, Volt)
-			p.Supply.Max = d.quantity(k, "max", t, Volt)
-		case "input_cm":
-			t := d.table(k, v, cmKeys, `{ low = "0 V", high = "-1.5 V" }`)
-			p.InputCM.Low = d.quantity(k, "low", t, Volt)
-			p.InputCM.High = d.quantity(k, "high", t, Volt)
-			p.InputCM.Source = d.source(k, t)
-		case "output":
-			t := d.table(k, v, swingKeys, `{ low = "0.02 V", high = "-1.5 V", load = "10 kOhm" }`)
-			p.Output.Low = d.quantity(k, "low", t, Volt)
-			p.Output.High = d.quantity(k, "high", t, Volt)
-			p.Output.Load = d.quantity(k, "load", t, Ohm)
-			p.Output.Source = d.source(k, t)
-		default:
-			if f, ok := figureByKey(k); ok {
-				d.spec(f, v)
-			} else if s, ok := scalarByKey(k); ok {
-				*s.opt(p) = d.quantity(k, "", map[string]any{"": v}, s.dim)
-			} else {
-				d.fail(k, errors.New("unknown key"+didYouMean(k, partKeys)))
+	// Each known key's value goes to its slot; the slots are then read in
+	// sorted key order, so problems come out in the same order as with
+	// sortedKeys. A table with an unknown key takes the slow path, which
+	// reports it.
+	var vals [maxPartKeys]any
+	if len(partKeys) <= maxPartKeys && pick(t, partKeys, sortedPartSlots, vals[:len(partKeys)]) {
+		for _, i := range sortedPartSlots {
+			if vals[i] != nil {
+				d.field(i, partKeys[i], vals[i])
 			}
+		}
+		return p
+	}
+	for _, k := range tableKeys(t) {
+		if i, ok := partKeySlot[k]; ok {
+			d.field(i, k, t[k])
+		} else {
+			d.fail(k, errors.New("unknown key"+didYouMean(k, partKeys)))
 		}
 	}
 	return p
 }
 
-// spec reads a figure's inline table.
-func (d *partDecoder) spec(f figure, v any) {
-	t := d.table(f.key, v, specKeys, "{ typ = "+strconv.Quote(f.dim.Example())+" }")
-	s := f.spec(d.p)
-	s.Typ = d.quantity(f.key, "typ", t, f.dim)
-	s.Min = d.quantity(f.key, "min", t, f.dim)
-	s.Max = d.quantity(f.key, "max", t, f.dim)
-	s.MinOT = d.quantity(f.key, "min_ot", t, f.dim)
-	s.MaxOT = d.quantity(f.key, "max_ot", t, f.dim)
-	s.Source = d.source(f.key, t)
+// field reads the value v of the part key k, partKeys[i].
+func (d *partDecoder) field(i int, k string, v any) {
+	p := d.p
+	switch k {
+	case "id":
+	case "name":
+		p.Name, _ = d.str(k, v, `"Bipolar quad, single-supply"`)
+	case "tech":
+		s, _ := d.str(k, v, `"cmos"`)
+		p.Tech = Tech(d.shared(s))
+	case "lifecycle":
+		s, _ := d.str(k, v, `"active"`)
+		p.Lifecycle = Lifecycle(d.shared(s))
+	case "pinout":
+		s, _ := d.str(k, v, `"dual-a"`)
+		p.Pinout = d.shared(s)
+	case "datasheet":
+		p.Datasheet, _ = d.str(k, v, `"https://example.invalid/part.pdf"`)
+	case "notes":
+		p.Notes, _ = d.str(k, v, `"any remarks"`)
+	case "channels":
+		p.Channels = d.integer(k, v)
+	case "packages":
+		p.Packages = d.strList(k, v)
+	case "unit_cost":
+		p.UnitCost = d.number(k, v)
+	case "temp":
+		p.Temp = d.tempRange(k, v)
+	case "supply":
+		var f [2]any
+		d.fields(k, v, spanKeys, `{ min = "3 V", max = "32 V" }`, f[:])
+		p.Supply.Min = d.quantity(k, "min", f[0], Volt)
+		p.Supply.Max = d.quantity(k, "max", f[1], Volt)
+	case "input_cm":
+		var f [3]any
+		d.fields(k, v, cmKeys, `{ low = "0 V", high = "-1.5 V" }`, f[:])
+		p.InputCM.Low = d.quantity(k, "low", f[0], Volt)
+		p.InputCM.High = d.quantity(k, "high", f[1], Volt)
+		p.InputCM.Source = d.source(k, f[2])
+	case "output":
+		var f [4]any
+		d.fields(k, v, swingKeys, `{ low = "0.02 V", high = "-1.5 V", load = "10 kOhm" }`, f[:])
+		p.Output.Low = d.quantity(k, "low", f[0], Volt)
+		p.Output.High = d.quantity(k, "high", f[1], Volt)
+		p.Output.Load = d.quantity(k, "load", f[2], Ohm)
+		p.Output.Source = d.source(k, f[3])
+	default:
+		if f := partKeyFigure[i]; f != nil {
+			d.spec(*f, v)
+		} else if s := partKeyScalar[i]; s != nil {
+			*s.opt(p) = d.quantity(k, "", v, s.dim)
+		}
+	}
 }
 
-// table returns v as a table, reporting keys outside known; nil when v is
-// not a table.
-func (d *partDecoder) table(key string, v any, known []string, example string) map[string]any {
+// spec reads a figure's inline table.
+func (d *partDecoder) spec(f figure, v any) {
+	var t [6]any // specKeys order
+	if !d.fields(f.key, v, specKeys, "", t[:]) {
+		if _, isTable := v.(map[string]any); !isTable {
+			d.fail(f.key, fmt.Errorf("%s, want a table such as { typ = %s }", got(v), strconv.Quote(f.dim.Example())))
+		}
+	}
+	s := f.spec(d.p)
+	s.Typ = d.quantity(f.key, "typ", t[0], f.dim)
+	s.Min = d.quantity(f.key, "min", t[1], f.dim)
+	s.Max = d.quantity(f.key, "max", t[2], f.dim)
+	s.MinOT = d.quantity(f.key, "min_ot", t[3], f.dim)
+	s.MaxOT = d.quantity(f.key, "max_ot", t[4], f.dim)
+	s.Source = d.source(f.key, t[5])
+}
+
+// fields reads the inline table v of the key key into vals, one value per
+// name of known (nil where absent), and reports a problem for every key
+// outside known, in sorted order. When v is not a table it reports that,
+// with example, unless example is "" (the caller words it), and returns
+// false.
+func (d *partDecoder) fields(key string, v any, known []string, example string, vals []any) bool {
 	t, ok := v.(map[string]any)
 	if !ok {
-		d.fail(key, fmt.Errorf("%s, want a table such as %s", got(v), example))
-		return nil
+		if example != "" {
+			d.fail(key, fmt.Errorf("%s, want a table such as %s", got(v), example))
+		}
+		return false
+	}
+	if pick(t, known, nil, vals) {
+		return true
 	}
 	for _, k := range unknownKeys(t, known) {
 		d.fail(key, fmt.Errorf("unknown key %q%s", k, didYouMean(k, known)))
 	}
-	return t
+	for i, k := range known {
+		vals[i] = t[k]
+	}
+	return true
 }
 
-// quantity reads t[sub] as a quantity of dimension dim. sub == "" is a
+// pick puts t[known[i]] in vals[i] for every name of known, in the order
+// of order when it is given (a permutation of known's indices), and
+// reports whether t holds no other key. Values absent from t stay nil: the
+// TOML decoder never gives a nil value. Looking each name up is quicker
+// than ranging over t, whose iterator costs more to start than the few
+// lookups of a small table.
+func pick(t map[string]any, known []string, order []int, vals []any) bool {
+	n := 0
+	if order == nil {
+		for i, k := range known {
+			if x, ok := t[k]; ok {
+				vals[i] = x
+				n++
+			}
+		}
+	} else {
+		for _, i := range order {
+			if x, ok := t[known[i]]; ok {
+				vals[i] = x
+				n++
+			}
+		}
+	}
+	return n == len(t)
+}
+
+// quantity reads v, the value of key (or of its sub-key sub), as a
+// quantity of dimension dim; unset when v is nil (absent). sub == "" is a
 // field that is itself a quantity, such as cload.
-func (d *partDecoder) quantity(key, sub string, t map[string]any, dim Dim) Opt {
-	v, ok := t[sub]
-	if !ok {
+func (d *partDecoder) quantity(key, sub string, v any, dim Dim) Opt {
+	if v == nil {
 		return Opt{}
 	}
-	prefix := ""
-	if sub != "" {
-		prefix = sub + " = "
-	}
-	switch v := v.(type) {
-	case string:
-		x, err := Parse(v, dim)
-		if err != nil {
-			d.fail(key, fmt.Errorf("%s%w", prefix, err))
-			return Opt{}
+	if s, ok := v.(string); ok {
+		x, err := d.units.parse(s, dim)
+		if err == nil {
+			return Some(x)
 		}
-		return Some(x)
+		d.fail(key, fmt.Errorf("%s%w", subPrefix(sub), err))
+		return Opt{}
+	}
+	prefix := subPrefix(sub)
+	switch v := v.(type) {
 	case int64, float64:
 		d.fail(key, fmt.Errorf("%s%w", prefix, &UnitError{Text: show(v), Want: dim, Msg: "has no unit", Bare: true}))
 	default:
@@ -334,10 +440,17 @@ func (d *partDecoder) quantity(key, sub string, t map[string]any, dim Dim) Opt {
 	return Opt{}
 }
 
-// source reads the optional source key of a table.
-func (d *partDecoder) source(key string, t map[string]any) Source {
-	v, ok := t["source"]
-	if !ok {
+// subPrefix is "sub = " for messages about a sub-key, "" for none.
+func subPrefix(sub string) string {
+	if sub == "" {
+		return ""
+	}
+	return sub + " = "
+}
+
+// source reads v, the optional source key of a table (nil when absent).
+func (d *partDecoder) source(key string, v any) Source {
+	if v == nil {
 		return ""
 	}
 	s, ok := v.(string)
@@ -430,7 +543,7 @@ func (d *partDecoder) tempRange(key string, v any) [2]Opt {
 	}
 	var r [2]Opt
 	for i, name := range []string{"low", "high"} {
-		r[i] = d.quantity(key, name, map[string]any{name: l[i]}, Celsius)
+		r[i] = d.quantity(key, name, l[i], Celsius)
 	}
 	if !r[0].Known() || !r[1].Known() {
 		return [2]Opt{}
@@ -456,6 +569,36 @@ func scalarByKey(k string) (scalar, bool) {
 		}
 	}
 	return scalar{}, false
+}
+
+// maxPartKeys bounds len(partKeys) for decode's array of slots; a test
+// holds partKeys to it (with more keys decode takes its slow path).
+const maxPartKeys = 48
+
+// Tables by slot, the index of a key in partKeys: partKeySlot finds the
+// slot of a key, sortedPartSlots lists the slots in sorted key order, and
+// partKeyFigure and partKeyScalar hold what each slot's key describes
+// (nil for the other keys).
+var (
+	partKeySlot     = map[string]int{}
+	sortedPartSlots []int
+	partKeyFigure   = make([]*figure, len(partKeys))
+	partKeyScalar   = make([]*scalar, len(partKeys))
+)
+
+func init() {
+	for i, k := range partKeys {
+		partKeySlot[k] = i
+		if j := slices.IndexFunc(figures, func(f figure) bool { return f.key == k }); j >= 0 {
+			partKeyFigure[i] = &figures[j]
+		}
+		if j := slices.IndexFunc(scalars, func(s scalar) bool { return s.key == k }); j >= 0 {
+			partKeyScalar[i] = &scalars[j]
+		}
+	}
+	for _, k := range sortedPartKeys {
+		sortedPartSlots = append(sortedPartSlots, partKeySlot[k])
+	}
 }
 
 // sortedPartKeys is partKeys in sorted order.

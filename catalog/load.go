@@ -173,8 +173,7 @@ func (ld Loader) Load(srcs ...Layer) (*Catalog, error) {
 		c.Invalid += r.invalid
 		parts, dups := dropDuplicates(r.parts, seen, r.data)
 		c.Invalid += len(dups)
-		sum := sha256.Sum256(r.data)
-		c.FileSums = append(c.FileSums, FileSum{Path: srcs[j.src].display(j.name), SHA256: hex.EncodeToString(sum[:]), Parts: len(parts)})
+		c.FileSums = append(c.FileSums, FileSum{Path: srcs[j.src].display(j.name), SHA256: hex.EncodeToString(r.sum[:]), Parts: len(parts)})
 		fp := append(r.probs, dups...)
 		sortProblems(fp)
 		probs = append(probs, fp...)
@@ -215,7 +214,8 @@ type fileResult struct {
 	parts   []*Part
 	probs   Problems
 	invalid int
-	data    []byte // the file, for the positions of duplicate ids
+	data    []byte            // the file, for the positions of duplicate ids
+	sum     [sha256.Size]byte // SHA-256 of data, for FileSums and the cache key
 	readErr error
 }
 
@@ -225,15 +225,15 @@ type fileResult struct {
 // memory stays bounded however many files there are.
 func (ld Loader) decodeAll(srcs []Layer, jobs []fileJob, use func(int, fileResult)) {
 	procs := runtime.GOMAXPROCS(0)
-	pieces := procs // a lone big file is split over the cores instead
-	if len(jobs) > 1 {
-		pieces = 1
-	}
+	// Every file is decoded in pieces on up to procs goroutines, and at
+	// most procs pieces of all the files in flight work at once: a core
+	// that finishes one file's pieces helps with the next file's.
+	sem := make(chan struct{}, procs)
 	window := procs + 1
 	results := make([]chan fileResult, len(jobs))
 	start := func(k int) {
 		results[k] = make(chan fileResult, 1)
-		go func() { results[k] <- ld.decodeJob(srcs, jobs[k], pieces) }()
+		go func() { results[k] <- ld.decodeJob(srcs, jobs[k], procs, sem) }()
 	}
 	for k := 0; k < min(window, len(jobs)); k++ {
 		start(k)
@@ -249,7 +249,7 @@ func (ld Loader) decodeAll(srcs []Layer, jobs []fileJob, use func(int, fileResul
 }
 
 // decodeJob reads and decodes one file, through the cache when there is one.
-func (ld Loader) decodeJob(srcs []Layer, j fileJob, pieces int) fileResult {
+func (ld Loader) decodeJob(srcs []Layer, j fileJob, workers int, sem chan struct{}) fileResult {
 	if j.err.Err != nil {
 		return fileResult{}
 	}
@@ -259,22 +259,23 @@ func (ld Loader) decodeJob(srcs []Layer, j fileJob, pieces int) fileResult {
 		return fileResult{readErr: err}
 	}
 	file := src.display(j.name)
+	sum := sha256.Sum256(data)
 	if ld.Cache != nil && src.FS == nil {
 		path := src.Path
 		if j.name != "" {
 			path = filepath.Join(src.Path, j.name)
 		}
-		if parts, ok := ld.Cache.get(path, file, data); ok {
-			return fileResult{parts: parts, data: data}
+		if parts, ok := ld.Cache.get(path, file, data, sum); ok {
+			return fileResult{parts: parts, data: data, sum: sum}
 		}
-		parts, probs, invalid := decodeFile(file, data, pieces)
+		parts, probs, invalid := decodeFile(file, data, workers, sem)
 		if len(probs) == 0 {
-			ld.Cache.put(path, data, parts)
+			ld.Cache.put(path, data, sum, parts)
 		}
-		return fileResult{parts: parts, probs: probs, invalid: invalid, data: data}
+		return fileResult{parts: parts, probs: probs, invalid: invalid, data: data, sum: sum}
 	}
-	parts, probs, invalid := decodeFile(file, data, pieces)
-	return fileResult{parts: parts, probs: probs, invalid: invalid, data: data}
+	parts, probs, invalid := decodeFile(file, data, workers, sem)
+	return fileResult{parts: parts, probs: probs, invalid: invalid, data: data, sum: sum}
 }
 
 // count fills the figure counts from the final parts.

@@ -4,82 +4,84 @@ import (
 	"bytes"
 	"os"
 	"reflect"
+	"regexp"
 	"strings"
 	"testing"
 )
 
-// TestDecodeTOMLPieces checks the split decoder against decoding the whole
-// file, on large files of several shapes, well-formed and broken.
-func TestDecodeTOMLPieces(t *testing.T) {
+// TestDecodePieces checks decoding in pieces against decoding the whole
+// file in one go and turning its maps into parts, on files of several
+// shapes, well-formed and broken: the parts, problems and count of parts
+// left out must be the same, and the pieces must be what read the
+// well-formed files.
+func TestDecodePieces(t *testing.T) {
 	var buf bytes.Buffer
-	if err := Encode(&buf, synthParts(parallelMinParts+50, 5)); err != nil {
+	if err := Encode(&buf, synthParts(3*pieceParts+50, 5)); err != nil {
 		t.Fatal(err)
 	}
 	base := buf.String()
-	// A sub-table and a multi-line string holding a fake header, in a late part.
-	i := strings.LastIndex(base, "[[part]]")
-	withSub := base[:i] + "[[part]]\nnotes = \"\"\"\n[[part]]\n\"\"\"\n[part.cin]\nx = 1\n" + base[i+len("[[part]]\n"):]
+	late := strings.LastIndex(base, "[[part]]")
+	// A multi-line string holding a fake header, in a late part: the quick
+	// header scan gives up and the full position index places the cuts.
+	withString := base[:late] + notesRE.ReplaceAllLiteralString(base[late:], "\nnotes = \"\"\"\n[[part]]\n\"\"\"\n")
+	if withString == base {
+		t.Fatal("the late part has no notes to rewrite")
+	}
+	withSub := base[:late] + "[[part]]\n[part.cin]\nx = 1\n" + base[late+len("[[part]]\n"):]
+	badLate := strings.Replace(base[late:], `gbw = { typ = "`, `gbw = { typ = "-`, 1)
 	tests := []struct {
-		name    string
-		text    string
-		wantErr bool
+		name         string
+		text         string
+		pieces, errs bool // read by the pieces; has problems
 	}{
-		{"plain", base, false},
-		{"top-level key first", "currency = \"EUR\"\n" + base, false},
-		{"table at the end", base + "[extra]\na = 1\n", false},
-		{"sub-table and string", withSub, false},
-		{"syntax error late", base + "[[part]]\nid = \"x\n", true},
-		{"duplicate key across pieces", "a = 1\n" + base + "[a]\n", true},
+		{"plain", base, true, false},
+		{"multi-line string", withString, true, false},
+		{"top-level key first", "currency = \"EUR\"\n" + base, false, true},
+		{"table at the end", base + "[extra]\na = 1\n", false, true},
+		{"sub-table", withSub, false, true},
+		{"invalid late part", base[:late] + badLate, false, true},
+		{"syntax error late", base + "[[part]]\nid = \"x\n", false, true},
+		{"duplicate key across pieces", "a = 1\n" + base + "[a]\n", false, true},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			lines := scanLines(tc.text)
-			if len(lines.parts) < parallelMinParts {
+			if len(lines.parts) < 3*pieceParts {
 				t.Fatalf("only %d parts: the split is not exercised", len(lines.parts))
 			}
-			got, gotErr := decodePieces(tc.text, lines, 4)
-			want, wantErr := decodeWhole(tc.text)
-			if (wantErr != nil) != tc.wantErr {
-				t.Fatalf("whole-file error %v, want error %v", wantErr, tc.wantErr)
+			wantParts, wantProbs, wantInvalid := decodeText("f.toml", tc.text, lines)
+			if (len(wantProbs) > 0) != tc.errs {
+				t.Fatalf("whole-file problems %v, want problems %v", wantProbs, tc.errs)
 			}
-			if !reflect.DeepEqual(gotErr, wantErr) {
-				t.Fatalf("errors differ: %v / %v", gotErr, wantErr)
+			if _, ok := decodeInPieces("f.toml", tc.text, lines, 3, nil); ok != tc.pieces {
+				t.Fatalf("read by the pieces %v, want %v", ok, tc.pieces)
 			}
-			if !reflect.DeepEqual(got, want) {
-				t.Fatal("decoded documents differ")
+			for _, workers := range []int{1, 4} {
+				parts, probs, invalid := decodeFile("f.toml", []byte(tc.text), workers, make(chan struct{}, 2))
+				if !reflect.DeepEqual(probs, wantProbs) || invalid != wantInvalid {
+					t.Fatalf("%d workers: problems %v (%d invalid), want %v (%d)", workers, probs, invalid, wantProbs, wantInvalid)
+				}
+				if !reflect.DeepEqual(parts, wantParts) {
+					t.Fatalf("%d workers: parts differ from the whole-file decode", workers)
+				}
 			}
 		})
 	}
 }
 
-// BenchmarkDecodeTOML10k compares the split decoder with one-piece
-// decoding on a 10k-part file; the ratio is what matters.
-func BenchmarkDecodeTOML10k(b *testing.B) {
+// notesRE matches a one-line notes key.
+var notesRE = regexp.MustCompile(`\nnotes = "[^"\n]*"\n`)
+
+// BenchmarkScanLines measures the full position index on a 10k-part file.
+func BenchmarkScanLines(b *testing.B) {
 	data, err := os.ReadFile(writeSynth(b, 10000))
 	if err != nil {
 		b.Fatal(err)
 	}
 	text := string(data)
-	lines := scanLines(text)
-	b.Run("whole", func(b *testing.B) {
-		for b.Loop() {
-			if _, err := decodeWhole(text); err != nil {
-				b.Fatal(err)
-			}
-		}
-	})
-	b.Run("pieces", func(b *testing.B) {
-		for b.Loop() {
-			if _, err := decodePieces(text, lines, 4); err != nil {
-				b.Fatal(err)
-			}
-		}
-	})
-	b.Run("scanLines", func(b *testing.B) {
-		for b.Loop() {
-			scanLines(text)
-		}
-	})
+	for b.Loop() {
+		scanLines(text)
+	}
 }
 
 // TestScanHeaders checks the quick header scan against the full position
@@ -114,5 +116,14 @@ func TestScanHeaders(t *testing.T) {
 		if _, ok := scanHeaders(text); ok {
 			t.Errorf("quick scan accepted %q…", text[len(text)-20:])
 		}
+	}
+}
+
+// TestPartKeysFitSlots: decode reads a part's keys through an array of
+// maxPartKeys slots and takes a slower path for every part when there are
+// more keys than that; a new key past the bound must raise it.
+func TestPartKeysFitSlots(t *testing.T) {
+	if len(partKeys) > maxPartKeys {
+		t.Fatalf("%d part keys, but decode has %d slots: raise maxPartKeys", len(partKeys), maxPartKeys)
 	}
 }

@@ -121,7 +121,11 @@ func (e *UnitError) Is(target error) bool { return target == ErrUnit }
 // Parse reads a quantity such as "0.5 V/us", "1.2MHz" or "-40 C" and returns
 // its value in the SI unit of want. A missing or wrong unit, NaN, infinity or
 // an exponent out of float64 range is a *UnitError.
-func Parse(text string, want Dim) (float64, error) {
+func Parse(text string, want Dim) (float64, error) { return (*unitMemo)(nil).parse(text, want) }
+
+// parse is Parse, remembering in m (when not nil) what each unit spelling
+// means, so a file that writes "MHz" ten thousand times reads it once.
+func (m *unitMemo) parse(text string, want Dim) (float64, error) {
 	s := strings.TrimSpace(text)
 	// Accept the typographic minus sign (U+2212) that datasheets print.
 	if rest, ok := strings.CutPrefix(s, "−"); ok {
@@ -131,7 +135,11 @@ func Parse(text string, want Dim) (float64, error) {
 	if num == "" {
 		return 0, &UnitError{Text: text, Want: want, Msg: "is not a number with a unit"}
 	}
-	v, err := strconv.ParseFloat(num, 64)
+	v, exact := exactDecimal(num, 0)
+	var err error
+	if !exact {
+		v, err = strconv.ParseFloat(num, 64)
+	}
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
@@ -147,14 +155,21 @@ func Parse(text string, want Dim) (float64, error) {
 		return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
 	}
 	unit = strings.TrimSpace(unit)
-	scale, got, ok := parseUnit(unit, want)
+	u := m.unit(unit, want)
+	scale, got, ok := u.scale, u.dim, u.ok
 	if !ok {
 		if unit == "" {
 			return 0, &UnitError{Text: text, Want: want, Msg: "has no unit"}
 		}
 		return 0, &UnitError{Text: text, Want: want, Msg: fmt.Sprintf("has an unknown unit %q", unit)}
 	}
-	r := scaled(num, v, scale)
+	r, exact := v, scale == 1
+	if !exact && u.pow10 {
+		r, exact = exactDecimal(num, u.exp10)
+	}
+	if !exact {
+		r = scaled(num, v, scale)
+	}
 	if r == 0 && v != 0 {
 		return 0, &UnitError{Text: text, Want: want, Msg: "is out of range"}
 	}

@@ -250,7 +250,7 @@ func stageFMax(sp *StagePlan, f *PartFigures) float64 {
 	if !sp.HasFMax() || !f.Slew.Known || !f.GBW.Known {
 		return math.NaN()
 	}
-	g1, _ := gainErrorGBW(sp.NoiseGain, 1, sp.GainError, f.Aol)
+	g1, _ := gainErrorGBW(sp.NoiseGain, 1, sp.GainError, f)
 	if !(g1 > 0) {
 		return math.NaN()
 	}

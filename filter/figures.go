@@ -57,6 +57,9 @@ func Figures(p *catalog.Part, plan *Plan) PartFigures {
 		Ib:   w.leakage(p.Ib, p.Tech.FETInput(), dtHot),
 		Ios:  w.leakage(p.Ios, p.Tech.FETInput(), dtHot),
 	}
+	if f.Aol.Known {
+		f.AolRatio = circuit.FromDB(f.Aol.V)
+	}
 	f.GBWHigh = f.GBW
 	f.GBW = w.speed(f.GBW, plan.SpeedTempco, dtAbs)
 	f.Slew = w.speed(f.Slew, plan.SpeedTempco, dtAbs)

@@ -64,4 +64,8 @@ type PartFigures struct {
 	Input      Window
 	Output     Window
 	OutputLoad float64
+	// AolRatio is Aol as a voltage ratio (V/V), circuit.FromDB(Aol.V),
+	// when Aol is known: kept so the gain-error need of every stage and
+	// keystroke takes no power of ten.
+	AolRatio float64
 }

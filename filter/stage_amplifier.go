@@ -191,7 +191,7 @@ func deriveAmplifier(in *StageInput, p *Plan, a amplifier) (StagePlan, error) {
 			return sp, fmt.Errorf("field \"gain_error\": %w", err)
 		}
 		add(Requirement{Key: KeyGBW, Bound: BoundMin, Value: floor, Dim: catalog.Hertz,
-			Need: func(_ *catalog.Part, pf *PartFigures) (float64, string) { return gainErrorGBW(ng, f, eps, pf.Aol) },
+			Need: func(_ *catalog.Part, pf *PartFigures) (float64, string) { return gainErrorGBW(ng, f, eps, pf) },
 			Why: fmt.Sprintf("NG·f/√(1/(1−ε)² − (1 + NG/Aol)²) with each part's own Aol; as Aol → ∞ %s·%s·%.4g (ε = %s); %s for a part with no Aol (ε/4 left to it)",
 				catalog.Format(ng, catalog.Dimensionless), Hz, floor/(ng*f),
 				catalog.Format(eps, catalog.Ratio), catalog.Format(split, catalog.Hertz))})
@@ -271,13 +271,17 @@ const (
 )
 
 // gainErrorGBW is the gain-bandwidth a single-pole part of worst-case DC
-// gain aol (dB) needs to keep a loop of noise gain ng within gain error
+// gain pf.Aol (dB; pf.AolRatio as a ratio) needs to keep a loop of noise gain ng within gain error
 // eps at f (circuit.GBWForGainError with the part's own Aol), and a note.
 // Without an Aol it is the ε/4 split (circuit.GainErrorBudget); with one
 // that alone spends ε it is +Inf (the check fails by −100 %).
-func gainErrorGBW(ng, f, eps float64, aol Figure) (float64, string) {
-	if aol.Known {
-		if g, err := circuit.GBWForGainError(ng, f, eps, circuit.FromDB(aol.V)); err == nil {
+func gainErrorGBW(ng, f, eps float64, pf *PartFigures) (float64, string) {
+	if pf.Aol.Known {
+		ratio := pf.AolRatio
+		if ratio == 0 {
+			ratio = circuit.FromDB(pf.Aol.V) // figures not made by Figures
+		}
+		if g, err := circuit.GBWForGainError(ng, f, eps, ratio); err == nil {
 			return g, noteGBWOwnAol
 		}
 		// The DC loop-gain error alone reaches ε: even a part whose aol

@@ -158,7 +158,7 @@ func TestSchemaRejects(t *testing.T) {
 
 // TestCatalogKeysMatchDecoder compares the schema's keys with the keys
 // the catalog decoder reads, taken from its source: the case labels of
-// partDecoder.decode and the keys of the figures and scalars tables. A
+// partDecoder.field and the keys of the figures and scalars tables. A
 // key added to the decoder without the schema (or the reverse) fails.
 func TestCatalogKeysMatchDecoder(t *testing.T) {
 	dec := decoderCatalogKeys(t)
@@ -317,7 +317,7 @@ slew = { typ = "` + tc.slew + `" }
 func decoderCatalogKeys(t *testing.T) []string {
 	t.Helper()
 	dir := filepath.Join("..", "..", "catalog")
-	keys := caseLabels(t, filepath.Join(dir, "decode.go"), "decode")
+	keys := caseLabels(t, filepath.Join(dir, "decode.go"), "field")
 	keys = append(keys, tableKeys(t, filepath.Join(dir, "keys.go"), "figures", "scalars")...)
 	slices.Sort(keys)
 	return slices.Compact(keys)
