@@ -7,15 +7,16 @@ import (
 	"github.com/opsift/opsift/filter/report"
 )
 
-// statusLine is the second-to-last line of the screen: the status area.
+// statusLine is the first line of the status area, above the key help.
 func statusLine(t *testing.T, m *Model) string {
 	t.Helper()
 	lines := strings.Split(m.View(), "\n")
 	foot := len(m.footLines()) // the key help under it wraps to one or two lines
-	if len(lines) < 1+foot {
+	status := len(m.statusLines(m.ui.width))
+	if len(lines) < status+foot {
 		t.Fatalf("screen of %d lines", len(lines))
 	}
-	return lines[len(lines)-1-foot]
+	return lines[len(lines)-status-foot]
 }
 
 // TestCautionOnEveryScreen: the status area carries the advisory note in

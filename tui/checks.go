@@ -27,11 +27,11 @@ func checkColumns() []column {
 	return []column{
 		{title: "result", width: 9, prio: 100},
 		{title: "check", width: 16, prio: 99},
-		{title: "required", width: 13, prio: 90, right: true},
-		{title: "available", width: 13, prio: 89, right: true},
+		{title: "required", width: 14, prio: 90, right: true},
+		{title: "available", width: 14, prio: 89, right: true},
 		{title: "margin", width: 6, prio: 95, right: true},
 		{title: "basis", width: 11, prio: 50}, // "s simulated"
-		{title: "note", width: 8, prio: 1, flex: true},
+		{title: "note", width: 7, prio: 1, flex: true},
 	}
 }
 
@@ -145,17 +145,22 @@ func (p *checksPane) lines(r *filter.Result, w int) []string {
 				note = safe.Text(a) + " · " + note
 			}
 			// A note longer than its column is read in full on detail lines
-			// under the row, wrapped, rather than cut.
+			// under the row, wrapped, rather than cut; so are the figures
+			// when a narrow pane would cut them (the value that decides).
 			var detail []string
+			req, avail := required(c), available(c, r.Part)
+			if present.Width(req) > widths[2] || present.Width(avail) > widths[3] {
+				detail = wrap("required "+req+" · available "+avail, max(10, w-noteIndent))
+			}
 			if nw := widths[len(widths)-1]; present.Width(note) > nw {
-				detail = wrap(note, max(10, w-noteIndent))
+				detail = append(detail, wrap(note, max(10, w-noteIndent))...)
 				note = ""
 			}
 			margin := present.Margin(c.Margin)
 			if c.Status == filter.StatusFail {
 				margin = st.Fail.Render(margin)
 			}
-			cells := []string{res, "  " + string(c.Req.Key), required(c), available(c, r.Part), margin, basis, st.Why.Render(note)}
+			cells := []string{res, "  " + string(c.Req.Key), req, avail, margin, basis, st.Why.Render(note)}
 			out = append(out, fit(row(cols, widths, cells), w))
 			for _, l := range detail {
 				out = append(out, st.Why.Render(fit(strings.Repeat(" ", noteIndent)+l, w)))

@@ -13,16 +13,18 @@ type column struct {
 	prio  int  // higher stays longer when the pane is narrow
 	flex  bool // takes the width left over
 	right bool // align right
+	grow  int  // widens to this from the width left over, before the flex column
 }
 
 // fitColumns picks the columns that fit in w cells (one space between
 // columns), dropping the lowest priority first, and widens the flex
-// column to use the rest (present.Fit, the one column fitter). It returns
+// column to use the rest, after widening a growing column (present.Fit,
+// the one column fitter). It returns
 // the widths, 0 for a dropped column.
 func fitColumns(cols []column, w int) []int {
 	pc := make([]present.Column, len(cols))
 	for i, c := range cols {
-		pc[i] = present.Column{Width: c.width, Drop: 1 + maxPrio - c.prio, Flex: c.flex}
+		pc[i] = present.Column{Width: c.width, Drop: 1 + maxPrio - c.prio, Flex: c.flex, Grow: c.grow}
 	}
 	return present.Fit(pc, w, 1)
 }

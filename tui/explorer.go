@@ -180,7 +180,7 @@ func (e explorer) update(k tea.KeyMsg, rows int, rs *ranking, parts []*catalog.P
 	switch {
 	case key.Matches(k, keys.Quit) && k.String() == "ctrl+c":
 		return e, exploreQuit, nil
-	case key.Matches(k, keys.Cancel), key.Matches(k, keys.Explore), key.Matches(k, keys.Quit):
+	case key.Matches(k, keys.ExploreBack):
 		return e, exploreBack, nil
 	case key.Matches(k, keys.Up):
 		e.cursor = max(0, e.cursor-1)
@@ -261,6 +261,12 @@ func (e *explorer) settle(idW, w, h int) {
 	}
 	e.colOff = max(0, min(e.colOff, len(e.cols)-1))
 }
+
+// explorerIDW is the explorer's id column width on a screen w cells wide:
+// the catalog's longest id (up to idMaxCap) while it takes no more than a
+// sixth of the width, else down to the least (idWidths); longer ids are
+// cut in the middle.
+func explorerIDW(c *catalogState, w int) int { return min(c.idMax, max(c.idW, w/6)) }
 
 // fixedW is the width of the columns always shown: cursor and mark, id,
 // verdict.
@@ -352,7 +358,7 @@ func (e *explorer) draw(plan *filter.Plan, idW, w, h int, marked func(string) bo
 		if marked(r.Part.ID) {
 			mk = "●"
 		}
-		line := cur + mk + fit(safe.Text(r.Part.ID), idW) + " " + fit(verdict(r), verdictW)
+		line := cur + mk + fitID(safe.Text(r.Part.ID), idW) + " " + fit(verdict(r), verdictW)
 		for j := e.colOff; j <= last; j++ {
 			line += "  " + fitRight(report.ListCell(e.cols[j], r.Cells[j]), e.widths[j])
 		}
@@ -424,6 +430,10 @@ func (m *Model) openExplorer() tea.Cmd {
 
 // updateExplore handles a key in explorer mode.
 func (m *Model) updateExplore(k tea.KeyMsg) tea.Cmd {
+	if key.Matches(k, m.ui.keys.Help) && !m.expl.finding && !m.expl.picking {
+		m.openHelp()
+		return nil
+	}
 	var act explorerAction
 	var cmd tea.Cmd
 	m.expl, act, cmd = m.expl.update(k, explorerRows(m.bodyH()), &m.rank, m.cat.Parts)

@@ -274,3 +274,46 @@ func TestExplorerTypicalLegend(t *testing.T) {
 		t.Errorf("after T the legend still reads as worst case:\n%s", s)
 	}
 }
+
+// TestExplorerHelp: ? in explorer mode opens the help overlay with the
+// explorer's own keys (every key of its footer, each doing what it says:
+// ? and esc below, s, T and space in the tests above), and closing it goes
+// back to the explorer, not to the list; at 80×24 too. A key pressed
+// while finding is text, not help.
+func TestExplorerHelp(t *testing.T) {
+	for _, sz := range [][2]int{{120, 40}, {80, 24}} {
+		m := newDemo(t, sz[0], sz[1])
+		press(t, m, "E", "?")
+		if m.mode != modeHelp {
+			t.Fatalf("%v: ? in the explorer: mode %v, want the help overlay", sz, m.mode)
+		}
+		var all []string
+		for p := 0; p < len(m.helpPages(m.ui.width, m.bodyH())); p++ {
+			m.helpPage = p
+			all = append(all, m.View())
+		}
+		m.helpPage = 0
+		screen := strings.Join(all, "\n")
+		for _, b := range m.ui.keys.explorerKeys() {
+			h := b.Help()
+			if !strings.Contains(screen, h.Key) || !strings.Contains(screen, h.Desc) {
+				t.Errorf("%v: explorer help lacks %q %q:\n%s", sz, h.Key, h.Desc, screen)
+			}
+		}
+		if !strings.Contains(screen, "Explorer keys") || strings.Contains(screen, "replace") {
+			t.Errorf("%v: the overlay shows the browsing keys, not the explorer's:\n%s", sz, screen)
+		}
+		press(t, m, "esc")
+		if m.mode != modeExplore {
+			t.Fatalf("%v: closing help: mode %v, want back in the explorer", sz, m.mode)
+		}
+		press(t, m, "esc", "?")
+		if m.mode != modeHelp || m.helpFrom != modeBrowse || !strings.Contains(m.View(), "replace") {
+			t.Errorf("%v: ? while browsing: mode %v from %v, want the browsing help", sz, m.mode, m.helpFrom)
+		}
+		press(t, m, "esc", "E", "/", "?")
+		if m.mode != modeExplore || m.expl.find != "?" {
+			t.Errorf("%v: ? while finding: mode %v, find %q, want the text", sz, m.mode, m.expl.find)
+		}
+	}
+}

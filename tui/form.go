@@ -208,11 +208,23 @@ func (f *form) lines(plan *filter.Plan, warns []filter.Warning, w int) []formLin
 		default:
 			value = st.Default.Render(fit("—", valueW))
 		}
-		lab := fit(label, labelW)
-		if i == f.cursor {
-			lab = st.Value.Render(lab)
+		// A label longer than its column wraps under itself, the value on
+		// its first line, so no label is cut ("supply current budget").
+		labs := wrap(label, labelW)
+		if len(labs) == 0 {
+			labs = []string{""}
 		}
-		add(fit(mark+lab+" "+value, w), i)
+		for j, l := range labs {
+			lab := fit(l, labelW)
+			if i == f.cursor {
+				lab = st.Value.Render(lab)
+			}
+			if j == 0 {
+				add(fit(mark+lab+" "+value, w), i)
+			} else {
+				add(fit("  "+lab, w), i)
+			}
+		}
 		if f.editing && i == f.cursor && f.editErr != "" {
 			for _, l := range wrap("✗ "+f.editErr, w-4) {
 				add("    "+st.Error.Render(fit(l, w-4)), i)

@@ -28,6 +28,19 @@ func fit(s string, w int) string {
 	return s + strings.Repeat(" ", w-n)
 }
 
+// fitID fits a part id into w cells like fit, but cuts it in the middle,
+// keeping its head and its longer tail ("lownois…l-rev-a"), so ids that
+// differ at the end (revisions, grades) stay told apart.
+func fitID(id string, w int) string {
+	n := ansi.StringWidth(id)
+	if n <= w || w < 5 {
+		return fit(id, w)
+	}
+	head := (w - 1) / 2
+	tail := w - 1 - head
+	return ansi.Truncate(id, head, "") + "…" + ansi.TruncateLeft(id, n-tail, "")
+}
+
 // fitRight is fit aligned to the right.
 func fitRight(s string, w int) string {
 	if w <= 0 {
@@ -82,6 +95,17 @@ func bar(m float64, cells int) string {
 // guaranteed limit, the same in every output (report.BasisMark).
 func basisMark(b filter.Basis) string { return report.BasisMark(b) }
 
+// markedCell is a right-aligned column's figure with its basis mark after
+// a space (report.WithBasis), and an unmarked figure padded by as much, so
+// the figures of a column line up whether marked or not: "-35 % g" over
+// "+3.8 %  ".
+func markedCell(text string, b filter.Basis) string {
+	if basisMark(b) == "" {
+		return text + "  "
+	}
+	return report.WithBasis(text, b)
+}
+
 // bindingCheck returns the check that sets a result's worst margin, or nil.
 func bindingCheck(r *filter.Result) *filter.Check {
 	for i := range r.Checks {
@@ -113,9 +137,14 @@ func quantity(v float64, d catalog.Dim) string {
 	return catalog.Format(v, d)
 }
 
-// span formats a window lo … hi of dimension d.
+// span formats a window lo … hi of dimension d, the unit written once
+// when both ends share it: "-2.79…2.79 V", "-450 mV…1.2 V".
 func span(lo, hi float64, d catalog.Dim) string {
-	return quantity(lo, d) + "…" + quantity(hi, d)
+	a, b := quantity(lo, d), quantity(hi, d)
+	if i := strings.LastIndexByte(a, ' '); i >= 0 && strings.HasSuffix(b, a[i:]) && strings.Contains(b, " ") {
+		a = a[:i]
+	}
+	return a + "…" + b
 }
 
 // costText shows packages × unit cost, e.g. "2×0.12", or "2×?".

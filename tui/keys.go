@@ -30,6 +30,7 @@ type KeyMap struct {
 	Preview        key.Binding // detail area: checks or waveform preview
 	Compare        key.Binding // preview the two shortlisted parts together
 	Versus         key.Binding // detail area: the marked parts side by side
+	VersusScroll   key.Binding // side by side: the part columns left or right
 	StagePrev      key.Binding // preview: previous stage with a waveform
 	StageNext      key.Binding // preview: next stage with a waveform
 	Explore        key.Binding // explorer mode: every part, any figure as a column
@@ -37,6 +38,7 @@ type KeyMap struct {
 	ColumnRight    key.Binding // explorer: column cursor right
 	ExploreColumns key.Binding // explorer: choose the columns
 	Typical        key.Binding // explorer: typical figures instead of the worst case
+	ExploreBack    key.Binding // explorer: back to the list (its help line; esc, q and E do it)
 	AddPart        key.Binding // the entry form, for a new part
 	EditPart       key.Binding // the entry form on the selected part's figures
 	SavePart       key.Binding // entry form: save the part into its catalog file
@@ -50,38 +52,39 @@ func DefaultKeyMap() KeyMap {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(help, desc))
 	}
 	return withEntryKeys(withExplorerKeys(KeyMap{
-		Up:        b([]string{"up", "k"}, "↑/k", "up"),
-		Down:      b([]string{"down", "j"}, "↓/j", "down"),
-		PageUp:    b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
-		PageDn:    b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
-		Top:       b([]string{"home", "g"}, "g/home", "first"),
-		Bottom:    b([]string{"end", "G"}, "G/end", "last"),
-		Focus:     b([]string{"tab"}, "tab", "pane"),
-		FocusBack: b([]string{"shift+tab"}, "shift+tab", "previous pane"),
-		Edit:      b([]string{"enter", "e"}, "enter", "edit"),
-		Accept:    b([]string{"enter"}, "enter", "done"),
-		Cancel:    b([]string{"esc"}, "esc", "cancel"),
-		Failing:   b([]string{"f"}, "f", "+failing"),
-		Sort:      b([]string{"s"}, "s", "sort"),
-		Find:      b([]string{"/"}, "/", "find"),
-		Tech:      b([]string{"t"}, "t", "tech filter"),
-		Package:   b([]string{"p"}, "p", "package filter"),
-		Clear:     b([]string{"c"}, "c", "clear filters"),
-		Mark:      b([]string{" ", "m"}, "space", "mark"),
-		Shortlist: b([]string{"l"}, "l", "shortlist"),
-		Export:    b([]string{"x"}, "x", "export"),
-		Save:      b([]string{"w", "ctrl+s"}, "w", "save design"),
-		Undo:      b([]string{"u"}, "u", "undo edit"),
-		Reload:    b([]string{"r"}, "r", "reload catalog"),
-		Open:      b([]string{"o"}, "o", "edit part file"),
-		Replace:   b([]string{"R"}, "R", "replace"),
-		Preview:   b([]string{"v"}, "v", "wave"),
-		Compare:   b([]string{"V"}, "V", "compare 2 marked"),
-		Versus:    b([]string{"="}, "=", "marked side by side"),
-		StagePrev: b([]string{"["}, "[", "previous stage"),
-		StageNext: b([]string{"]"}, "]", "next stage"),
-		Help:      b([]string{"?"}, "?", "keys"),
-		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+		Up:           b([]string{"up", "k"}, "↑/k", "up"),
+		Down:         b([]string{"down", "j"}, "↓/j", "down"),
+		PageUp:       b([]string{"pgup", "ctrl+b"}, "pgup", "page up"),
+		PageDn:       b([]string{"pgdown", "ctrl+f"}, "pgdn", "page down"),
+		Top:          b([]string{"home", "g"}, "g/home", "first"),
+		Bottom:       b([]string{"end", "G"}, "G/end", "last"),
+		Focus:        b([]string{"tab"}, "tab", "pane"),
+		FocusBack:    b([]string{"shift+tab"}, "shift+tab", "previous pane"),
+		Edit:         b([]string{"enter", "e"}, "enter", "edit"),
+		Accept:       b([]string{"enter"}, "enter", "done"),
+		Cancel:       b([]string{"esc"}, "esc", "cancel"),
+		Failing:      b([]string{"f"}, "f", "+failing"),
+		Sort:         b([]string{"s"}, "s", "sort"),
+		Find:         b([]string{"/"}, "/", "find"),
+		Tech:         b([]string{"t"}, "t", "tech filter"),
+		Package:      b([]string{"p"}, "p", "package filter"),
+		Clear:        b([]string{"c"}, "c", "clear filters"),
+		Mark:         b([]string{" ", "m"}, "space", "mark"),
+		Shortlist:    b([]string{"l"}, "l", "shortlist"),
+		Export:       b([]string{"x"}, "x", "export"),
+		Save:         b([]string{"w", "ctrl+s"}, "w", "save design"),
+		Undo:         b([]string{"u"}, "u", "undo edit"),
+		Reload:       b([]string{"r"}, "r", "reload catalog"),
+		Open:         b([]string{"o"}, "o", "edit part file"),
+		Replace:      b([]string{"R"}, "R", "replace"),
+		Preview:      b([]string{"v"}, "v", "wave"),
+		Compare:      b([]string{"V"}, "V", "compare 2 marked"),
+		Versus:       b([]string{"="}, "=", "marked side by side"),
+		VersusScroll: b([]string{"left", "right"}, "←/→", "side by side: more parts"),
+		StagePrev:    b([]string{"["}, "[", "previous stage"),
+		StageNext:    b([]string{"]"}, "]", "next stage"),
+		Help:         b([]string{"?"}, "?", "keys"),
+		Quit:         b([]string{"q", "ctrl+c"}, "q", "quit"),
 	}))
 }
 
@@ -109,6 +112,7 @@ func withExplorerKeys(k KeyMap) KeyMap {
 	k.ColumnRight = b([]string{"right"}, "→", "column right")
 	k.ExploreColumns = b([]string{"c"}, "c", "columns")
 	k.Typical = b([]string{"T"}, "T", "typical/worst")
+	k.ExploreBack = b([]string{"esc", "q", "E"}, "esc/q/E", "back")
 	return k
 }
 
@@ -124,13 +128,23 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom, k.Focus, k.FocusBack},
 		{k.Edit, k.Failing, k.Sort, k.Find, k.Tech, k.Package, k.Clear},
 		{k.Mark, k.Shortlist, k.Export, k.Save, k.Undo, k.Reload, k.Open, k.AddPart, k.EditPart, k.Help, k.Quit},
-		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore, k.Versus},
+		{k.Replace, k.Preview, k.StagePrev, k.StageNext, k.Compare, k.Explore, k.Versus, k.VersusScroll},
 	}
 }
 
 // explorerKeys are the bottom line in explorer mode.
 func (k *KeyMap) explorerKeys() []key.Binding {
-	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Cancel}
+	return []key.Binding{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical, k.Find, k.Mark, k.Help, k.ExploreBack}
+}
+
+// explorerHelp is the help overlay's key columns in explorer mode.
+func (k *KeyMap) explorerHelp() [][]key.Binding {
+	quit := key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit"))
+	return [][]key.Binding{
+		{k.Up, k.Down, k.PageUp, k.PageDn, k.Top, k.Bottom},
+		{k.ColumnLeft, k.ColumnRight, k.Sort, k.ExploreColumns, k.Typical},
+		{k.Find, k.Mark, k.Help, k.ExploreBack, quit},
+	}
 }
 
 // editKeys are the bottom line while a field or prompt has the keyboard.

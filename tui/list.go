@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 
+	"github.com/charmbracelet/x/ansi"
+
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
@@ -96,32 +98,44 @@ func (l *list) scrollTo(rows int) {
 	l.offset = max(0, min(l.offset, len(l.view)-rows))
 }
 
-// listColumns are the candidate pane's columns; idW fits the catalog's ids.
-func listColumns(idW int) []column {
+// listColumns are the candidate pane's columns; the id column is idW
+// wide and grows to idMax when the pane has room.
+func listColumns(idW, idMax int) []column {
 	return []column{
 		{title: "", width: 2, prio: 100},
 		{title: "#", width: 3, prio: 90, right: true},
-		{title: "id", width: idW, prio: 95},
+		{title: "id", width: idW, prio: 95, grow: idMax},
 		{title: "name", width: 12, prio: 1, flex: true},
 		{title: "tech", width: 7, prio: 3},
 		{title: "ch", width: 2, prio: 2, right: true},
-		{title: "margin", width: 7, prio: 92, right: true},
+		{title: "margin", width: 8, prio: 92, right: true}, // "-35 % g"
 		{title: "", width: barCells, prio: 4},
 		{title: "binding", width: 20, prio: 80},
-		{title: "fmax", width: 9, prio: 5, right: true},
+		{title: "fmax", width: 10, prio: 5, right: true}, // "27.5 kHz g"
 		{title: "pkg×cost", width: 8, prio: 6, right: true},
 	}
 }
 
-// idWidth is the id column's width for a catalog: its longest id, kept
-// between 6 and 16 cells.
-func idWidth(parts []*catalog.Part) int {
+// idWidths are the id column's widths for a catalog: the least, its
+// longest id kept between 6 and idMinCap cells, and the most, its longest
+// id up to idMaxCap, which the column grows to when the pane has room.
+func idWidths(parts []*catalog.Part) (least, most int) {
 	w := 6
 	for _, p := range parts {
-		w = max(w, len(p.ID))
+		w = max(w, ansi.StringWidth(safe.Text(p.ID)))
 	}
-	return min(w, 16)
+	return min(w, idMinCap), min(w, idMaxCap)
 }
+
+// idMinCap and idMaxCap bound the id column: a longer id is cut in its
+// middle (fitID).
+const (
+	idMinCap = 16
+	idMaxCap = 32
+)
+
+// listIDCol is the index of the id column in listColumns.
+const listIDCol = 2
 
 // visible is the range of view indices on screen for rows candidate rows.
 func (l *list) visible(rows int) (from, to int) {
@@ -145,11 +159,11 @@ func listRowsIn(h int) int { return max(0, h-2) }
 
 // draw draws the candidate pane into h lines of w cells. The rows on
 // screen must have been explained (explainVisible) in Update.
-func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW int, focused bool, w, h int) []string {
+func (l *list) draw(rs *ranking, n *narrowing, marks *shortlist, idW, idMax int, focused bool, w, h int) []string {
 	st := &l.u.st
 	out := make([]string, 0, h)
 	out = append(out, paneHeading(st, l.title(rs, n, marks), focused, w))
-	cols := listColumns(idW)
+	cols := listColumns(idW, idMax)
 	widths := fitColumns(cols, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	switch {
@@ -186,7 +200,8 @@ func (l *list) title(rs *ranking, n *narrowing, marks *shortlist) string {
 	}
 	fmt.Fprintf(&b, " · sort %s", n.sortKey())
 	if n.failing && !n.shortlist {
-		b.WriteString(" · +failing")
+		// The sort key orders the passing parts only (filter.Rank).
+		b.WriteString(" · +failing by fewest misses")
 	}
 	if n.tech != "" {
 		b.WriteString(" · tech " + n.tech)
@@ -259,12 +274,12 @@ func (l *list) row(r *filter.Result, i int, marks *shortlist, cols []column, wid
 	fm := r.MinFMax()
 	fmax := "—"
 	if !math.IsNaN(fm) {
-		fmax = catalog.Format(fm, catalog.Hertz) + basisMark(fmaxBasis(r))
+		fmax = markedCell(catalog.Format(fm, catalog.Hertz), fmaxBasis(r))
 	}
 	cells := []string{
 		cur + mark,
 		fmt.Sprint(i + 1),
-		safe.Text(r.Part.ID),
+		fitID(safe.Text(r.Part.ID), widths[listIDCol]),
 		safe.Text(r.Part.Name),
 		string(r.Part.Tech),
 		fmt.Sprint(r.Part.Channels),
@@ -296,11 +311,11 @@ func marginCells(r *filter.Result) (margin, binding string) {
 		if math.IsNaN(r.WorstMargin) {
 			return present.None, ""
 		}
-		mk := ""
+		b := filter.BasisGuaranteed
 		if c := bindingCheck(r); c != nil {
-			mk = basisMark(c.Basis)
+			b = c.Basis
 		}
-		return present.Margin(r.WorstMargin) + mk, present.CheckName(r.Binding.Stage, r.Binding.Key)
+		return markedCell(present.Margin(r.WorstMargin), b), present.CheckName(r.Binding.Stage, r.Binding.Key)
 	}
 	worst := present.Worst(r)
 	if worst == nil { // strict: failing on unknown figures only
@@ -313,5 +328,5 @@ func marginCells(r *filter.Result) (margin, binding string) {
 	if !worst.HasMargin() {
 		return "✗", binding
 	}
-	return present.Margin(worst.Margin) + basisMark(worst.Basis), binding
+	return markedCell(present.Margin(worst.Margin), worst.Basis), binding
 }

@@ -110,6 +110,9 @@ type Model struct {
 	entry  entryForm   // the entry form of a new or edited part (entry.go)
 
 	helpPage int // the help overlay's page
+	// helpFrom is the mode the help overlay was opened from and goes back
+	// to when it closes: browsing, or explorer mode with its own keys.
+	helpFrom mode
 
 	hr    headroomState  // the selected part's headroom, searched lazily (headroom.go)
 	hrGen *atomic.Uint64 // numbers headroom requests; a waiting job searches only if still the newest
@@ -179,7 +182,8 @@ type catalogState struct {
 	techs  []string // technologies present, sorted
 	pkgs   []string // packages present, sorted
 	search map[*catalog.Part]string
-	idW    int // id column width
+	idW    int // id column width: least (idWidths)
+	idMax  int // and most, when the pane has room
 	// eval evaluates the catalog's parts plan after plan, keeping what an
 	// edit leaves unchanged (filter.Incremental).
 	eval *filter.Incremental
@@ -366,13 +370,19 @@ func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 		}
 	}
 	m.applyNarrowing()
-	if m.mode == modeExplore {
+	if m.exploring() {
 		m.expl.refresh(&m.rank, m.cat.Parts)
 	}
 	if m.mode == modeEntry {
 		m.checkEntry()
 	}
 	return next
+}
+
+// exploring reports whether explorer mode is open, on screen or under the
+// help overlay it was opened from.
+func (m *Model) exploring() bool {
+	return m.mode == modeExplore || m.mode == modeHelp && m.helpFrom == modeExplore
 }
 
 // passingSuffice reports whether a ranking of the passing parts alone
@@ -382,7 +392,7 @@ func (m *Model) adoptRanking(r rankedMsg) tea.Cmd {
 // are all among the passing (else the list would explain a vanished
 // selection or export a shortlist without its failing parts).
 func (m *Model) passingSuffice(passing []filter.Result) bool {
-	if m.narrow.failing || m.narrow.shortlist || m.mode == modeExplore || m.mode == modeEntry {
+	if m.narrow.failing || m.narrow.shortlist || m.exploring() || m.mode == modeEntry {
 		return false
 	}
 	sel, marked := m.list.selID == "", 0
@@ -404,9 +414,10 @@ func (m *Model) setCatalog(c *catalog.Catalog) {
 	if c == nil {
 		c = &catalog.Catalog{}
 	}
-	cs := catalogState{Catalog: c, idW: idWidth(c.Parts), search: make(map[*catalog.Part]string, len(c.Parts)),
+	cs := catalogState{Catalog: c, search: make(map[*catalog.Part]string, len(c.Parts)),
 		eval: filter.NewIncremental(c.Parts, filter.Options{Strict: m.cfg.Strict})}
 	cs.techs, cs.pkgs = catalogValues(c.Parts)
+	cs.idW, cs.idMax = idWidths(c.Parts)
 	for _, p := range c.Parts {
 		cs.search[p] = searchText(p)
 	}

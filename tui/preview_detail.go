@@ -13,6 +13,7 @@ import (
 	"github.com/opsift/opsift/catalog"
 	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
+	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/preview"
 	"github.com/opsift/opsift/filter/sim"
 	"github.com/opsift/opsift/tui/plot"
@@ -37,6 +38,18 @@ type previewPane struct {
 	shown   previewFor // what res and err are for
 	res     []*preview.Result
 	err     error
+	// fails is, per previewed part, what it fails (stageFailures), set by
+	// settle from the ranking so the pane never draws a clean trace of a
+	// failing part without saying so.
+	fails []stageFail
+}
+
+// stageFail is what one previewed part fails: the checks of the previewed
+// stage ("input_range -7.8 %"), worst first, and the failing checks
+// elsewhere in the design (stage/key), which the trace does not show.
+type stageFail struct {
+	id          string
+	here, other []string
 }
 
 // previewFor is what a preview shows: the plan it runs in, the stage and
@@ -205,7 +218,7 @@ func (m *Model) previewKey(k tea.KeyMsg) {
 			return
 		}
 		if stage, i, n, ok := m.prev.cycleStage(m.rank.plan, key.Matches(k, keys.StageNext)); ok {
-			m.setMessage("preview stage %s (%d of %d with a waveform)", stage, i, n)
+			m.setMessage("preview: stage %s, %d of %d", stage, i, n)
 		}
 	}
 }
@@ -224,8 +237,79 @@ func (m *Model) showPreview() {
 	m.setMessage("preview: worst-case figures; [ ] stage · v back to checks")
 }
 
-// draw draws the preview into h lines of w cells: a heading, the
-// metrics, the plot with its legend, and the first note.
+// settleFails finds what each previewed part fails (its result's checks,
+// explained here) for the stage the preview shows.
+func (p *previewPane) settleFails(rs *ranking, parts []*catalog.Part) {
+	p.fails = p.fails[:0]
+	stage, ok := previewStage(rs.plan, p.stage)
+	if !ok {
+		return
+	}
+	for _, part := range parts {
+		for i := range rs.results {
+			if rs.results[i].Part != part {
+				continue
+			}
+			rs.explain(i)
+			if f := stageFailures(&rs.results[i], stage); len(f.here)+len(f.other) > 0 {
+				p.fails = append(p.fails, f)
+			}
+			break
+		}
+	}
+}
+
+// stageFailures sorts r's failing checks, worst miss first
+// (present.FailingFirst), into those of stage (key and margin) and the
+// rest (check name and margin, or the hard filter's reason).
+func stageFailures(r *filter.Result, stage string) stageFail {
+	f := stageFail{id: r.Part.ID}
+	for _, c := range present.FailingFirst(r) {
+		if c.Status != filter.StatusFail {
+			break
+		}
+		margin := ""
+		if c.HasMargin() {
+			margin = " " + present.Margin(c.Margin)
+		}
+		switch {
+		case c.Req.Stage == stage:
+			f.here = append(f.here, string(c.Req.Key)+margin)
+		case c.Req.Stage == "":
+			f.other = append(f.other, present.Reason(c)+margin)
+		default:
+			f.other = append(f.other, present.CheckName(c.Req.Stage, c.Req.Key)+margin)
+		}
+	}
+	return f
+}
+
+// failBanner is the text above the plot for one failing part: the checks
+// of the stage it fails, or, when it passes this stage, what it fails
+// elsewhere. named puts the part's id first (a comparison).
+func failBanner(f stageFail, stage string, named bool) string {
+	who := ""
+	if named {
+		who = f.id + " "
+	}
+	if len(f.here) > 0 {
+		s := "✗ " + who + "FAILS stage " + stage + ": " + strings.Join(f.here, ", ")
+		if len(f.other) > 0 {
+			s += fmt.Sprintf(" (+%d failing elsewhere)", len(f.other))
+		}
+		return s
+	}
+	return "✗ " + who + "passes stage " + stage + " but fails the design: " + strings.Join(f.other, ", ")
+}
+
+// cleanTraceNote closes the banner of a part that fails the previewed
+// stage: the model has no phase reversal or other failure the check
+// stands for, so its trace can look clean.
+const cleanTraceNote = "a clean trace here is no pass: the model may not show the failure"
+
+// draw draws the preview into h lines of w cells: a heading, a banner
+// naming what the part fails, the metrics, the plot with its legend, and
+// the first note, wrapped.
 // parts are the parts it is to show (previewParts).
 func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, h int) []string {
 	st := &p.u.st
@@ -265,32 +349,30 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 		out = append(out, st.Muted.Render(fit("simulating…", w)))
 		return append(out, blank(w, h-len(out))...)
 	}
-	for i, r := range res {
-		head := ""
-		if len(res) > 1 {
-			head = r.Part.ID + " (" + traceNames[i] + "): "
+	// What goes above and below the plot, in full and then tighter until
+	// the plot keeps roomyPlot lines: the banner without its closing
+	// remark, then the metrics cut to a line each. The banner's failing
+	// checks and the whole note always show; the plot takes what is left,
+	// and is left out when that is under minPlotLines.
+	var top []string
+	noteLines := noteText(res, w)
+	for tight := 0; tight <= 2; tight++ {
+		top = append(p.bannerLines(stage, len(res) > 1, tight < 1, w), p.metricsLines(res, tight < 2, w)...)
+		if h-len(out)-len(top)-len(noteLines) >= roomyPlot {
+			break
 		}
-		out = append(out, fit(head+metricsText(&r.Metrics), w))
 	}
-	var notes []string
-	for _, r := range res {
-		notes = append(notes, r.Notes...)
-	}
-	noteH := 0
-	if len(notes) > 0 {
-		noteH = 1
-	}
-	if plotH := h - len(out) - noteH; plotH >= 3 {
+	out = append(out, top...)
+	const minPlotLines = 3
+	if plotH := h - len(out) - len(noteLines); plotH >= minPlotLines {
 		for _, l := range strings.Split(plot.Render(w, plotH, p.traces(res), plot.Options{XDim: catalog.Second, YDim: catalog.Volt}), "\n") {
 			out = append(out, fit(l, w))
 		}
 	}
-	if noteH > 0 && len(out) < h {
-		more := ""
-		if len(notes) > 1 {
-			more = fmt.Sprintf(" (+%d more notes: opsift preview)", len(notes)-1)
+	for _, l := range noteLines {
+		if len(out) < h {
+			out = append(out, st.Why.Render(fit(l, w)))
 		}
-		out = append(out, st.Why.Render(fit("note: "+safe.Text(notes[0])+more, w)))
 	}
 	if len(out) > h {
 		out = out[:h]
@@ -298,11 +380,73 @@ func (p *previewPane) draw(rs *ranking, parts []*catalog.Part, focused bool, w, 
 	return append(out, blank(w, h-len(out))...)
 }
 
+// roomyPlot is the plot height (axis, labels and legend included: three
+// lines of trace) the pane shortens its banner, metrics and note for.
+const roomyPlot = 6
+
+// bannerLines are the failing-check banners of the previewed parts,
+// wrapped to w; full closes the last with cleanTraceNote.
+func (p *previewPane) bannerLines(stage string, named, full bool, w int) []string {
+	st := &p.u.st
+	var out []string
+	for i, f := range p.fails {
+		style, text := st.Fail, failBanner(f, stage, named)
+		if len(f.here) == 0 {
+			style = st.Warning
+		}
+		if full && i == len(p.fails)-1 && slices.ContainsFunc(p.fails, func(f stageFail) bool { return len(f.here) > 0 }) {
+			text += " · " + cleanTraceNote
+		}
+		for _, l := range wrap(safe.Text(text), w) {
+			out = append(out, style.Render(fit(l, w)))
+		}
+	}
+	return out
+}
+
+// metricsLines are each previewed part's metrics, wrapped to w, or one
+// line each (cut) unless full.
+func (p *previewPane) metricsLines(res []*preview.Result, full bool, w int) []string {
+	var out []string
+	for i, r := range res {
+		head := ""
+		if len(res) > 1 {
+			head = safe.Text(r.Part.ID) + " (" + traceNames[i] + "): "
+		}
+		text := head + metricsText(&r.Metrics)
+		if !full {
+			out = append(out, fit(text, w))
+			continue
+		}
+		for _, l := range wrap(text, w) {
+			out = append(out, fit(l, w))
+		}
+	}
+	return out
+}
+
+// noteText is the first of the previewed parts' notes, with how many more
+// there are, wrapped to w.
+func noteText(res []*preview.Result, w int) []string {
+	var notes []string
+	for _, r := range res {
+		notes = append(notes, r.Notes...)
+	}
+	if len(notes) == 0 {
+		return nil
+	}
+	more := ""
+	if len(notes) > 1 {
+		more = fmt.Sprintf(" (+%d more notes: opsift preview)", len(notes)-1)
+	}
+	return wrap("note: "+safe.Text(notes[0])+more, w)
+}
+
 // previewIDs names the previewed parts: "a" or "a vs b".
 func previewIDs(res []*preview.Result) string {
 	ids := make([]string, len(res))
 	for i, r := range res {
-		ids[i] = r.Part.ID
+		ids[i] = safe.Text(r.Part.ID)
 	}
 	return strings.Join(ids, " vs ")
 }

@@ -8,9 +8,11 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/opsift/opsift/catalog"
+	"github.com/opsift/opsift/catalog/safe"
 	"github.com/opsift/opsift/filter"
 	"github.com/opsift/opsift/filter/present"
 	"github.com/opsift/opsift/filter/replace"
+	"github.com/opsift/opsift/filter/report"
 )
 
 // replacer is replacement mode: what could take the selected part's place
@@ -179,13 +181,14 @@ func (r *replacer) title() string {
 	return b.String()
 }
 
-// replaceColumns are the candidates pane's columns; idW fits the ids and
+// replaceColumns are the candidates pane's columns; the id column is idW
+// wide and grows to idMax when there is room, and
 // designed adds the design column.
-func replaceColumns(idW int, designed bool) []column {
+func replaceColumns(idW, idMax int, designed bool) []column {
 	cols := []column{
 		{title: "", width: 2, prio: 100},
 		{title: "#", width: 3, prio: 60, right: true},
-		{title: "id", width: idW, prio: 99},
+		{title: "id", width: idW, prio: 99, grow: idMax},
 		{title: "footprint", width: 9, prio: 97},
 		{title: "strict", width: 6, prio: 96},
 	}
@@ -198,15 +201,19 @@ func replaceColumns(idW int, designed bool) []column {
 	)
 }
 
+// replaceIDCol is the index of the id column in replaceColumns.
+const replaceIDCol = 2
+
 // listLines draws the candidates pane into h lines of w cells.
 func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 	st := &r.u.st
 	out := []string{paneHeading(st, r.title(), !r.onCompare, w)}
-	idW := 6
+	parts := make([]*catalog.Part, len(r.res.Candidates))
 	for i := range r.res.Candidates {
-		idW = max(idW, len(r.res.Candidates[i].Part.ID))
+		parts[i] = r.res.Candidates[i].Part
 	}
-	cols := replaceColumns(min(idW, 16), r.res.Designed)
+	idW, idMax := idWidths(parts)
+	cols := replaceColumns(idW, idMax, r.res.Designed)
 	widths := fitColumns(cols, w)
 	out = append(out, st.Header.Render(fit(header(cols, widths), w)))
 	if len(r.res.Candidates) == 0 {
@@ -230,7 +237,7 @@ func (r *replacer) listLines(w, h int, marked func(id string) bool) []string {
 		if c.Strict {
 			strict = "strict"
 		}
-		cells := []string{cur + mark, fmt.Sprint(i + 1), c.Part.ID, foot, strict}
+		cells := []string{cur + mark, fmt.Sprint(i + 1), fitID(safe.Text(c.Part.ID), widths[replaceIDCol]), foot, strict}
 		if r.res.Designed {
 			cells = append(cells, designCell(c.Design))
 		}
@@ -327,9 +334,9 @@ func valueText(f *replace.Field, v replace.Value) string {
 	}
 	switch v.Basis {
 	case replace.Typical:
-		s += "~"
+		s = report.WithBasis(s, filter.BasisTypical)
 	case replace.Graph:
-		s += "g"
+		s = report.WithBasis(s, filter.BasisGraph)
 	}
 	return s
 }

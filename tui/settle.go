@@ -8,6 +8,10 @@ package tui
 // changes the model.
 func (m *Model) settle() {
 	m.ui.footH = len(m.footLines())
+	m.ui.statusH = 1
+	if m.mode != modePrompt && m.mode != modeAsk && m.mode != modeFind {
+		m.ui.statusH = len(m.statusLines(m.ui.width))
+	}
 	m.form.edited = make(map[string]bool, len(m.edits))
 	for _, p := range m.edits {
 		m.form.edited[p] = true
@@ -21,14 +25,17 @@ func (m *Model) settle() {
 	if !l.stacked || m.focus == paneDesign {
 		m.form.settle(m.rank.plan, m.rank.warnings, l.design.w, l.design.h)
 	}
+	if m.detail == detailPreview {
+		m.prev.settleFails(&m.rank, m.previewParts())
+	}
 	if m.detail == detailCompare {
-		m.cmp.settle(m.rank.resPlan, m.marks.results(m.rank.results), m.rank.strict, l.detail.h)
+		m.cmp.settle(m.rank.resPlan, m.marks.results(m.rank.results), m.rank.strict, l.detail.w, l.detail.h)
 	}
 	switch m.mode {
 	case modeReplace:
 		m.repl.settle(m.ui.width, m.bodyH())
 	case modeExplore:
-		m.expl.settle(m.cat.idW, m.ui.width, m.bodyH())
+		m.expl.settle(explorerIDW(&m.cat, m.ui.width), m.ui.width, m.bodyH())
 	case modeEntry:
 		m.entry.settle(m.ui.width, m.bodyH())
 	case modePrompt:

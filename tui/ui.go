@@ -8,8 +8,11 @@ type ui struct {
 	// footH is how many lines the key help at the bottom takes (1 or 2:
 	// it wraps rather than cut a key); the root sets it before settling.
 	footH int
-	st    Styles
-	keys  KeyMap
+	// statusH is how many lines the status line takes (1, or 2 when its
+	// message wraps); the root sets it with footH.
+	statusH int
+	st      Styles
+	keys    KeyMap
 }
 
 // box is a rectangle of the screen in cells.
@@ -38,10 +41,10 @@ func (u *ui) layout() layout {
 	w, h := u.width, u.height
 	l := layout{stacked: w < wideWidth}
 	l.title = box{0, 0, w, 1}
-	foot := max(1, u.footH)
-	l.status = box{0, h - 1 - foot, w, 1}
+	foot, status := max(1, u.footH), max(1, u.statusH)
+	l.status = box{0, h - status - foot, w, status}
 	l.help = box{0, h - foot, w, foot}
-	bodyH := h - 2 - foot
+	bodyH := h - 1 - status - foot
 	listH := max(minListRows+2, bodyH*listShare/100)
 	l.list = box{0, 1, w, listH}
 	lowH := bodyH - listH

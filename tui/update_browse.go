@@ -13,7 +13,7 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Quit):
 		return m.requestQuit()
 	case key.Matches(k, keys.Help):
-		m.mode, m.helpPage = modeHelp, 0
+		m.openHelp()
 	case key.Matches(k, keys.Focus):
 		m.focus = (m.focus + 1) % paneCount
 	case key.Matches(k, keys.FocusBack):
@@ -45,6 +45,9 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 	case key.Matches(k, keys.Sort):
 		m.narrow.cycleSort()
 		m.setMessage("sorted by %s", m.narrow.sortKey())
+		if m.narrow.failing {
+			m.setMessage("sorted by %s: the passing parts; failing ones follow, fewest failing checks first, then the nearest miss", m.narrow.sortKey())
+		}
 		return m.rerank()
 	case key.Matches(k, keys.Find):
 		return m.startFind()
@@ -60,6 +63,10 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		m.narrow.clear()
 		m.applyNarrowing()
 		m.setMessage("filters cleared")
+	case key.Matches(k, keys.Mark) && m.focus == paneDesign:
+		// j/k move the design field here, so a mark would land on a list
+		// row the user is not looking at.
+		m.setMessage("space marks the selected candidate from the list or detail pane (tab); here enter edits the field")
 	case key.Matches(k, keys.Mark):
 		m.toggleMark()
 	case key.Matches(k, keys.Shortlist):
@@ -92,6 +99,16 @@ func (m *Model) updateBrowse(k tea.KeyMsg) tea.Cmd {
 		return m.openExplorer()
 	case key.Matches(k, keys.Versus):
 		m.toggleCompareView()
+	case key.Matches(k, keys.VersusScroll):
+		if m.detail != detailCompare {
+			m.setMessage("← and → scroll the parts of the side-by-side view (=)")
+			return nil
+		}
+		n := 1
+		if k.String() == "left" {
+			n = -1
+		}
+		m.cmp.scrollCols(n)
 	case key.Matches(k, keys.Preview), key.Matches(k, keys.Compare),
 		key.Matches(k, keys.StagePrev), key.Matches(k, keys.StageNext):
 		m.previewKey(k)
@@ -179,6 +196,19 @@ func (m *Model) updateHelp(k tea.KeyMsg) tea.Cmd {
 		}
 		return nil
 	}
-	m.mode, m.helpPage = modeBrowse, 0
+	m.mode, m.helpPage = m.helpFrom, 0
+	if m.mode == modeExplore {
+		m.setMessage("back in the explorer")
+	}
 	return nil
+}
+
+// openHelp opens the help overlay over the current mode (browsing or the
+// explorer), which it shows the keys of and goes back to on closing.
+func (m *Model) openHelp() {
+	m.helpFrom = modeBrowse
+	if m.mode == modeExplore {
+		m.helpFrom = modeExplore
+	}
+	m.mode, m.helpPage = modeHelp, 0
 }

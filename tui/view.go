@@ -27,7 +27,7 @@ func (m *Model) View() string {
 	lines := make([]string, 0, u.height)
 	lines = append(lines, m.titleView(l.title.w))
 
-	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.focus == paneList, l.list.w, l.list.h)
+	body := m.list.draw(&m.rank, &m.narrow, &m.marks, m.cat.idW, m.cat.idMax, m.focus == paneList, l.list.w, l.list.h)
 	designView := func() []string {
 		return m.form.draw(m.rank.plan, m.rank.warnings, m.design, len(m.edits), m.focus == paneDesign, l.design.w, l.design.h)
 	}
@@ -49,7 +49,7 @@ func (m *Model) View() string {
 	case modeReplace:
 		body = m.repl.draw(u.width, len(body), m.marks.has)
 	case modeExplore:
-		body = m.expl.draw(m.rank.resPlan, m.cat.idW, u.width, len(body), m.marks.has)
+		body = m.expl.draw(m.rank.resPlan, explorerIDW(&m.cat, u.width), u.width, len(body), m.marks.has)
 	case modeEntry:
 		body = m.entry.draw(u.width, len(body))
 	}
@@ -62,7 +62,7 @@ func (m *Model) View() string {
 		bottom = []string{a, b}
 	}
 	if bottom != nil {
-		room := 1 + max(1, u.footH) // the status line and the key help
+		room := max(1, u.statusH) + max(1, u.footH) // the status lines and the key help
 		if extra := len(bottom) - room; extra > 0 {
 			body = body[:max(0, len(body)-extra)] // a wrapped prompt error takes body lines
 		}
@@ -81,7 +81,7 @@ func (m *Model) View() string {
 		lines = append(lines, fit(st.Prompt.Render("find: ")+in.View(), u.width))
 		lines = append(lines, m.footLines()...)
 	default:
-		lines = append(lines, m.statusView(u.width))
+		lines = append(lines, m.statusLines(u.width)...)
 		lines = append(lines, m.footLines()...)
 	}
 	// Data strings are escaped where they are drawn; safe.Styled is the
@@ -109,14 +109,23 @@ func (m *Model) titleView(w int) string {
 }
 
 // statusView is the status line: parts passing of total, ranking state
-// and the last message.
-func (m *Model) statusView(w int) string {
+// and the last message; statusLines gives its lines.
+func (m *Model) statusView(w int) string { return strings.Join(m.statusLines(w), "\n") }
+
+// statusLines is the status line, and a second when the message needs it:
+// the counts, the catalog's set-aside banner, the message, and the caution
+// at the right. A message too long for what is left wraps onto a second
+// line at full width rather than lose its end (at 80 columns the first
+// line leaves it about 30 cells).
+func (m *Model) statusLines(w int) []string {
 	st := &m.ui.st
 	var b strings.Builder
 	fmt.Fprintf(&b, " %d of %s pass", m.rank.nPass, plural(len(m.cat.Parts), "part"))
 	if m.marks.len() > 0 {
 		fmt.Fprintf(&b, " · %d marked", m.marks.len())
 	}
+	counts := b.String()
+	b.Reset()
 	if m.rank.loading != "" {
 		b.WriteString(" · reading the catalog…")
 	} else if m.rank.running {
@@ -125,26 +134,55 @@ func (m *Model) statusView(w int) string {
 	if n := len(m.rank.warnings); n > 0 {
 		b.WriteString(" · " + st.Warning.Render("⚠ "+plural(n, "warning")))
 	}
-	left := st.Status.Render(b.String())
+	state := b.String()
 	if banner := setAsideBanner(m.cat.Catalog); banner != "" {
-		left += st.Error.Render(" · " + banner)
+		state += st.Error.Render(" · " + banner)
 	}
+	msg := ""
 	if m.message != "" {
-		msg := st.Message.Render(m.message)
+		msg = st.Message.Render(m.message)
 		if m.msgErr {
 			msg = st.Error.Render("! " + m.message)
 		}
-		left += st.Muted.Render(" │ ") + msg
 	}
 	// The caution stays on every result screen: the long form when it fits
 	// beside the counts and the message, else the short one, which the
 	// message gives way to.
+	left := st.Status.Render(counts) + state
 	note := cautionStatus
-	if ansi.StringWidth(left)+1+len([]rune(note))+1 > w {
+	msgW := ansi.StringWidth(msg)
+	if msgW > 0 {
+		msgW += 3 // " │ "
+	}
+	if ansi.StringWidth(left)+msgW+1+len([]rune(note))+1 > w {
 		note = cautionStatusShort
 	}
 	right := " " + st.Caution.Render(note) + " "
-	return fit(left, max(0, w-ansi.StringWidth(right))) + right
+	room := max(0, w-ansi.StringWidth(right))
+	if msg == "" {
+		return []string{fit(left, room) + right}
+	}
+	first := left + st.Muted.Render(" │ ")
+	if ansi.StringWidth(first)+ansi.StringWidth(msg) <= room {
+		return []string{fit(first+msg, room) + right}
+	}
+	// Wrapped: the message's words over two lines, the second at full width.
+	style := st.Message
+	text := m.message
+	if m.msgErr {
+		style, text = st.Error, "! "+m.message
+	}
+	firstW := max(1, room-ansi.StringWidth(first))
+	parts := wrap(text, firstW)
+	if len(parts) == 0 {
+		return []string{fit(first, room) + right}
+	}
+	rest := strings.Join(parts[1:], " ")
+	out := []string{fit(first+style.Render(parts[0]), room) + right}
+	if rest != "" {
+		out = append(out, fit(" "+style.Render(rest), w))
+	}
+	return out
 }
 
 // cautionStatus and cautionStatusShort are the status line's reminder;
@@ -161,7 +199,11 @@ func (m *Model) footLines() []string {
 	k := &m.ui.keys
 	var bs []key.Binding
 	tail := ""
-	switch m.mode {
+	mode := m.mode
+	if mode == modeHelp {
+		mode = m.helpFrom // the keys the overlay goes back to
+	}
+	switch mode {
 	case modeReplace:
 		bs = append(k.replaceKeys(), k.Quit)
 	case modeExplore:
@@ -231,7 +273,7 @@ func packItems(items []string, sep string, w, n int) []string {
 }
 
 // bodyH is the height of the screen between the title and the status line.
-func (m *Model) bodyH() int { return m.ui.height - 2 - max(1, m.ui.footH) }
+func (m *Model) bodyH() int { return m.ui.height - 1 - max(1, m.ui.statusH) - max(1, m.ui.footH) }
 
 // paneHeading draws a pane's heading across w cells: a light rule for a
 // pane, a heavy one for the focused pane, so focus shows without colour.
@@ -276,19 +318,14 @@ func (m *Model) helpOverlay(w, h int) []string {
 func (m *Model) helpPages(w, h int) [][]string {
 	st := &m.ui.st
 	inner := max(20, w-6) // frame and padding
-	body := []string{st.Section.Render("Keys") + st.Muted.Render("  (any other key closes this)")}
-	body = append(body, keyGrid(st, m.ui.keys.FullHelp(), inner)...)
+	cols, markers, title := m.ui.keys.FullHelp(), browseMarkers, "Keys"
+	if m.helpFrom == modeExplore {
+		cols, markers, title = m.ui.keys.explorerHelp(), explorerMarkers, "Explorer keys"
+	}
+	body := []string{st.Section.Render(title) + st.Muted.Render("  (any other key closes this)")}
+	body = append(body, keyGrid(st, cols, inner)...)
 	body = append(body, st.Section.Render("Markers"))
-	for _, l := range []string{
-		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
-		"~ typical figure, derated or inflated by the design's policy",
-		"g typical figure read off a datasheet graph",
-		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
-		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
-		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
-		"● modified: the design has edits not saved (w saves in place, u undoes)",
-		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
-	} {
+	for _, l := range markers {
 		body = append(body, wrap(l, inner)...)
 	}
 	body = append(body, wrap("Caution: "+report.Caution, inner)...)
@@ -311,6 +348,29 @@ func (m *Model) helpPages(w, h int) [][]string {
 	}
 	return pages
 }
+
+// browseMarkers and explorerMarkers are what the help overlay says the
+// marks of the main screen and of explorer mode mean.
+var (
+	browseMarkers = []string{
+		"▸ cursor  ● marked  ✓ pass  ✗ FAIL  ? unknown: the catalog lacks the figure",
+		"~ typical figure, derated or inflated by the design's policy",
+		"g typical figure read off a datasheet graph",
+		"s check measured by simulation at worst case (thd); not simulated for a part that fails another check",
+		"margin: spare at worst case, ≥ 0 passes; from ×10 the figure over the need",
+		"s sort: orders the passing parts; with f the failing ones follow, fewest failing checks first, then the nearest miss, whatever the sort",
+		"fmax: highest sine frequency at the stage's amplitude at which slew and gbw still pass",
+		"wave preview (v, V): ✗ above the plot names the checks of the stage the part fails; peak error is the largest instantaneous difference from the ideal output over the window, phase lag included (the gain_error check is a magnitude error only, so peak error can be larger)",
+		"● modified: the design has edits not saved (w saves in place, u undoes)",
+		"entry form (a, A): ! marks a field with a problem; every printable key is text there, ctrl+s saves",
+	}
+	explorerMarkers = []string{
+		"▸ cursor  ● marked  ✓ pass  ✗ N: fails N checks of the design (shown dim)",
+		"▲ ▼ the sort column, ascending or descending; [·col] the column cursor s sorts on",
+		"worst case: figures at the design's temperature range; ~ typical × derate_typ or × inflate_typ, g the same read off a graph, — not given",
+		"T typical: figures as the catalog gives them (~ typical, g read off a graph; unmarked: a stated limit)",
+	}
+)
 
 // keyGrid draws the key columns of the full help side by side while they
 // fit in w cells, starting a new row of columns beyond.
@@ -367,13 +427,15 @@ func keyGrid(st *Styles, cols [][]key.Binding, w int) []string {
 	return out
 }
 
-// tooSmallView fills the screen with a note asking for a bigger terminal.
+// tooSmallView fills the screen with a note asking for a bigger terminal,
+// wrapped to its width.
 func (m *Model) tooSmallView() string {
 	u := m.ui
 	msg := fmt.Sprintf("terminal %d×%d is too small: opsift needs at least %d×%d (q quits)", u.width, u.height, minWidth, minHeight)
-	lines := blank(u.width, u.height)
-	if u.height > 0 {
-		lines[0] = fit(msg, u.width)
+	var lines []string
+	for _, l := range wrap(msg, u.width) {
+		lines = append(lines, fit(l, u.width))
 	}
-	return strings.Join(lines, "\n")
+	lines = lines[:min(len(lines), max(0, u.height))]
+	return strings.Join(append(lines, blank(u.width, u.height-len(lines))...), "\n")
 }

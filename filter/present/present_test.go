@@ -126,4 +126,18 @@ func TestFit(t *testing.T) {
 	if flex[1] != 15 {
 		t.Errorf("flex column %d, want 15", flex[1])
 	}
+	// A growing column widens from what is left before the flex column.
+	for _, tc := range []struct {
+		width int
+		want  []int
+	}{
+		{30, []int{8, 5, 15}}, // grows to 8, the flex takes the other 15
+		{16, []int{8, 5, 1}},  // 4 left over: all to the growing column, the flex at its least
+		{11, []int{5, 5, 0}},  // the flex dropped: the cell it leaves goes to the growing column
+	} {
+		got := Fit([]Column{{Width: 4, Grow: 8}, {Width: 5}, {Width: 1, Flex: true, Drop: 1}}, tc.width, 1)
+		if !slices.Equal(got, tc.want) {
+			t.Errorf("Fit with Grow at %d = %v, want %v", tc.width, got, tc.want)
+		}
+	}
 }

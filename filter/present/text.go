@@ -71,13 +71,17 @@ type Column struct {
 	Min   int  // cells it may be shortened to instead of dropped; 0 = not shortened
 	Drop  int  // drop order when short of width: the highest goes first; 0 never
 	Flex  bool // takes any width left over
+	// Grow is the width a kept column widens to from the width left over,
+	// before a Flex column takes the rest (a column of long ids); 0 = none.
+	Grow int
 }
 
 // Fit lays columns into width cells with gap cells between them. While
 // they do not fit, the kept column with the highest Drop goes: shortened
 // towards its Min first when it has one, else dropped; when no droppable
 // column is left, a column that is never dropped (Drop 0) but has a Min is
-// shortened, the last first. A Flex column then takes what is left. It
+// shortened, the last first. Columns with a Grow then widen towards it
+// from what is left, in order, and a Flex column takes the rest. It
 // returns each column's width, 0 for a dropped one.
 func Fit(cols []Column, width, gap int) []int {
 	w := make([]int, len(cols))
@@ -123,6 +127,11 @@ func Fit(cols []Column, width, gap int) []int {
 		}
 		if done {
 			break
+		}
+	}
+	for i, c := range cols {
+		if spare := width - total(); spare > 0 && w[i] > 0 && c.Grow > w[i] {
+			w[i] += min(spare, c.Grow-w[i])
 		}
 	}
 	if spare := width - total(); spare > 0 {
