@@ -7,11 +7,14 @@ import (
 	"github.com/BurntSushi/toml"
 )
 
-// pieceParts is the number of [[part]] tables decoded as one piece. The
-// TOML decoder is about a third quicker on a document of a hundred parts
-// than on one of a few thousand (its working set stays in the caches;
-// BenchmarkPieceSize), and the maps of a small piece are still in the
-// caches when they are turned into parts right after.
+// pieceParts is the number of [[part]] tables decoded as one piece. A
+// piece's maps are turned into parts right after they are decoded, while
+// they are still in the caches, and are garbage within milliseconds, so a
+// collection during the load has little to mark; a whole file's maps (some
+// 40 MB for 4000 parts) would stay live until its last part is read. Small
+// pieces also let every core work to the end of a load of unequal files.
+// The decoder itself is at best a few per cent quicker on a small document
+// (BenchmarkPieceSize).
 const pieceParts = 128
 
 // decodeInPieces decodes a catalog file whose [[part]] headers are at
