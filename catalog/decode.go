@@ -274,7 +274,7 @@ func (d *partDecoder) decode(t map[string]any, pl partLines) *Part {
 	// sortedKeys. A table with an unknown key takes the slow path, which
 	// reports it.
 	var vals [maxPartKeys]any
-	if len(partKeys) <= maxPartKeys && pick(t, partKeys, sortedPartSlots, vals[:len(partKeys)]) {
+	if len(partKeys) <= maxPartKeys && pick(t, partKeys, vals[:len(partKeys)]) {
 		for _, i := range sortedPartSlots {
 			if vals[i] != nil {
 				d.field(i, partKeys[i], vals[i])
@@ -351,9 +351,7 @@ func (d *partDecoder) field(i int, k string, v any) {
 func (d *partDecoder) spec(f figure, v any) {
 	var t [6]any // specKeys order
 	if !d.fields(f.key, v, specKeys, "", t[:]) {
-		if _, isTable := v.(map[string]any); !isTable {
-			d.fail(f.key, fmt.Errorf("%s, want a table such as { typ = %s }", got(v), strconv.Quote(f.dim.Example())))
-		}
+		d.fail(f.key, fmt.Errorf("%s, want a table such as { typ = %s }", got(v), strconv.Quote(f.dim.Example())))
 	}
 	s := f.spec(d.p)
 	s.Typ = d.quantity(f.key, "typ", t[0], f.dim)
@@ -377,39 +375,26 @@ func (d *partDecoder) fields(key string, v any, known []string, example string, 
 		}
 		return false
 	}
-	if pick(t, known, nil, vals) {
+	if pick(t, known, vals) {
 		return true
 	}
 	for _, k := range unknownKeys(t, known) {
 		d.fail(key, fmt.Errorf("unknown key %q%s", k, didYouMean(k, known)))
 	}
-	for i, k := range known {
-		vals[i] = t[k]
-	}
-	return true
+	return true // pick has filled vals with the known keys
 }
 
-// pick puts t[known[i]] in vals[i] for every name of known, in the order
-// of order when it is given (a permutation of known's indices), and
-// reports whether t holds no other key. Values absent from t stay nil: the
-// TOML decoder never gives a nil value. Looking each name up is quicker
-// than ranging over t, whose iterator costs more to start than the few
-// lookups of a small table.
-func pick(t map[string]any, known []string, order []int, vals []any) bool {
+// pick puts t[known[i]] in vals[i] for every name of known and reports
+// whether t holds no other key. Values absent from t stay nil: the TOML
+// decoder never gives a nil value. Looking each name up is quicker than
+// ranging over t, whose iterator costs more to start than the few lookups
+// of a small table.
+func pick(t map[string]any, known []string, vals []any) bool {
 	n := 0
-	if order == nil {
-		for i, k := range known {
-			if x, ok := t[k]; ok {
-				vals[i] = x
-				n++
-			}
-		}
-	} else {
-		for _, i := range order {
-			if x, ok := t[known[i]]; ok {
-				vals[i] = x
-				n++
-			}
+	for i, k := range known {
+		if x, ok := t[k]; ok {
+			vals[i] = x
+			n++
 		}
 	}
 	return n == len(t)

@@ -277,11 +277,7 @@ const (
 // that alone spends ε it is +Inf (the check fails by −100 %).
 func gainErrorGBW(ng, f, eps float64, pf *PartFigures) (float64, string) {
 	if pf.Aol.Known {
-		ratio := pf.AolRatio
-		if ratio == 0 {
-			ratio = circuit.FromDB(pf.Aol.V) // figures not made by Figures
-		}
-		if g, err := circuit.GBWForGainError(ng, f, eps, ratio); err == nil {
+		if g, err := circuit.GBWForGainError(ng, f, eps, pf.AolRatio); err == nil {
 			return g, noteGBWOwnAol
 		}
 		// The DC loop-gain error alone reaches ε: even a part whose aol

@@ -56,6 +56,18 @@ iout = { typ = "60 mA", min = "40 mA" }
 // as a second source on disk, reloading both from disk, at w×h.
 func teamSelector(t *testing.T, w, h int) (*Model, string) {
 	t.Helper()
+	cfg, file := teamConfig(t)
+	m := New(cfg)
+	m.Update(tea.WindowSizeMsg{Width: w, Height: h})
+	run(t, m, m.Init())
+	return m, file
+}
+
+// teamConfig is the selector's configuration over the demo catalog and the
+// team file, written to a temporary directory as a second source on disk,
+// both read again from disk on each reload; file is the team file.
+func teamConfig(t *testing.T) (Config, string) {
+	t.Helper()
 	file := filepath.Join(t.TempDir(), "team.toml")
 	if err := os.WriteFile(file, []byte(teamFile), 0o644); err != nil {
 		t.Fatal(err)
@@ -67,10 +79,7 @@ func teamSelector(t *testing.T, w, h int) (*Model, string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m := New(Config{Design: demoDesign(t), Catalog: c, Load: load, OnDisk: []string{file}, Renderer: asciiRenderer()})
-	m.Update(tea.WindowSizeMsg{Width: w, Height: h})
-	run(t, m, m.Init())
-	return m, file
+	return Config{Design: demoDesign(t), Catalog: c, Load: load, OnDisk: []string{file}, Renderer: asciiRenderer()}, file
 }
 
 // typeInto moves the form's cursor to key's field sub with tab, as a
@@ -433,19 +442,9 @@ func rowOf(f *entryForm, key string) int {
 // tab, saved with ctrl+s and enter, and shows in the list after the
 // background write and reload, without a restart.
 func TestEntryEndToEnd(t *testing.T) {
-	file := filepath.Join(t.TempDir(), "team.toml")
-	if err := os.WriteFile(file, []byte(teamFile), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	load := func() (*catalog.Catalog, error) {
-		return catalog.Load(catalog.FSLayer("demo", data.Catalog), catalog.PathLayer(file))
-	}
-	c, err := load()
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := New(Config{Design: demoDesign(t), Catalog: c, Load: load, OnDisk: []string{file}, Renderer: asciiRenderer(),
-		StartEntry: true, SaveTo: file})
+	cfg, file := teamConfig(t)
+	cfg.StartEntry, cfg.SaveTo = true, file
+	m := New(cfg)
 	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(80, 24))
 	out := &screenLog{r: tm.Output()}
 	out.waitFor(t, "NEW PART")
